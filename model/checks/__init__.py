@@ -1,0 +1,54 @@
+"""Every check of a site, run by :func:`analyse`.
+
+Each check is a pure function ``(Context) -> Iterable[Finding]`` listed in
+:data:`CHECKS`.  To add a rule: write the function in the module of its area,
+cite its source in the docstring, add it to ``CHECKS``, and give it a firing
+case and a near miss in ``tests/model``.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Callable, Iterable
+
+from model.checks.cascade import analyse_pairs, check_cascade
+from model.checks.context import Context
+from model.checks.coverage import (
+    check_ac_unsuitable,
+    check_additional_protection,
+    check_dc_load,
+    check_leakage,
+    check_lighting,
+    check_no_overcurrent,
+)
+from model.checks.earthing import check_earthing
+from model.checks.readings import check_readings
+from model.findings import Analysis, Finding
+from model.site import SiteFile
+
+Check = Callable[[Context], Iterable[Finding]]
+
+CHECKS: list[Check] = [
+    check_cascade,
+    check_ac_unsuitable,
+    check_dc_load,
+    check_additional_protection,
+    check_no_overcurrent,
+    check_earthing,
+    check_leakage,
+    check_lighting,
+    check_readings,
+]
+
+
+def analyse(site: SiteFile) -> Analysis:
+    """Run every check on a site; findings worst first, then by board."""
+    ctx = Context.build(site)
+    ctx.pairs = analyse_pairs(ctx)
+    findings: list[Finding] = []
+    for check in CHECKS:
+        findings.extend(check(ctx))
+    findings.sort(key=Finding.sort_key)
+    return Analysis(rules=site.site.rules, findings=findings, pairs=ctx.pairs)
+
+
+__all__ = ["analyse", "CHECKS", "Context"]

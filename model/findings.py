@@ -1,0 +1,168 @@
+"""What the checks produce: findings, pair analyses, and the whole analysis.
+
+Severity levels (our own four, worst first):
+
+``urgent``
+    Danger is likely now: a device that did not trip, a TT circuit with no
+    residual-current protection.  Make safe before leaving site.
+``required``
+    Does not meet the rule it names; remedial work is needed.
+``advisory``
+    Works, but falls short of good practice or rests on guidance rather than a
+    rule (selectivity, DC blinding, resilience).  Recommend improvement.
+``investigate``
+    The data cannot settle it: a missing reading, an oddly sensitive device, a
+    trend.  Look further before deciding.
+"""
+
+from __future__ import annotations
+
+from dataclasses import asdict, dataclass, field
+from typing import Any, Literal
+
+Severity = Literal["urgent", "required", "advisory", "investigate"]
+SEVERITIES: tuple[Severity, ...] = ("urgent", "required", "advisory", "investigate")
+SEVERITY_RANK: dict[str, int] = {s: i for i, s in enumerate(SEVERITIES)}
+
+#: Shown with every conclusion the tool prints, in every output.
+CAUTION = (
+    "These results support, and do not replace, the judgement of a competent person "
+    "working to the local wiring rules and licensed practice. This is not a certificate."
+)
+
+
+@dataclass(frozen=True, slots=True)
+class Finding:
+    """One thing the checks found, with the source it rests on."""
+
+    rule: str
+    severity: Severity
+    nodes: tuple[str, ...]
+    board: str
+    message: str
+    action: str
+    source: str
+    basis: str = "standard"
+    measured: str | None = None
+    band: str | None = None
+    visit: str | None = None
+
+    def as_json(self) -> dict[str, Any]:
+        d = asdict(self)
+        d["nodes"] = list(self.nodes)
+        return d
+
+    def sort_key(self) -> tuple[int, str, str, tuple[str, ...]]:
+        return (SEVERITY_RANK[self.severity], self.board, self.rule, self.nodes)
+
+
+@dataclass(frozen=True, slots=True)
+class CurrentRange:
+    """An open range of residual current (lo_ma, hi_ma) where selectivity is not guaranteed."""
+
+    lo_ma: float
+    hi_ma: float
+
+    def as_json(self) -> dict[str, Any]:
+        return {"lo_ma": self.lo_ma, "hi_ma": self.hi_ma}
+
+    def text(self) -> str:
+        return f"{fmt_ma(self.lo_ma)} to {fmt_ma(self.hi_ma)}"
+
+
+@dataclass(frozen=True, slots=True)
+class MeasuredMargin:
+    """Selectivity judged from readings taken on site (an estimate from measurements)."""
+
+    selective: bool | None
+    down_slowest_ms: float | None
+    up_fastest_ms: float | None
+    margin_ms: float | None
+    explanation: str
+
+    def as_json(self) -> dict[str, Any]:
+        return asdict(self)
+
+
+@dataclass(frozen=True, slots=True)
+class PairAnalysis:
+    """A series pair of residual-current devices (upstream above downstream)."""
+
+    up: str
+    down: str
+    ratio: float
+    up_delayed: bool
+    rule_ok: bool
+    rule_notes: tuple[str, ...]
+    i_max_ma: float
+    ranges: tuple[CurrentRange, ...]
+    measured: MeasuredMargin | None
+    verdict: Literal["selective", "selective-in-practice", "not-selective"]
+    explanation: str
+
+    def as_json(self) -> dict[str, Any]:
+        return {
+            "up": self.up,
+            "down": self.down,
+            "ratio": self.ratio,
+            "up_delayed": self.up_delayed,
+            "rule_ok": self.rule_ok,
+            "rule_notes": list(self.rule_notes),
+            "i_max_ma": self.i_max_ma,
+            "ranges": [r.as_json() for r in self.ranges],
+            "measured": None if self.measured is None else self.measured.as_json(),
+            "verdict": self.verdict,
+            "explanation": self.explanation,
+        }
+
+
+@dataclass
+class Analysis:
+    """Everything the checks say about one site."""
+
+    rules: str
+    findings: list[Finding] = field(default_factory=list)
+    pairs: list[PairAnalysis] = field(default_factory=list)
+    caution: str = CAUTION
+
+    def worst_by_node(self) -> dict[str, Severity]:
+        """The worst severity of the findings that name each node."""
+        out: dict[str, Severity] = {}
+        for f in self.findings:
+            for n in f.nodes:
+                cur = out.get(n)
+                if cur is None or SEVERITY_RANK[f.severity] < SEVERITY_RANK[cur]:
+                    out[n] = f.severity
+        return out
+
+    def counts(self) -> dict[str, int]:
+        c = {s: 0 for s in SEVERITIES}
+        for f in self.findings:
+            c[f.severity] += 1
+        return c
+
+    def pair(self, up: str, down: str) -> PairAnalysis | None:
+        for p in self.pairs:
+            if p.up == up and p.down == down:
+                return p
+        return None
+
+    def as_json(self) -> dict[str, Any]:
+        return {
+            "rules": self.rules,
+            "caution": self.caution,
+            "counts": self.counts(),
+            "findings": [f.as_json() for f in self.findings],
+            "pairs": [p.as_json() for p in self.pairs],
+        }
+
+
+def fmt_ma(value_ma: float) -> str:
+    """A residual current for people: '150 mA', '5 A', '1.5 A'."""
+    if value_ma >= 1000:
+        return f"{value_ma / 1000:g} A"
+    return f"{value_ma:.3g} mA" if value_ma < 10 else f"{value_ma:.0f} mA"
+
+
+def fmt_ms(value_ms: float) -> str:
+    return f"{value_ms:g} ms"

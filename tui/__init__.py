@@ -1,0 +1,1 @@
+"""tripwise terminal interface: the Textual app and the ``tripwise`` command line."""
