@@ -79,10 +79,10 @@ class DeviceArrays:
         t = len(BREAK_TIMES)
         idn = np.array([d.idn_ma for d in devices], dtype=np.float64).reshape(p)
         code = np.array([_DELAY_CODE[d.delay] for d in devices], dtype=np.int64).reshape(p)
-        mult = np.array(
-            [b.multiple if b.multiple is not None else np.nan for b in BREAK_TIMES]
+        mult = np.array([b.multiple if b.multiple is not None else np.nan for b in BREAK_TIMES])
+        absolute = np.array(
+            [b.abs_a * 1000.0 if b.abs_a is not None else np.nan for b in BREAK_TIMES]
         )
-        absolute = np.array([b.abs_a * 1000.0 if b.abs_a is not None else np.nan for b in BREAK_TIMES])
         tab = np.where(np.isnan(mult)[None, :], absolute[None, :], mult[None, :] * idn[:, None])
         gen_max = np.array([b.general_max_ms for b in BREAK_TIMES], dtype=np.float64)
         s_max = np.array([b.s_max_ms for b in BREAK_TIMES], dtype=np.float64)

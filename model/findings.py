@@ -136,7 +136,7 @@ class Analysis:
         return out
 
     def counts(self) -> dict[str, int]:
-        c = {s: 0 for s in SEVERITIES}
+        c: dict[str, int] = {s: 0 for s in SEVERITIES}
         for f in self.findings:
             c[f.severity] += 1
         return c

@@ -69,12 +69,25 @@ def time_band(node: Any, group: TestGroup, waveform: str, rules: str) -> Band:
         op = operating_band(waveform, idn)
         if op.low >= 0.5:
             return Band(
-                "half", False, False, None, None, "must not trip", NON_OPERATING_SOURCE,
-                "common-practice", required,
+                "half",
+                False,
+                False,
+                None,
+                None,
+                "must not trip",
+                NON_OPERATING_SOURCE,
+                "common-practice",
+                required,
             )
         return Band(
-            "half", False, True, None, None,
-            f"may trip ({waveform} band {op.low:g}–{op.high:g} × IΔn)", op.source, op.basis,
+            "half",
+            False,
+            True,
+            None,
+            None,
+            f"may trip ({waveform} band {op.low:g}–{op.high:g} × IΔn)",
+            op.source,
+            op.basis,
             required,
         )
     mult = GROUP_MULTIPLE[group]
@@ -84,12 +97,21 @@ def time_band(node: Any, group: TestGroup, waveform: str, rules: str) -> Band:
         lo = float(dms) if (dms is not None and group == "x1") else None
         hi = float(bms) if bms is not None else None
         return Band(
-            group, True, False, lo, hi, _range_text(lo, hi) + " (declared setting)",
-            "IEC 60947-2 Annex B (declared setting)", "guidance", required,
+            group,
+            True,
+            False,
+            lo,
+            hi,
+            _range_text(lo, hi) + " (declared setting)",
+            "IEC 60947-2 Annex B (declared setting)",
+            "guidance",
+            required,
         )
     lo_ms, hi_ms = break_limits_ms(mult, delay)
     source = IEC_61008_T1 + ("; " + rs.test_source if required else "")
-    return Band(group, True, False, lo_ms, hi_ms, _range_text(lo_ms, hi_ms), source, "standard", required)
+    return Band(
+        group, True, False, lo_ms, hi_ms, _range_text(lo_ms, hi_ms), source, "standard", required
+    )
 
 
 def _range_text(lo: float | None, hi: float | None) -> str:
@@ -175,7 +197,9 @@ def judge_ramp(band: RampBand, ramp_ma: float | None) -> Judgement:
     if ramp_ma > band.high_ma:
         return Judgement("reading.ramp-out-of-band", f"{ramp_ma:g} mA is above {band.high_ma:g} mA")
     if ramp_ma <= band.low_ma:
-        return Judgement("reading.ramp-out-of-band", f"{ramp_ma:g} mA is at or below {band.low_ma:g} mA")
+        return Judgement(
+            "reading.ramp-out-of-band", f"{ramp_ma:g} mA is at or below {band.low_ma:g} mA"
+        )
     return Judgement(None, f"{ramp_ma:g} mA within {band.text}")
 
 

@@ -35,10 +35,7 @@ def check_text(site: SiteFile, result: Analysis, width: int = 100) -> str:
     c = result.counts()
     total = len(result.findings)
     if total:
-        lines.append(
-            f"{total} finding(s): "
-            + ", ".join(f"{n} {s}" for s, n in c.items() if n)
-        )
+        lines.append(f"{total} finding(s): " + ", ".join(f"{n} {s}" for s, n in c.items() if n))
     else:
         lines.append("No findings.")
     wrap = textwrap.TextWrapper(width=width, initial_indent="    ", subsequent_indent="    ")

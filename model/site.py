@@ -287,20 +287,18 @@ class CircuitNode(_NodeBase):
 
 
 Node = Annotated[
-    Union[
-        OriginNode,
-        BoardNode,
-        SwitchNode,
-        FuseNode,
-        McbNode,
-        RccbNode,
-        RcboNode,
-        SrcdNode,
-        PrcdNode,
-        CbrNode,
-        RcmNode,
-        CircuitNode,
-    ],
+    OriginNode
+    | BoardNode
+    | SwitchNode
+    | FuseNode
+    | McbNode
+    | RccbNode
+    | RcboNode
+    | SrcdNode
+    | PrcdNode
+    | CbrNode
+    | RcmNode
+    | CircuitNode,
     Field(discriminator="kind"),
 ]
 
@@ -380,20 +378,24 @@ class SiteInfo(_Base):
     @classmethod
     def _known_rules(cls, v: Any) -> Any:
         if isinstance(v, str) and v not in ("uk-bs7671-2022", "iec-60364"):
-            raise ValueError(
-                f"unknown rule set {v!r}; choose 'uk-bs7671-2022' or 'iec-60364'"
-            )
+            raise ValueError(f"unknown rule set {v!r}; choose 'uk-bs7671-2022' or 'iec-60364'")
         return v
 
 
 class Reading(_Base):
     """One device's results on one visit."""
 
-    half_0: TripResult | None = Field(default=None, description="½ IΔn at 0°. [ms] or 'did not trip'")
+    half_0: TripResult | None = Field(
+        default=None, description="½ IΔn at 0°. [ms] or 'did not trip'"
+    )
     half_180: TripResult | None = Field(default=None, description="½ IΔn at 180°.")
-    x1_0: TripResult | None = Field(default=None, description="1 × IΔn at 0°. [ms] or 'did not trip'")
+    x1_0: TripResult | None = Field(
+        default=None, description="1 × IΔn at 0°. [ms] or 'did not trip'"
+    )
     x1_180: TripResult | None = Field(default=None, description="1 × IΔn at 180°.")
-    x5_0: TripResult | None = Field(default=None, description="5 × IΔn at 0°. [ms] or 'did not trip'")
+    x5_0: TripResult | None = Field(
+        default=None, description="5 × IΔn at 0°. [ms] or 'did not trip'"
+    )
     x5_180: TripResult | None = Field(default=None, description="5 × IΔn at 180°.")
     ramp_ma: Annotated[float, Field(strict=True, gt=0, le=100_000)] | None = Field(
         default=None, description="Ramp test trip current. [mA]"

@@ -8,6 +8,7 @@ always gives the same bytes.
 
 from __future__ import annotations
 
+import contextlib
 import json
 import os
 from pathlib import Path
@@ -96,7 +97,7 @@ def parse_site(text: str | bytes, path: str | os.PathLike[str] | None = None) ->
     except RecursionError:
         raise SiteLoadError(path, "JSON nested too deeply") from None
     if not isinstance(raw, dict) or raw.get("format") != FORMAT_NAME:
-        raise SiteLoadError(path, f"not a tripwise site file (no \"format\": \"{FORMAT_NAME}\")")
+        raise SiteLoadError(path, f'not a tripwise site file (no "format": "{FORMAT_NAME}")')
     version = raw.get("version")
     if not isinstance(version, int) or isinstance(version, bool):
         raise SiteLoadError(path, "version: must be a whole number")
@@ -133,7 +134,8 @@ def load_site(path: str | os.PathLike[str]) -> SiteFile:
         raise SiteLoadError(p, "is a folder, not a site file")
     if size > MAX_FILE_BYTES:
         raise SiteLoadError(
-            p, f"file is {size / 1e6:.0f} MB; site files are limited to {MAX_FILE_BYTES // 2**20} MB"
+            p,
+            f"file is {size / 1e6:.0f} MB; site files are limited to {MAX_FILE_BYTES // 2**20} MB",
         )
     try:
         data = p.read_bytes()
@@ -147,7 +149,9 @@ def site_to_dict(site: SiteFile) -> dict[str, Any]:
     d = site.model_dump(mode="json", exclude_defaults=True)
     d["format"] = FORMAT_NAME
     d["version"] = FORMAT_VERSION
-    ordered = {k: d[k] for k in ("format", "version", "site", "nodes", "visits") if k in d}
+    ordered: dict[str, Any] = {
+        k: d[k] for k in ("format", "version", "site", "nodes", "visits") if k in d
+    }
     return ordered
 
 
@@ -168,8 +172,6 @@ def save_site(site: SiteFile, path: str | os.PathLike[str]) -> None:
             os.fsync(fh.fileno())
         os.replace(tmp, p)
     except BaseException:
-        try:
+        with contextlib.suppress(OSError):
             tmp.unlink()
-        except OSError:
-            pass
         raise

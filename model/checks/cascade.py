@@ -53,9 +53,7 @@ def largest_fault_ma(ctx: Context) -> dict[str, float]:
         fallback = u0 / info.ze_ohm * 1000.0
     else:
         fallback = DEFAULT_MAX_FAULT_A.value * 1000.0
-    return {
-        nid: (u0 / z * 1000.0 if z != float("inf") else fallback) for nid, z in min_zs.items()
-    }
+    return {nid: (u0 / z * 1000.0 if z != float("inf") else fallback) for nid, z in min_zs.items()}
 
 
 def _delayed(node: Any) -> bool:
@@ -86,7 +84,9 @@ def measured_margin(
     if r_up is None or r_dn is None or r_up.not_tested or r_dn.not_tested:
         return MeasuredMargin(None, None, None, None, "not both devices have readings")
     if r_up.waveform != "AC" or r_dn.waveform != "AC":
-        return MeasuredMargin(None, None, None, None, "readings were not taken with AC test current")
+        return MeasuredMargin(
+            None, None, None, None, "readings were not taken with AC test current"
+        )
     worst_margin: float | None = None
     d_slow_all: float | None = None
     u_fast_all: float | None = None

@@ -7,7 +7,7 @@ from typing import Any
 
 from model.checks.cascade import DC_BLINDING_SOURCE
 from model.checks.context import Context
-from model.findings import Finding
+from model.findings import Finding, Severity
 from model.limits import ADDITIONAL_IDN_MA, ADDITIONAL_MAX_A, LEAKAGE_FRACTION
 
 #: Loads that can put smooth DC on the residual current (need Type B or DC detection).
@@ -51,13 +51,11 @@ def check_ac_unsuitable(ctx: Context) -> Iterator[Finding]:
                 with_dc.append(c)
         if not unsuitable:
             continue
-        severity = "required" if with_dc else "advisory"
+        severity: Severity = "required" if with_dc else "advisory"
         names = ", ".join(idx.label(c) for c in unsuitable[:6])
         if len(unsuitable) > 6:
             names += f" and {len(unsuitable) - 6} more"
-        dc_note = (
-            f" {len(with_dc)} of them feed loads with a DC component." if with_dc else ""
-        )
+        dc_note = f" {len(with_dc)} of them feed loads with a DC component." if with_dc else ""
         yield Finding(
             rule="type.ac-unsuitable",
             severity=severity,
@@ -159,7 +157,9 @@ def additional_reasons(ctx: Context, circuit: Any) -> list[tuple[str, str]]:
     rated = circuit.rated_a
     small = rated is None or rated <= ADDITIONAL_MAX_A.value
     if circuit.use == "sockets" and small:
-        out.append(("socket-outlets up to 32 A", src("BS 7671 411.3.3(a)", "IEC 60364-4-41 411.3.3")))
+        out.append(
+            ("socket-outlets up to 32 A", src("BS 7671 411.3.3(a)", "IEC 60364-4-41 411.3.3"))
+        )
     outdoor = circuit.use == "outdoor" or (
         "outdoor" in circuit.location and circuit.use not in ("fixed-equipment", "lighting")
     )
@@ -207,7 +207,9 @@ def check_additional_protection(ctx: Context) -> Iterator[Finding]:
         path = idx.rcd_above[c]
         have = (
             "its only residual-current protection is "
-            + ", ".join(f"{idx.label(r)} ({idx.by_id[r].idn_ma:g} mA {idx.by_id[r].delay})" for r in path)
+            + ", ".join(
+                f"{idx.label(r)} ({idx.by_id[r].idn_ma:g} mA {idx.by_id[r].delay})" for r in path
+            )
             if path
             else "it has no residual-current protection"
         )

@@ -84,7 +84,11 @@ def check_earthing(ctx: Context) -> Iterator[Finding]:
             continue
         dev = idx.by_id[best]
         idn = float(dev.idn_ma)
-        if tt and info.ra_ohm is not None and tt_touch_voltage_v(info.ra_ohm, idn) > TT_TOUCH_V.value + 1e-9:
+        if (
+            tt
+            and info.ra_ohm is not None
+            and tt_touch_voltage_v(info.ra_ohm, idn) > TT_TOUCH_V.value + 1e-9
+        ):
             ra_fail.setdefault(best, []).append(c)
         cn = idx.by_id[c]
         if cn.zs_ohm is not None:

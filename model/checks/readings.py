@@ -131,7 +131,9 @@ def _reading_findings(
             nodes=(dev,),
             board=board,
             message=f"{label}: ramp test trip current {jr.text} "
-            + ("(less sensitive than rated)." if high else "(over-sensitive, or standing leakage)."),
+            + (
+                "(less sensitive than rated)." if high else "(over-sensitive, or standing leakage)."
+            ),
             action="Re-test; replace the device if it trips above IΔn."
             if high
             else "Check standing leakage on the circuits below, then re-test.",
