@@ -20,7 +20,7 @@ from __future__ import annotations
 import datetime as dt
 import math
 import re
-from typing import Annotated, Any, Literal, Union
+from typing import Annotated, Any, Literal
 
 from pydantic import (
     BaseModel,
@@ -73,10 +73,7 @@ TestName = Literal["half_0", "half_180", "x1_0", "x1_180", "x5_0", "x5_180"]
 #: measured a trip time.
 DID_NOT_TRIP = "did not trip"
 
-TripResult = Union[
-    Annotated[float, Field(strict=True, gt=0, le=10_000)],
-    Literal["did not trip"],
-]
+TripResult = Annotated[float, Field(strict=True, gt=0, le=10_000)] | Literal["did not trip"]
 
 TEST_NAMES: tuple[TestName, ...] = ("half_0", "half_180", "x1_0", "x1_180", "x5_0", "x5_180")
 
@@ -302,7 +299,7 @@ Node = Annotated[
     Field(discriminator="kind"),
 ]
 
-RcdNode = Union[RccbNode, RcboNode, SrcdNode, PrcdNode, CbrNode]
+RcdNode = RccbNode | RcboNode | SrcdNode | PrcdNode | CbrNode
 
 NODE_CLASSES: dict[str, type[BaseModel]] = {
     "origin": OriginNode,
