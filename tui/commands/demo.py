@@ -63,6 +63,10 @@ def run(args: argparse.Namespace) -> int:
         )
         return 2
     print(f"Demo copy of the invented sample site written to {path}", file=sys.stderr)
-    from tui.commands import check
+    if args.check:
+        from tui.commands import check
 
-    return check.run(argparse.Namespace(site=str(path), json=False))
+        return check.run(argparse.Namespace(site=str(path), json=False))
+    from tui.commands.open import open_app
+
+    return open_app(str(path))

@@ -1,0 +1,68 @@
+"""How model values are shown on screen: inline ratings, severity marks, the caution."""
+
+from __future__ import annotations
+
+from typing import Any
+
+from model.findings import CAUTION
+
+#: Our marks for the worst severity on a node (glyph, style).
+SEVERITY_MARK: dict[str, tuple[str, str]] = {
+    "urgent": ("◆", "bold #ff4d5e"),
+    "required": ("▲", "bold #ff9a3c"),
+    "advisory": ("●", "#e8c547"),
+    "investigate": ("◇", "#5ec8e5"),
+}
+NO_MARK = ("·", "#4a5a66")
+
+#: The caution in a form that fits an 80-column line; it keeps "not a certificate".
+CAUTION_SHORT = "Supports, never replaces, your judgement and local rules. Not a certificate."
+CAUTION_TINY = "Aid to judgement only; follow local rules. Not a certificate."
+
+LIVE_TEST_CAUTION = (
+    "Live test: warn occupants, keep clear of exposed metalwork; competent persons only."
+)
+
+
+def caution_for_width(width: int) -> str:
+    """The longest form of the caution that fits ``width`` cells."""
+    for text in (CAUTION, CAUTION_SHORT, CAUTION_TINY):
+        if len(text) <= width:
+            return text
+    return CAUTION_TINY
+
+
+def _num(v: float) -> str:
+    return f"{v:g}"
+
+
+def node_summary(node: Any) -> str:
+    """The key rating of a node, e.g. '30 mA A general', '100 mA AC S', '32 A sockets'."""
+    kind = node.kind
+    if kind == "origin":
+        return "supply"
+    if kind == "board":
+        return str(node.place or "board")
+    if kind in ("rccb", "rcbo", "srcd", "prcd", "cbr"):
+        delay = node.delay
+        if delay == "set":
+            delay = f"set {_num(node.delay_ms)} ms" if node.delay_ms is not None else "set"
+        text = f"{_num(node.idn_ma)} mA {node.waveform} {delay}"
+        if kind == "rcbo" and node.rated_a is not None:
+            text += f" · {node.curve or ''}{_num(node.rated_a)} A"
+        return text
+    if kind == "rcm":
+        return f"{_num(node.idn_ma)} mA {node.waveform} monitor"
+    if kind == "circuit":
+        rated = f"{_num(node.rated_a)} A " if node.rated_a is not None else ""
+        return f"{rated}{node.use}"
+    if kind == "mcb":
+        return f"{node.curve or ''}{_num(node.rated_a)} A"
+    if kind in ("fuse", "switch"):
+        return f"{_num(node.rated_a)} A" if node.rated_a is not None else kind
+    return str(kind)
+
+
+def node_title(node: Any) -> str:
+    """The label, or the id where there is none."""
+    return str(node.label) if node.label else str(node.id)

@@ -1,0 +1,93 @@
+"""The main screen: the tree beside the node's details, the findings below, the caution always."""
+
+from __future__ import annotations
+
+from typing import Any
+
+from textual import on
+from textual.app import ComposeResult
+from textual.containers import Horizontal, VerticalScroll
+from textual.screen import Screen
+from textual.widgets import Footer, Tree
+
+from tui.widgets.caution_bar import CautionBar
+from tui.widgets.findings_panel import FindingsPanel, FindingsTable
+from tui.widgets.node_details import NodeDetails
+from tui.widgets.site_tree import SiteTree
+from tui.widgets.top_bar import TopBar
+
+
+class MainScreen(Screen[None]):
+    """Shows the app's site; the app calls ``show_*`` after each change."""
+
+    def compose(self) -> ComposeResult:
+        yield TopBar(id="top-bar")
+        with Horizontal(id="body"):
+            yield SiteTree(id="site-tree")
+            with VerticalScroll(id="details-box"):
+                yield NodeDetails(id="details")
+        yield FindingsPanel(id="findings")
+        yield CautionBar(id="caution")
+        yield Footer(compact=True, show_command_palette=False)
+
+    @property
+    def _app(self) -> Any:
+        return self.app
+
+    @property
+    def tree(self) -> SiteTree:
+        return self.query_one(SiteTree)
+
+    @property
+    def findings(self) -> FindingsPanel:
+        return self.query_one(FindingsPanel)
+
+    def on_mount(self) -> None:
+        self.tree.focus()
+        if self._app.session is not None:
+            self.show_site(keep=None)
+
+    def show_site(self, keep: str | None) -> None:
+        """Rebuild the tree (structure changed) and refresh everything else."""
+        app = self._app
+        worst = app.analysis.worst_by_node() if app.analysis is not None else {}
+        current = keep or self.tree.selected_id()
+        self.tree.rebuild(app.index, worst, keep=current)
+        self.show_details()
+        if app.analysis is not None:
+            self.findings.show(app.analysis, app.index)
+
+    def show_analysis(self) -> None:
+        """A new analysis arrived: marks, findings, details."""
+        app = self._app
+        self.tree.set_worst(app.analysis.worst_by_node())
+        self.findings.show(app.analysis, app.index)
+        self.show_details()
+
+    def show_details(self) -> None:
+        app = self._app
+        if app.session is None:
+            return
+        site = app.session.site
+        self.query_one(NodeDetails).show(
+            app.index, self.tree.selected_id(), app.analysis, site.latest_visit(), site.site.rules
+        )
+
+    def select(self, node_id: str) -> None:
+        if self.tree.select_id(node_id):
+            self.show_details()
+
+    def focus_tree(self) -> None:
+        self.tree.focus()
+
+    def focus_findings(self) -> None:
+        self.query_one(FindingsTable).focus()
+
+    @on(Tree.NodeHighlighted, "#site-tree")
+    def _highlighted(self) -> None:
+        self.show_details()
+
+    @on(FindingsPanel.JumpTo)
+    def _jump(self, event: FindingsPanel.JumpTo) -> None:
+        self.select(event.node_id)
+        self.tree.focus()

@@ -1,0 +1,193 @@
+"""The form for one node: exactly the fields its kind has, checked by the model as you type."""
+
+from __future__ import annotations
+
+from collections.abc import Callable
+from typing import Any
+
+from pydantic import BaseModel, ValidationError
+from textual import on
+from textual.app import ComposeResult
+from textual.binding import Binding
+from textual.containers import Horizontal, Vertical, VerticalScroll
+from textual.screen import ModalScreen
+from textual.widget import Widget
+from textual.widgets import Button, Checkbox, Input, Label, Select, SelectionList, Static
+
+from model.site import NODE_CLASSES
+from tui.editing import KIND_TITLES
+from tui.forms import FieldSpec, errors_by_field, field_specs, parse_number
+
+#: Called with the validated node; returns None when the session accepted it, else why not.
+ApplyFn = Callable[[BaseModel], "str | None"]
+
+
+class NodeEditorScreen(ModalScreen[str | None]):
+    """Edit (or create) one node; dismisses with its id once the session has accepted it."""
+
+    BINDINGS = [
+        Binding("ctrl+s", "apply", "Apply", priority=True),
+        Binding("escape", "cancel", "Cancel"),
+    ]
+
+    def __init__(self, values: dict[str, Any], apply: ApplyFn, *, new: bool) -> None:
+        super().__init__()
+        self._kind = str(values["kind"])
+        self._cls = NODE_CLASSES[self._kind]
+        self._values = values
+        self._apply = apply
+        self._new = new
+        self._specs = field_specs(self._cls)
+        #: The message shown at each field now (empty when the form is valid).
+        self.errors: dict[str, str] = {}
+
+    @property
+    def specs(self) -> list[FieldSpec]:
+        return list(self._specs)
+
+    def compose(self) -> ComposeResult:
+        verb = "New" if self._new else "Edit"
+        with Vertical(classes="dialog wide", id="node-form"):
+            yield Label(f"{verb} {KIND_TITLES.get(self._kind, self._kind)}", classes="dialog-title")
+            yield Static("", id="form-error", classes="field-error")
+            with VerticalScroll(id="form-fields"):
+                for spec in self._specs:
+                    with Horizontal(classes="form-row"):
+                        unit = f" [{spec.unit}]" if spec.unit else ""
+                        need = " *" if spec.required else ""
+                        yield Label(f"{spec.title}{unit}{need}", classes="form-label")
+                        with Vertical(classes="form-cell"):
+                            yield self._widget_for(spec)
+                            yield Static("", id=f"err-{spec.name}", classes="field-error")
+            with Horizontal(classes="dialog-buttons"):
+                yield Button("Apply (ctrl+s)", id="apply", variant="primary")
+                yield Button("Cancel (esc)", id="cancel")
+
+    def _widget_for(self, spec: FieldSpec) -> Widget:
+        wid = f"f-{spec.name}"
+        value = self._values.get(spec.name, spec.default)
+        if spec.kind == "choice":
+            return Select(
+                [(c, c) for c in spec.choices],
+                value=value if value in spec.choices else Select.NULL,
+                allow_blank=spec.optional or value not in spec.choices,
+                prompt="(none)" if spec.optional else "choose…",
+                compact=True,
+                id=wid,
+            )
+        if spec.kind == "flag":
+            return Checkbox(spec.help[:60], value=bool(value), compact=True, id=wid)
+        if spec.kind == "flags":
+            chosen = set(value or [])
+            return SelectionList[str](
+                *[(c, c, c in chosen) for c in spec.choices], id=wid, compact=True
+            )
+        if spec.kind == "number":
+            text = "" if value is None else f"{value:g}"
+            return Input(
+                text, placeholder=spec.unit or "number", restrict=r"[0-9.,]*", compact=True, id=wid
+            )
+        disabled = spec.name == "id" and not self._new
+        return Input(
+            "" if value is None else str(value),
+            placeholder=spec.help[:50],
+            compact=True,
+            disabled=disabled,
+            id=wid,
+        )
+
+    def on_mount(self) -> None:
+        for spec in self._specs:
+            w = self.query_one(f"#f-{spec.name}")
+            if w.focusable and not w.disabled:
+                w.focus()
+                break
+        self._check()
+
+    def collect(self) -> tuple[dict[str, Any], dict[str, str]]:
+        """The form's values as model data, and the fields that could not be read."""
+        data: dict[str, Any] = {"kind": self._kind}
+        if "parent" in self._values:
+            data["parent"] = self._values["parent"]
+        bad: dict[str, str] = {}
+        for spec in self._specs:
+            w = self.query_one(f"#f-{spec.name}")
+            if isinstance(w, Select):
+                v = w.value
+                if v is not Select.NULL:
+                    data[spec.name] = v
+                elif spec.optional:
+                    data[spec.name] = None
+            elif isinstance(w, Checkbox):
+                data[spec.name] = w.value
+            elif isinstance(w, SelectionList):
+                data[spec.name] = [c for c in spec.choices if c in w.selected]
+            elif isinstance(w, Input):
+                if spec.kind == "number":
+                    try:
+                        num = parse_number(w.value)
+                    except ValueError as exc:
+                        bad[spec.name] = str(exc)
+                        continue
+                    if num is None and not spec.optional:
+                        bad[spec.name] = "a value is needed"
+                        continue
+                    data[spec.name] = num
+                else:
+                    data[spec.name] = w.value.strip() if spec.name == "id" else w.value
+        return data, bad
+
+    def _check(self) -> BaseModel | None:
+        """Validate the form with the model; show each message at its field."""
+        data, bad = self.collect()
+        errors = dict(bad)
+        node: BaseModel | None = None
+        try:
+            node = self._cls.model_validate(data)
+        except ValidationError as exc:
+            for k, v in errors_by_field(exc).items():
+                errors.setdefault(k, v)
+        self.errors = errors
+        names = {s.name for s in self._specs}
+        for spec in self._specs:
+            self.query_one(f"#err-{spec.name}", Static).update(errors.get(spec.name, ""))
+        whole = [v for k, v in errors.items() if k not in names]
+        self.query_one("#form-error", Static).update("; ".join(whole))
+        return node if not errors else None
+
+    @on(Input.Changed)
+    @on(Select.Changed)
+    @on(Checkbox.Changed)
+    @on(SelectionList.SelectedChanged)
+    def _changed(self) -> None:
+        self._check()
+
+    @on(Input.Submitted)
+    def _submitted(self, event: Input.Submitted) -> None:
+        event.stop()
+        focusables = [
+            self.query_one(f"#f-{s.name}")
+            for s in self._specs
+            if not self.query_one(f"#f-{s.name}").disabled
+        ]
+        if event.input is focusables[-1]:
+            self.action_apply()
+        else:
+            self.focus_next()
+
+    @on(Button.Pressed, "#apply")
+    def action_apply(self) -> None:
+        node = self._check()
+        if node is None:
+            self.app.bell()
+            return
+        problem = self._apply(node)
+        if problem:
+            self.query_one("#form-error", Static).update(problem)
+            self.app.bell()
+            return
+        self.dismiss(str(node.id))
+
+    @on(Button.Pressed, "#cancel")
+    def action_cancel(self) -> None:
+        self.dismiss(None)

@@ -1,0 +1,43 @@
+"""The strip along the top: product, site name, file mode and save state."""
+
+from __future__ import annotations
+
+from rich.text import Text
+from textual.app import ComposeResult
+from textual.containers import Horizontal
+from textual.widgets import Static
+
+SAVE_TEXT: dict[str, tuple[str, str]] = {
+    "saved": ("✔ saved", "save-ok"),
+    "pending": ("✎ journalled, saving…", "save-pending"),
+    "saving": ("⟳ saving…", "save-pending"),
+    "error": ("✖ not saved", "save-error"),
+    "read-only": ("⊘ read-only", "save-ro"),
+}
+
+
+class TopBar(Horizontal):
+    """Shows the site name and the save state; follows the app's reactives."""
+
+    def compose(self) -> ComposeResult:
+        yield Static(Text("tripwise", style="bold"), id="brand")
+        yield Static("", id="site-name")
+        yield Static("", id="save-state")
+
+    def on_mount(self) -> None:
+        self.watch(self.app, "site_name", self._show_name)
+        self.watch(self.app, "save_state", self._show_save)
+        self.watch(self.app, "save_message", self._show_save)
+
+    def _show_name(self, name: str) -> None:
+        self.query_one("#site-name", Static).update(Text(name, overflow="ellipsis", no_wrap=True))
+
+    def _show_save(self, _value: str = "") -> None:
+        state = str(getattr(self.app, "save_state", "saved"))
+        message = str(getattr(self.app, "save_message", ""))
+        text, cls = SAVE_TEXT.get(state, (state, "save-pending"))
+        if state == "error" and message:
+            text = f"{text}: {message}"
+        label = self.query_one("#save-state", Static)
+        label.update(Text(text, overflow="ellipsis", no_wrap=True))
+        label.set_classes(cls)
