@@ -199,6 +199,8 @@ class TripwiseApp(App[None]):
         visit = self.site.latest_visit()
         if visit is None:
             return "there is no visit to record on"
+        if visit.readings.get(device_id) == reading:
+            return None  # nothing changed: nothing to journal
         try:
             self.session.set_reading(visit.id, device_id, reading)
         except (ValueError, TypeError, KeyError) as exc:
@@ -235,6 +237,8 @@ class TripwiseApp(App[None]):
             self._save_timer.stop()
             self._save_timer = None
         if self.session is None or self.session.read_only:
+            return True
+        if not self.session.dirty and self.save_state == "saved":
             return True
         try:
             self.session.save()

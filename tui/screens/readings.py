@@ -275,6 +275,9 @@ class ReadingScreen(Screen[None]):
             msgs = errors_by_field(exc) if isinstance(exc, ValidationError) else {field: str(exc)}
             self._refuse(field, next(iter(msgs.values()), str(exc)))
             return False
+        visit = self._app.site.latest_visit()
+        if visit is not None and visit.readings.get(self.device_id) == reading:
+            return True  # nothing changed
         if not self._undo_taken:
             self._app.push_undo(f"readings of {self.device_id}")
             self._undo_taken = True

@@ -1,0 +1,29 @@
+"""Shared fixtures for the app tests: copies of the bundled samples, never the originals."""
+
+from __future__ import annotations
+
+import shutil
+from pathlib import Path
+
+import pytest
+
+from model.store import load_site, save_site
+
+SAMPLES = Path(__file__).resolve().parents[2] / "sample_sites"
+
+
+@pytest.fixture
+def oak_lane(tmp_path: Path) -> Path:
+    """A fresh copy of the invented Oak Lane sample."""
+    dest = tmp_path / "oak lane.json"
+    shutil.copyfile(SAMPLES / "oak-lane-house.json", dest)
+    return dest
+
+
+@pytest.fixture
+def oak_lane_no_visits(tmp_path: Path) -> Path:
+    """The Oak Lane sample with no visits recorded yet."""
+    site = load_site(SAMPLES / "oak-lane-house.json")
+    dest = tmp_path / "oak-fresh.json"
+    save_site(site.model_copy(update={"visits": []}), dest)
+    return dest

@@ -1,0 +1,149 @@
+"""Refused values, delete with undo, the impact summary and findings after an edit."""
+
+from __future__ import annotations
+
+from pathlib import Path
+
+import pytest
+
+from model.impact import trip_impact
+from model.session import LockHeld
+from model.store import load_site
+from tui.app import make_app
+from tui.screens.confirm import ConfirmScreen
+from tui.screens.node_editor import NodeEditorScreen
+from tui.screens.readings import ReadingScreen
+from tui.widgets.node_details import NodeDetails
+
+
+async def test_refused_value_leaves_file_unchanged(oak_lane: Path) -> None:
+    before = oak_lane.read_bytes()
+    app = make_app(oak_lane)
+    async with app.run_test(size=(120, 40)) as pilot:
+        app.main.select("rc1")
+        await pilot.press("e")
+        editor = app.screen
+        assert isinstance(editor, NodeEditorScreen)
+        # label is focused first (the id of an existing node is fixed); Enter to IΔn
+        await pilot.press("enter", "ctrl+u", *"0.03")
+        # the model refuses a rating given in amps (model.site _idn_sane)
+        assert "looks like amps" in editor.errors["idn_ma"]
+        await pilot.press("ctrl+s")
+        assert app.screen is editor  # refused: the form stays open
+        await pilot.press("escape")
+        # a trip time above the 10 000 ms the format allows is refused at the field
+        await pilot.press("r")
+        screen = app.screen
+        assert isinstance(screen, ReadingScreen)
+        await pilot.press("enter", "enter", *"20000", "enter")
+        assert screen.focused is not None and screen.focused.id == "rd-x1_0"
+        assert "10000" in screen.verdicts["x1_0"]
+        await pilot.press("escape")
+        assert app.save_now()
+        assert app.undo_stack == []
+    assert oak_lane.read_bytes() == before
+
+
+async def test_delete_asks_and_undo_restores(oak_lane: Path) -> None:
+    original = load_site(oak_lane)
+    app = make_app(oak_lane)
+    async with app.run_test(size=(120, 40)) as pilot:
+        app.main.select("wb")  # the workshop board and its RCBOs
+        await pilot.press("d")
+        assert isinstance(app.screen, ConfirmScreen)
+        await pilot.press("y")
+        ids = {n.id for n in app.site.nodes}
+        assert "wb" not in ids and "rb1" not in ids
+        assert "rb1" not in app.site.latest_visit().readings  # type: ignore[union-attr]
+        await pilot.press("ctrl+s")
+        assert "rb1" not in {n.id for n in load_site(oak_lane).nodes}
+        await pilot.press("u")
+        assert app.site == original
+        await pilot.press("ctrl+s")
+        assert app.main.tree.select_id("rb1")
+    assert load_site(oak_lane) == original
+
+
+async def test_copy_board_gets_new_ids(oak_lane: Path) -> None:
+    app = make_app(oak_lane)
+    async with app.run_test(size=(120, 40)) as pilot:
+        app.main.select("wb")
+        n_before = len(app.site.nodes)
+        below = len(app.index.descendants("wb"))
+        await pilot.press("c")
+        ids = [n.id for n in app.site.nodes]
+        assert len(ids) == n_before + below + 1
+        assert len(set(ids)) == len(ids)
+        top = app.main.tree.selected_id()
+        assert top is not None and top != "wb"
+        assert app.index.parent(top) == app.index.parent("wb")
+
+
+async def test_details_show_trip_impact(oak_lane: Path) -> None:
+    app = make_app(oak_lane)
+    async with app.run_test(size=(120, 40)) as pilot:
+        app.main.select("rc1")
+        await pilot.pause()
+        text = str(app.main.query_one(NodeDetails).render())
+        impact = trip_impact(app.site, "rc1")
+        # Common practice: a device that opens disconnects every circuit it feeds.
+        assert f"cuts off {len(impact.lost)} circuit(s)" in text
+        for cid in impact.lost:
+            assert app.index.label(cid) in text
+        # lighting on the other RCCB stays on (sample: lights downstairs on rc2)
+        assert "Lights downstairs" in text
+
+
+async def test_findings_update_after_edit(oak_lane: Path) -> None:
+    app = make_app(oak_lane)
+    async with app.run_test(size=(120, 40)) as pilot:
+        await app.settle()
+        await pilot.pause()
+
+        def ac_findings() -> list[str]:
+            return [
+                f.rule
+                for f in app.main.findings.shown
+                if f.rule == "type.ac-unsuitable" and "rc2" in f.nodes
+            ]
+
+        # BS 7671 531.3.3: Type AC only for fixed equipment with no DC component
+        assert ac_findings()
+        app.main.select("rc2")
+        await pilot.press("e")
+        assert isinstance(app.screen, NodeEditorScreen)
+        app.screen.query_one("#f-waveform").focus()
+        await pilot.press("enter", "down", "enter")  # AC -> A
+        await pilot.press("ctrl+s")
+        assert app.site.node("rc2").waveform == "A"
+        await app.settle()
+        await pilot.pause()
+        assert not ac_findings()
+        # the jump from a finding selects its node in the tree
+        app.main.focus_findings()
+        await pilot.press("enter")
+        shown = app.main.findings.shown
+        assert shown and app.main.tree.selected_id() == shown[0].nodes[0]
+
+
+async def test_lock_held_offers_read_only(oak_lane: Path, monkeypatch: pytest.MonkeyPatch) -> None:
+    from model import session as session_mod
+
+    real_open = session_mod.EditSession.open.__func__  # type: ignore[attr-defined]
+
+    def fake_open(cls, path, *, read_only=False):  # type: ignore[no-untyped-def]
+        if not read_only:
+            raise LockHeld("held by inspector@van (pid 4242)")
+        return real_open(cls, path, read_only=read_only)
+
+    monkeypatch.setattr(session_mod.EditSession, "open", classmethod(fake_open))
+    before = oak_lane.read_bytes()
+    app = make_app(oak_lane)
+    async with app.run_test(size=(120, 40)) as pilot:
+        assert isinstance(app.screen, ConfirmScreen)
+        await pilot.press("y")
+        assert app.session is not None and app.session.read_only
+        assert app.save_state == "read-only"
+        await pilot.press("d")
+        assert not isinstance(app.screen, ConfirmScreen)
+    assert oak_lane.read_bytes() == before

@@ -1,0 +1,108 @@
+"""Reading entry by digits, Enter and the did-not-trip key; flags as values are typed."""
+
+from __future__ import annotations
+
+import datetime as dt
+from pathlib import Path
+
+from model.site import DID_NOT_TRIP
+from model.store import load_site
+from tui.app import TripwiseApp, make_app
+from tui.screens.readings import FIELDS, ReadingScreen
+from tui.screens.start_visit import StartVisitScreen
+from tui.widgets.trip_input import DID_NOT_TRIP_KEY
+
+N = DID_NOT_TRIP_KEY
+
+
+def keys_for(values: list[str]) -> list[str]:
+    """The key presses that enter one value per field (digits then Enter; 'n' alone)."""
+    out: list[str] = []
+    for v in values:
+        if v == N:
+            out.append(N)
+        elif v in ("w", "f"):
+            out.append(v)
+        else:
+            out.extend([*v, "enter"])
+    return out
+
+
+async def _open_readings(app: TripwiseApp, pilot, device: str) -> ReadingScreen:  # type: ignore[no-untyped-def]
+    app.main.select(device)
+    await pilot.press("r")
+    if isinstance(app.screen, StartVisitScreen):
+        await pilot.press("enter", *"A. Tester", "enter", *"MFT-1", "enter")
+    assert isinstance(app.screen, ReadingScreen)
+    return app.screen
+
+
+async def test_three_devices_by_digits_enter_and_n(oak_lane_no_visits: Path) -> None:
+    app = make_app(oak_lane_no_visits)
+    async with app.run_test(size=(120, 40)) as pilot:
+        screen = await _open_readings(app, pilot, "rc1")
+        assert screen.device_id == "rc1"
+        visit = app.site.latest_visit()
+        assert visit is not None and visit.date == dt.date.today().isoformat()
+
+        # rc1: 30 mA Type A general.  ½× must not trip; 1× at most 300 ms; 5× at most 40 ms.
+        await pilot.press(N, N, "3", "2", "0")
+        # IEC 61008-1 Table 1: general type, 1 × IΔn, maximum break time 300 ms
+        assert screen.bands["x1_0"].startswith("≤ 300 ms")
+        assert "required" in screen.bands["x1_0"]  # BS 7671 643.7.1: the 1× test is required
+        assert "optional" in screen.bands["x5_0"]
+        assert screen.flags["x1_0"] == "reading.too-slow"
+        await pilot.press("enter")
+        await pilot.press(*keys_for(["25", "12"]))
+        await pilot.press(N)
+        # IEC 61008-1 Table 1: a device that does not trip at 5 × IΔn fails
+        assert screen.flags["x5_180"] == "reading.no-trip"
+        await pilot.press(*keys_for(["24"]), "w", "enter", "enter")
+        # next untested RCD in tree order
+        assert screen.device_id == "rc2"
+
+        # rc2: 30 mA Type AC general, all within band
+        await pilot.press(*keys_for([N, N, "28", "31", "11", "12", "22", "w"]), "enter", "enter")
+        assert all(flag is None for flag in screen.flags.values())
+        assert screen.device_id == "rc3"
+
+        # rc3: 100 mA Type A, type S.  IEC 61008-1 Table 1: S type at 1 × IΔn 130–500 ms
+        assert screen.bands["x1_0"].startswith("130–500 ms")
+        await pilot.press(*keys_for([N, N, "100"]))
+        # 100 ms is under the 130 ms minimum non-actuating time (IEC 61008-1 Table 1)
+        assert screen.flags["x1_0"] == "reading.too-fast"
+        await pilot.press(*keys_for(["140", "60", "70", "80", "f"]), "enter", "enter")
+        # IEC 61008-1 Table 1: S type at 5 × IΔn 50–150 ms, so 60 and 70 are in band
+        assert screen.flags["x5_0"] is None and screen.flags["x5_180"] is None
+        assert screen.device_id == "rb1"
+        await pilot.press("ctrl+s")
+    saved = load_site(oak_lane_no_visits)
+    visit = saved.latest_visit()
+    assert visit is not None
+    r1, r2, r3 = visit.readings["rc1"], visit.readings["rc2"], visit.readings["rc3"]
+    assert (r1.half_0, r1.half_180, r1.x1_0, r1.x1_180) == (DID_NOT_TRIP, DID_NOT_TRIP, 320.0, 25.0)
+    assert (r1.x5_0, r1.x5_180, r1.ramp_ma, r1.button) == (12.0, DID_NOT_TRIP, 24.0, "worked")
+    assert (r2.x1_0, r2.x1_180, r2.x5_0, r2.x5_180, r2.ramp_ma) == (28.0, 31.0, 11.0, 12.0, 22.0)
+    assert (r3.x1_0, r3.x1_180, r3.x5_0, r3.x5_180, r3.ramp_ma, r3.button) == (
+        100.0,
+        140.0,
+        60.0,
+        70.0,
+        80.0,
+        "failed",
+    )
+    assert visit.inspector == "A. Tester" and visit.instrument == "MFT-1"
+
+
+async def test_keystrokes_per_reading_set(oak_lane_no_visits: Path) -> None:
+    app = make_app(oak_lane_no_visits)
+    async with app.run_test(size=(120, 40)) as pilot:
+        screen = await _open_readings(app, pilot, "rc1")
+        values = [N, N, "22", "25", "12", "13", "24", "w"]
+        keys = [*keys_for(values), "enter", "enter"]  # keep AC test current, empty note
+        await pilot.press(*keys)
+        assert screen.device_id == "rc2"
+        digits = sum(len(v) for v in values if v.isdigit())
+        assert len(keys) <= len(FIELDS) + digits
+        reading = app.site.latest_visit().readings["rc1"]  # type: ignore[union-attr]
+        assert (reading.x1_0, reading.x5_180, reading.button) == (22.0, 13.0, "worked")
