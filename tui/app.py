@@ -61,9 +61,11 @@ class TripwiseApp(App[None]):
     TITLE = "tripwise"
 
     BINDINGS = [
-        Binding("question_mark,f1", "help", "Help"),
+        Binding("f1", "help", "Help"),
+        Binding("question_mark", "help", "Help", show=False),
         Binding("ctrl+s", "save", "Save", show=False),
-        Binding("u,ctrl+z", "undo", "Undo"),
+        Binding("ctrl+z", "undo", "Undo"),
+        Binding("u", "undo", "Undo", show=False),
         Binding("t", "focus_tree", "Tree", show=False),
         Binding("f", "focus_findings", "Findings"),
         Binding("s", "site_details", "Site", show=False),
@@ -95,6 +97,15 @@ class TripwiseApp(App[None]):
         self._analysis_gen = 0
         if session is not None:
             self._took_session(session)
+
+    #: Actions that make no sense while typing readings (their keys are values there).
+    _NOT_WHILE_READING = frozenset(
+        {"focus_tree", "focus_findings", "quit_app", "site_details", "visits", "export"}
+    )
+
+    def check_action(self, action: str, parameters: tuple[object, ...]) -> bool | None:
+        reading = isinstance(self.screen, ReadingScreen)
+        return not (reading and action in self._NOT_WHILE_READING)
 
     # ------------------------------------------------------------ start-up
     def get_default_screen(self) -> Screen[Any]:

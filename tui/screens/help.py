@@ -12,9 +12,9 @@ from textual.widgets import Label, Static
 
 #: (where, keys, what) for every key the app answers to.
 KEY_MAP: list[tuple[str, str, str]] = [
-    ("anywhere", "?  F1", "this help"),
+    ("anywhere", "F1  ?", "this help (? outside the reading form)"),
     ("anywhere", "ctrl+s", "save now (edits are also saved a moment after you stop typing)"),
-    ("anywhere", "u  ctrl+z", "undo the last change (whole-site step)"),
+    ("anywhere", "ctrl+z  u", "undo the last change (whole-site step; u outside the reading form)"),
     ("anywhere", "t", "go to the tree"),
     ("anywhere", "f", "go to the findings"),
     ("anywhere", "s", "site details (name, earthing, supply, rule set)"),

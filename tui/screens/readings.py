@@ -3,6 +3,8 @@
 Each value is judged against its band the moment it is typed (the band comes from
 ``model.readings``), and recorded through the editing session when Enter moves on.
 After the last field the form moves to the next untested residual-current device.
+All typing goes to one widget (:class:`ReadingPad`) so fast keys never land in the
+wrong field.
 """
 
 from __future__ import annotations
@@ -11,44 +13,41 @@ from typing import Any
 
 from pydantic import ValidationError
 from rich.text import Text
-from textual import on
 from textual.app import ComposeResult
 from textual.binding import Binding
-from textual.containers import Grid, Vertical
+from textual.containers import Vertical
 from textual.screen import Screen
-from textual.widget import Widget
-from textual.widgets import Footer, Input, Label, Static
+from textual.widgets import Footer, Static
 
-from model.readings import (
-    Band,
-    judge_ramp,
-    judge_time,
-    ramp_band,
-    time_band,
-)
+from model.readings import Band, judge_ramp, judge_time, ramp_band, time_band
 from model.site import DID_NOT_TRIP, TEST_NAMES, Reading
 from tui.editing import is_untested
 from tui.format import LIVE_TEST_CAUTION, node_summary, node_title
 from tui.forms import errors_by_field, parse_number
 from tui.widgets.caution_bar import CautionBar
-from tui.widgets.key_choice import KeyChoice
+from tui.widgets.reading_pad import ReadingPad
 from tui.widgets.top_bar import TopBar
-from tui.widgets.trip_input import TripInput
 
-#: The fields in entry order.
+#: The fields in entry order (Enter on the last moves to the next device).
 FIELDS: tuple[str, ...] = (*TEST_NAMES, "ramp_ma", "button", "waveform", "note")
 
-FIELD_TITLES: dict[str, str] = {
-    "half_0": "½× IΔn   0°",
-    "half_180": "½× IΔn 180°",
-    "x1_0": "1× IΔn    0°",
-    "x1_180": "1× IΔn  180°",
-    "x5_0": "5× IΔn    0°",
-    "x5_180": "5× IΔn  180°",
-    "ramp_ma": "ramp trip",
-    "button": "test button",
-    "waveform": "test current",
-    "note": "note",
+_PAD_FIELDS: list[tuple[str, str, str]] = [
+    ("half_0", "time", "½× IΔn   0°"),
+    ("half_180", "time", "½× IΔn 180°"),
+    ("x1_0", "time", "1× IΔn   0°"),
+    ("x1_180", "time", "1× IΔn 180°"),
+    ("x5_0", "time", "5× IΔn   0°"),
+    ("x5_180", "time", "5× IΔn 180°"),
+    ("ramp_ma", "number", "ramp trip"),
+    ("button", "choice", "test button"),
+    ("waveform", "choice", "test current"),
+    ("note", "text", "note"),
+    ("not_tested", "text", "not tested"),
+]
+
+_CHOICES: dict[str, list[tuple[str, str]]] = {
+    "button": [("w", "worked"), ("f", "failed")],
+    "waveform": [("a", "AC"), ("h", "half-wave"), ("d", "smooth-dc")],
 }
 
 FLAG_WORDS: dict[str, str] = {
@@ -60,12 +59,8 @@ FLAG_WORDS: dict[str, str] = {
     "reading.button-failed": "button failed",
 }
 
-BUTTON_OPTIONS = [("w", "worked", "worked"), ("f", "failed", "failed")]
-WAVEFORM_OPTIONS = [
-    ("a", "AC", "AC"),
-    ("h", "half-wave", "half-wave"),
-    ("d", "smooth-dc", "smooth DC"),
-]
+_OK = "#7bd88f"
+_BAD = "bold #ff4d5e"
 
 
 class ReadingScreen(Screen[None]):
@@ -73,8 +68,6 @@ class ReadingScreen(Screen[None]):
 
     BINDINGS = [
         Binding("escape", "back", "Back to tree"),
-        Binding("up", "field(-1)", "Prev field", show=False),
-        Binding("down", "field(1)", "Next field", show=False),
         Binding("ctrl+n", "device(1)", "Next device"),
         Binding("ctrl+p", "device(-1)", "Prev device"),
         Binding("ctrl+t", "not_tested", "Not tested"),
@@ -85,48 +78,36 @@ class ReadingScreen(Screen[None]):
         self.device_id = device_id
         #: Flag shown at each field now (None when within band or not judged).
         self.flags: dict[str, str | None] = {}
-        #: Text shown beside each field: the band, and the verdict.
+        #: The band beside each field, and the verdict on what is typed there.
         self.bands: dict[str, str] = {}
         self.verdicts: dict[str, str] = {}
+        self._verdict_text: dict[str, Text] = {}
+        #: "required" or "optional" for each test under the site's rule set.
+        self.need: dict[str, str] = {}
         self._undo_taken = False
 
-    # ------------------------------------------------------------------ layout
     def compose(self) -> ComposeResult:
         yield TopBar(id="top-bar")
         with Vertical(id="reading-body"):
             yield Static("", id="rd-device")
-            with Grid(id="reading-grid"):
-                for name in FIELDS:
-                    yield Label(FIELD_TITLES[name], classes="rd-title")
-                    yield self._field_widget(name)
-                    yield Static("", id=f"band-{name}", classes="rd-band")
-                    yield Static("", id=f"verdict-{name}", classes="rd-verdict")
-                yield Label("not tested", classes="rd-title")
-                yield Input(placeholder="reason (ctrl+t)", id="rd-not_tested", compact=True)
-                yield Static("reason instead of values", classes="rd-band")
-                yield Static("", id="verdict-not_tested", classes="rd-verdict")
+            yield ReadingPad(self, _PAD_FIELDS, _CHOICES, id="reading-pad")
+            yield Static("", id="rd-status")
             yield Static(
-                "digits ⏎ next · n did not trip · w/f button · a/h/d test current · "
-                "⏎ on note: next untested device",
+                "digits ⏎ next · n did not trip · w/f button · a/h/d current · "
+                "⏎ on note: next device · req = required by the rule set",
                 id="rd-hint",
             )
             yield Static(LIVE_TEST_CAUTION, id="rd-live")
         yield CautionBar(id="caution")
         yield Footer(compact=True, show_command_palette=False)
 
-    def _field_widget(self, name: str) -> Widget:
-        if name in TEST_NAMES:
-            return TripInput(id=f"rd-{name}")
-        if name == "ramp_ma":
-            return Input(placeholder="mA", restrict=r"[0-9.,]*", compact=True, id="rd-ramp_ma")
-        if name == "button":
-            return KeyChoice(BUTTON_OPTIONS, id="rd-button")
-        if name == "waveform":
-            return KeyChoice(WAVEFORM_OPTIONS, value="AC", allow_none=False, id="rd-waveform")
-        return Input(placeholder="free text", compact=True, id="rd-note")
+    @property
+    def pad(self) -> ReadingPad:
+        return self.query_one(ReadingPad)
 
     def on_mount(self) -> None:
         self.load_device(self.device_id)
+        self.pad.focus()
 
     # ------------------------------------------------------------- the device
     @property
@@ -140,123 +121,152 @@ class ReadingScreen(Screen[None]):
         """Fill the form from the latest visit's reading of this device and start at the top."""
         self.device_id = device_id
         self._undo_taken = False
-        app = self._app
-        visit = app.session.site.latest_visit()
+        visit = self._app.site.latest_visit()
         reading = visit.readings.get(device_id) if visit is not None else None
-        for name in FIELDS:
-            w = self.query_one(f"#rd-{name}")
+        pad = self.pad
+        for name, _, _ in _PAD_FIELDS:
             value = getattr(reading, name) if reading is not None else None
-            if isinstance(w, KeyChoice):
-                w.value = value if value is not None or name != "waveform" else "AC"
-            elif isinstance(w, Input):
-                if value is None:
-                    w.value = ""
-                elif isinstance(value, float):
-                    w.value = f"{value:g}"
-                else:
-                    w.value = str(value)
-        nt = self.query_one("#rd-not_tested", Input)
-        nt.value = reading.not_tested if reading is not None and reading.not_tested else ""
+            if name == "waveform" and value is None:
+                value = "AC"
+            if value is None:
+                text = ""
+            elif isinstance(value, float):
+                text = f"{value:g}"
+            else:
+                text = str(value)
+            pad.values[name] = text
+        pad.go("half_0")
         self._show_header()
         self._judge_all()
-        self.query_one("#rd-half_0").focus()
 
     def _show_header(self) -> None:
         app = self._app
         idx = app.index
         node = self._node()
-        visit = app.session.site.latest_visit()
+        visit = app.site.latest_visit()
         rcds = idx.rcds()
         left = sum(1 for d in rcds if is_untested(visit, d))
         t = Text(no_wrap=True, overflow="ellipsis")
         t.append(node_title(node), style="bold")
         t.append(f"  {node.kind} {node_summary(node)}", style="#d9c28a")
         t.append(f"  ·  {idx.path_text(self.device_id)}", style="#8fa7b3")
-        t2 = Text(no_wrap=True, overflow="ellipsis")
+        t2 = Text(no_wrap=True, overflow="ellipsis", style="#8fa7b3")
         pos = rcds.index(self.device_id) + 1 if self.device_id in rcds else 0
-        t2.append(f"device {pos} of {len(rcds)} · {left} untested", style="#8fa7b3")
+        t2.append(f"device {pos} of {len(rcds)} · {left} untested")
         if visit is not None:
-            t2.append(f" · visit {visit.date}", style="#8fa7b3")
+            t2.append(f" · visit {visit.date}")
             if visit.inspector:
-                t2.append(f" ({visit.inspector})", style="#8fa7b3")
-        rules = app.session.site.site.rules
-        t2.append(f" · rules {rules}", style="#8fa7b3")
+                t2.append(f" ({visit.inspector})")
+        t2.append(f" · rules {app.site.site.rules}")
         self.query_one("#rd-device", Static).update(Text("\n").join([t, t2]))
 
     # ------------------------------------------------------------- judging
     def _waveform(self) -> str:
-        return self.query_one("#rd-waveform", KeyChoice).value or "AC"
+        return self.pad.values["waveform"] or "AC"
 
     def _raw(self, name: str) -> Any:
-        """The value typed in a field (float, 'did not trip', text or None); ValueError if unreadable."""
-        w = self.query_one(f"#rd-{name}")
-        if isinstance(w, KeyChoice):
-            return w.value
-        assert isinstance(w, Input)
-        if name == "note":
-            return w.value
-        if name in TEST_NAMES and w.value == DID_NOT_TRIP:
+        """The typed value (float, 'did not trip', text or None); ValueError if unreadable."""
+        text = self.pad.values[name]
+        if name in ("note", "not_tested", "button", "waveform"):
+            return text or None
+        if name in TEST_NAMES and text == DID_NOT_TRIP:
             return DID_NOT_TRIP
-        return parse_number(w.value)
+        return parse_number(text)
 
     def _band(self, name: str) -> Band:
-        rules = self._app.session.site.site.rules
         group = name.split("_", 1)[0]
-        return time_band(self._node(), group, self._waveform(), rules)  # type: ignore[arg-type]
+        return time_band(self._node(), group, self._waveform(), self._app.site.site.rules)  # type: ignore[arg-type]
 
     def _judge(self, name: str) -> None:
-        """Show the band beside one field and the verdict on what is typed there."""
-        node = self._node()
+        """Work out the band beside one field and the verdict on what is typed there."""
         flag: str | None = None
-        band_text = ""
+        band_text = verdict = problem = need = ""
         try:
             value = self._raw(name)
-            problem = ""
         except ValueError as exc:
             value, problem = None, str(exc)
         if name in TEST_NAMES:
             band = self._band(name)
             need = "required" if band.required else "optional"
-            band_text = f"{band.text} · {need}"
+            band_text = band.text
             j = judge_time(band, value)
             flag, verdict = j.flag, j.text
         elif name == "ramp_ma":
-            rb = ramp_band(node, self._waveform())
-            band_text = f"{rb.low_ma:g}–{rb.high_ma:g} mA · optional"
+            rb = ramp_band(self._node(), self._waveform())
+            band_text, need = f"{rb.low_ma:g}–{rb.high_ma:g} mA", "optional"
             j = judge_ramp(rb, value)
             flag, verdict = j.flag, j.text
         elif name == "button":
-            band_text = "must trip the device · optional"
+            band_text, need = "must trip it", "optional"
             flag = "reading.button-failed" if value == "failed" else None
-            verdict = "test button did not trip the device" if flag else (value or "not recorded")
+            verdict = "test button did not trip the device" if flag else (value or "")
         elif name == "waveform":
             band_text = "sets the bands above"
-            verdict = ""
-        else:
-            verdict = ""
+        elif name == "not_tested":
+            band_text = "reason, instead of values"
         if problem:
             verdict, flag = problem, None
         self.flags[name] = flag
-        self.bands[name] = band_text
+        self.need[name] = need
+        self.bands[name] = f"{band_text} · {need}" if need else band_text
         self.verdicts[name] = verdict
-        self.query_one(f"#band-{name}", Static).update(band_text)
         v = Text(no_wrap=True, overflow="ellipsis")
         if problem:
-            v.append(f"✖ {problem}", style="bold #ff4d5e")
+            v.append(f"✖ {problem}", style=_BAD)
         elif flag:
-            v.append(f"✖ {FLAG_WORDS.get(flag, flag)}: ", style="bold #ff4d5e")
-            v.append(verdict, style="#ff9a3c")
-        elif value not in (None, "") and name not in ("waveform", "note"):
-            v.append(f"✓ {verdict}", style="#7bd88f")
-        self.query_one(f"#verdict-{name}", Static).update(v)
+            v.append(f"✖ {FLAG_WORDS.get(flag, flag)}", style=_BAD)
+        elif value not in (None, "") and name in (*TEST_NAMES, "ramp_ma", "button"):
+            v.append("✓ in band" if name != "button" else f"✓ {value}", style=_OK)
+            if name in TEST_NAMES and self._band(name).may_trip:
+                v = Text("· recorded", style="#8fa7b3")
+        self._verdict_text[name] = v
+        self._show_status()
+
+    def _show_status(self) -> None:
+        """The full verdict of the field under the cursor, on its own line."""
+        if not self.is_mounted:
+            return
+        name = self.pad.current
+        text = self.verdicts.get(name, "")
+        style = _BAD if self.flags.get(name) else "#8fa7b3"
+        self.query_one("#rd-status", Static).update(
+            Text(f"{self.pad.titles.get(name, name).strip()}: {text}" if text else "", style=style)
+        )
 
     def _judge_all(self) -> None:
-        for name in FIELDS:
+        for name, _, _ in _PAD_FIELDS:
             self._judge(name)
+        self.pad.refresh()
+
+    # ------------------------------------------------------------- the pad asks
+    def row_text(self, name: str) -> tuple[str, str, Text]:
+        need = {"required": "req", "optional": "opt"}.get(self.need.get(name, ""), "")
+        band = self.bands.get(name, "").split(" · ")[0]
+        return need, band, self._verdict_text.get(name, Text())
+
+    def field_changed(self, name: str) -> None:
+        if name == "waveform":
+            self._judge_all()
+        else:
+            self._judge(name)
+
+    def field_entered(self, name: str) -> bool:
+        """Enter (or a one-key value) on a field: record, then move on."""
+        if name == "not_tested":
+            return self._record_not_tested()
+        if not self._commit(name):
+            return False
+        i = FIELDS.index(name)
+        if i + 1 < len(FIELDS):
+            self.pad.go(FIELDS[i + 1])
+            self._show_status()
+        else:
+            self._next_untested()
+        return True
 
     # ------------------------------------------------------------- recording
     def _reading(self) -> Reading | None:
-        """The form as a Reading (None when nothing is recorded); ValueError/ValidationError if bad."""
+        """The form as a Reading (None when nothing is recorded)."""
         data: dict[str, Any] = {}
         for name in FIELDS:
             v = self._raw(name)
@@ -272,12 +282,15 @@ class ReadingScreen(Screen[None]):
         try:
             reading = self._reading()
         except ValueError as exc:
-            msgs = errors_by_field(exc) if isinstance(exc, ValidationError) else {field: str(exc)}
-            self._refuse(field, next(iter(msgs.values()), str(exc)))
+            msgs = errors_by_field(exc) if isinstance(exc, ValidationError) else {}
+            self._refuse(field, msgs.get(field) or next(iter(msgs.values()), str(exc)))
             return False
         visit = self._app.site.latest_visit()
         if visit is not None and visit.readings.get(self.device_id) == reading:
             return True  # nothing changed
+        return self._record(field, reading)
+
+    def _record(self, field: str, reading: Reading | None) -> bool:
         if not self._undo_taken:
             self._app.push_undo(f"readings of {self.device_id}")
             self._undo_taken = True
@@ -290,103 +303,38 @@ class ReadingScreen(Screen[None]):
     def _refuse(self, field: str, message: str) -> None:
         self.flags[field] = None
         self.verdicts[field] = message
-        self.query_one(f"#verdict-{field}", Static).update(
-            Text(f"✖ not recorded: {message}", style="bold #ff4d5e")
-        )
+        self._verdict_text[field] = Text(f"✖ not recorded: {message}", style=_BAD)
+        self.pad.refresh()
         self.app.bell()
 
-    def _advance(self, field: str) -> None:
-        if not self._commit(field):
-            return
-        i = FIELDS.index(field)
-        if i + 1 < len(FIELDS):
-            self.query_one(f"#rd-{FIELDS[i + 1]}").focus()
-        else:
-            self._next_untested()
+    def _record_not_tested(self) -> bool:
+        reason = self.pad.values["not_tested"].strip()
+        if not reason:
+            self._refuse("not_tested", "give the reason the device was not tested")
+            return False
+        if not self._record("not_tested", Reading(not_tested=reason)):
+            return False
+        self._next_untested()
+        return True
 
     def _next_untested(self) -> None:
         nxt = self._app.next_untested(self.device_id)
-        self._show_header()
         if nxt is None:
             self.app.notify("Every residual-current device has a reading or a reason.")
             self.action_back()
             return
         self.load_device(nxt)
 
-    # ------------------------------------------------------------- events
-    @on(Input.Changed)
-    def _typed(self, event: Input.Changed) -> None:
-        name = (event.input.id or "").removeprefix("rd-")
-        if name in FIELDS:
-            self._judge(name)
-
-    @on(Input.Submitted)
-    def _submitted(self, event: Input.Submitted) -> None:
-        event.stop()
-        name = (event.input.id or "").removeprefix("rd-")
-        if name == "not_tested":
-            self._record_not_tested()
-        elif name in FIELDS:
-            self._advance(name)
-
-    @on(TripInput.DidNotTrip)
-    def _did_not_trip(self, event: TripInput.DidNotTrip) -> None:
-        name = (event.input.id or "").removeprefix("rd-")
-        self._judge(name)
-        self._advance(name)
-
-    @on(KeyChoice.Chosen)
-    def _chosen(self, event: KeyChoice.Chosen) -> None:
-        name = (event.choice.id or "").removeprefix("rd-")
-        if name == "waveform":
-            self._judge_all()
-        else:
-            self._judge(name)
-        self._advance(name)
-
-    @on(KeyChoice.Stepped)
-    def _stepped(self, event: KeyChoice.Stepped) -> None:
-        name = (event.choice.id or "").removeprefix("rd-")
-        if name == "waveform":
-            self._judge_all()
-        else:
-            self._judge(name)
-
-    def _record_not_tested(self) -> None:
-        reason = self.query_one("#rd-not_tested", Input).value.strip()
-        if not reason:
-            self.query_one("#verdict-not_tested", Static).update(
-                Text("✖ give a reason", style="bold #ff4d5e")
-            )
-            return
-        if not self._undo_taken:
-            self._app.push_undo(f"readings of {self.device_id}")
-            self._undo_taken = True
-        problem = self._app.record_reading(self.device_id, Reading(not_tested=reason))
-        if problem:
-            self.query_one("#verdict-not_tested", Static).update(
-                Text(f"✖ {problem}", style="bold #ff4d5e")
-            )
-            return
-        self._next_untested()
-
     # ------------------------------------------------------------- actions
-    def action_field(self, step: int) -> None:
-        focused = self.focused
-        names = [*FIELDS, "not_tested"]
-        cur = (focused.id or "").removeprefix("rd-") if focused is not None else ""
-        i = names.index(cur) if cur in names else 0
-        self.query_one(f"#rd-{names[(i + step) % len(names)]}").focus()
-
     def action_device(self, step: int) -> None:
         rcds = self._app.index.rcds()
-        if self.device_id not in rcds or not rcds:
+        if self.device_id not in rcds:
             return
         i = rcds.index(self.device_id)
         self.load_device(rcds[(i + step) % len(rcds)])
 
     def action_not_tested(self) -> None:
-        self.query_one("#rd-not_tested", Input).focus()
+        self.pad.go("not_tested")
 
     def action_back(self) -> None:
         self._app.reading_closed(self.device_id)
