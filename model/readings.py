@@ -141,9 +141,9 @@ def judge_time(band: Band, value: float | str | None) -> Judgement:
             return Judgement(None, "recorded (not judged for this waveform)")
         if value == DID_NOT_TRIP:
             return Judgement(None, "did not trip, as it must not")
-        return Judgement("reading.half-tripped", f"tripped at ½ × IΔn ({value:g} ms); {band.text}")
+        return Judgement("reading.half-tripped", f"tripped in {value:g} ms; it must not trip")
     if value == DID_NOT_TRIP:
-        return Judgement("reading.no-trip", f"did not trip; {band.text}")
+        return Judgement("reading.no-trip", f"did not trip; it must trip, {band.text}")
     assert isinstance(value, float | int)
     if band.max_ms is not None and value > band.max_ms:
         return Judgement("reading.too-slow", f"{value:g} ms is slower than {band.text}")
@@ -152,14 +152,22 @@ def judge_time(band: Band, value: float | str | None) -> Judgement:
     return Judgement(None, f"{value:g} ms within {band.text}")
 
 
-def worse(a: float | str | None, b: float | str | None) -> float | str | None:
-    """The worse of the 0° and 180° results: 'did not trip' over any time, else the longer."""
+def worse(a: float | str | None, b: float | str | None, group: str = "x1") -> float | str | None:
+    """The worse of the 0° and 180° results.
+
+    For a test that must trip: 'did not trip' over any time, else the longer
+    time.  For the ½ IΔn test, which must not trip: any trip over 'did not
+    trip' (the shorter time, the more sensitive).
+    """
     vals = [v for v in (a, b) if v is not None]
     if not vals:
         return None
+    times = [float(v) for v in vals if v != DID_NOT_TRIP]
+    if group == "half":
+        return min(times) if times else DID_NOT_TRIP
     if DID_NOT_TRIP in vals:
         return DID_NOT_TRIP
-    return max(float(v) for v in vals)
+    return max(times)
 
 
 def faster(a: float | str | None, b: float | str | None) -> float | None:
