@@ -8,6 +8,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
+from functools import lru_cache
 from typing import Any, Literal
 
 from model.limits import (
@@ -61,10 +62,30 @@ def time_band(node: Any, group: TestGroup, waveform: str, rules: str) -> Band:
     IEC 61008-1 Ed.3 Table 1 and IΔno = 0.5 IΔn; IEC 61009-1; BS 7671
     Appendix 3 Table 3A; Type A half-wave band 0.35–1.4 IΔn (IEC 61008-1).
     """
+    d = node.__dict__
+    return _time_band(
+        float(d["idn_ma"]),
+        str(d.get("delay", "general")),
+        d.get("delay_ms"),
+        d.get("max_break_ms"),
+        group,
+        waveform,
+        rules,
+    )
+
+
+@lru_cache(maxsize=4096)
+def _time_band(
+    idn: float,
+    delay: str,
+    dms: float | None,
+    bms: float | None,
+    group: TestGroup,
+    waveform: str,
+    rules: str,
+) -> Band:
     rs = rule_set(rules)
     required = group in rs.required_tests
-    idn = float(node.idn_ma)
-    delay = str(getattr(node, "delay", "general"))
     if group == "half":
         op = operating_band(waveform, idn)
         if op.low >= 0.5:
@@ -92,8 +113,6 @@ def time_band(node: Any, group: TestGroup, waveform: str, rules: str) -> Band:
         )
     mult = GROUP_MULTIPLE[group]
     if delay == "set":
-        dms = getattr(node, "delay_ms", None)
-        bms = getattr(node, "max_break_ms", None)
         lo = float(dms) if (dms is not None and group == "x1") else None
         hi = float(bms) if bms is not None else None
         return Band(
