@@ -150,9 +150,7 @@ def pair_chart_data(site: SiteFile, analysis: Analysis, up_id: str, down_id: str
     grid = lo * (hi / lo) ** np.linspace(0.0, 1.0, GRID_POINTS)
     steps = np.array(_breakpoints_ma(idn_up) + _breakpoints_ma(idn_dn))
     steps = steps[(steps > lo) & (steps < hi)]
-    currents = np.unique(
-        np.concatenate([grid, steps, steps * (1 - _EDGE), steps * (1 + _EDGE)])
-    )
+    currents = np.unique(np.concatenate([grid, steps, steps * (1 - _EDGE), steps * (1 + _EDGE)]))
     currents = currents[(currents >= lo) & (currents <= hi)]
     u_min, u_max = band_curve(DeviceCurve.of(up), currents)
     d_min, d_max = band_curve(DeviceCurve.of(down), currents)

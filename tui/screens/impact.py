@@ -2,6 +2,8 @@
 
 from __future__ import annotations
 
+from typing import Any
+
 from rich.text import Text
 from textual import on
 from textual.app import ComposeResult
@@ -12,8 +14,23 @@ from textual.widgets import Button, DataTable, Static
 
 from model.findings import CAUTION
 from model.impact import TripImpact, trip_impact
-from model.site import SiteFile
+from model.site import OVERCURRENT_KINDS, RCD_KINDS, SiteFile
 from model.tree import SiteIndex
+
+
+def device_text(node: Any) -> str:
+    """'RCCB 30 mA Type A' for a residual-current device, the kind otherwise."""
+    kind = str(node.kind)
+    if hasattr(node, "idn_ma"):
+        return f"{kind.upper()} {node.idn_ma:g} mA Type {node.waveform}"
+    return kind
+
+
+def trip_verb(kind: str) -> str:
+    """How a node of this kind cuts off what it feeds."""
+    return {"fuse": "blows", "switch": "is opened"}.get(
+        kind, "trips" if kind in RCD_KINDS | OVERCURRENT_KINDS else "loses supply"
+    )
 
 
 def _names(idx: SiteIndex, ids: tuple[str, ...]) -> str:
@@ -58,12 +75,16 @@ class ImpactScreen(ModalScreen[None]):
         node = idx.node(self.device_id)
         with Vertical(id="impact-box"):
             yield Static(
-                Text(f"If {idx.label(self.device_id)} trips, what goes dark?", style="bold"),
+                Text(
+                    f"If {idx.label(self.device_id)} {trip_verb(str(node.kind))}, what goes dark?",
+                    style="bold",
+                ),
                 id="impact-title",
             )
             yield Static(
-                f"{self.device_id} · {node.kind} · on {idx.board_label(self.device_id)}",
+                f"{self.device_id} · {device_text(node)} · on {idx.board_label(self.device_id)}",
                 id="impact-where",
+                markup=False,
             )
             n = len(imp.lost)
             yield Static(
@@ -71,18 +92,21 @@ class ImpactScreen(ModalScreen[None]):
                 if n == 0
                 else f"{n} circuit{'s' if n != 1 else ''} lose{'s' if n == 1 else ''} supply:",
                 id="impact-count",
+                markup=False,
             )
             yield DataTable(id="impact-lost", cursor_type="row", zebra_stripes=True)
             text, cls = lighting_text(idx, imp)
-            yield Static(text, id="impact-lighting", classes=cls)
-            yield Static(CAUTION, classes="caution")
+            yield Static(text, id="impact-lighting", classes=cls, markup=False)
+            yield Static(CAUTION, classes="caution", markup=False)
             yield Button("Close (Esc)", id="impact-close", compact=True)
 
     def on_mount(self) -> None:
         table = self.query_one("#impact-lost", DataTable)
         table.add_columns("id", "circuit", "board", "use")
         for c in self.impact.lost:
-            table.add_row(c, self.index.label(c), self.index.board_label(c), self.index.node(c).use, key=c)
+            table.add_row(
+                c, self.index.label(c), self.index.board_label(c), self.index.node(c).use, key=c
+            )
         table.display = bool(self.impact.lost)
         if self.impact.lost:
             table.focus()

@@ -152,8 +152,8 @@ class PairScreen(ModalScreen[None]):
                 if self.chart is not None:
                     yield BandChart(id="pair-chart")
                 else:
-                    yield Static(f"No chart: {self.chart_error}", id="pair-no-chart")
-            yield Static(CAUTION, classes="caution")
+                    yield Static(f"No chart: {self.chart_error}", id="pair-no-chart", markup=False)
+            yield Static(CAUTION, classes="caution", markup=False)
             yield Button("Close (Esc)", id="pair-close", compact=True)
 
     def on_mount(self) -> None:

@@ -62,7 +62,9 @@ def draw_pair(plt: Plot, chart: PairChart) -> None:
     for lo, hi in chart.ranges:
         a, b = max(lo, x_lo), min(hi, x_hi)
         if b > a:
-            plt.plot([log(a), log(b)], [log(top), log(top)], fillx=True, marker="░", color=SHADE_RGB)
+            plt.plot(
+                [log(a), log(b)], [log(top), log(top)], fillx=True, marker="░", color=SHADE_RGB
+            )
     if chart.i_max_ma is not None and x_lo < chart.i_max_ma < x_hi:
         plt.vline(log(chart.i_max_ma), FAULT_RGB)
     for mins, maxs, rgb in (
@@ -76,7 +78,9 @@ def draw_pair(plt: Plot, chart: PairChart) -> None:
         timed = [(c, t) for c, t, _ in points if t != DID_NOT_TRIP]
         silent = [c for c, t, _ in points if t == DID_NOT_TRIP]
         if timed:
-            plt.scatter([log(c) for c, _ in timed], [ty(t) for _, t in timed], marker=mark, color=rgb)
+            plt.scatter(
+                [log(c) for c, _ in timed], [ty(t) for _, t in timed], marker=mark, color=rgb
+            )
         if silent:
             plt.scatter([log(c) for c in silent], [log(top)] * len(silent), marker="▲", color=rgb)
     plt.xlim(log(x_lo), log(x_hi))
@@ -110,11 +114,11 @@ def legend(chart: PairChart) -> Text:
     text.append("▲", style=up)
     text.append("▲", style=down)
     text.append(" did not trip")
-    if chart.i_max_ma is not None and chart.current_span_ma[0] < chart.i_max_ma:
-        if chart.i_max_ma < chart.current_span_ma[1]:
-            text.append(" · ")
-            text.append("│", style=_hex(FAULT_RGB))
-            text.append(f" largest fault {fmt_ma(chart.i_max_ma)}")
+    lo, hi = chart.current_span_ma
+    if chart.i_max_ma is not None and lo < chart.i_max_ma < hi:
+        text.append(" · ")
+        text.append("│", style=_hex(FAULT_RGB))
+        text.append(f" largest fault {fmt_ma(chart.i_max_ma)}")
     return text
 
 
