@@ -103,3 +103,14 @@ async def test_reversed_pair_is_named(site: SiteFile) -> None:
         text = shown(app.screen)
         assert "NOT IN SERIES" in text and "other way round" in text
         assert app.screen.has_class("-wide")
+
+
+async def test_c_brings_the_chart_into_view_on_a_short_terminal(site: SiteFile) -> None:
+    app = Host(PairScreen(site, analyse(site), "rc3", "rb1"))
+    async with app.run_test(size=(80, 24)) as pilot:
+        await pilot.pause()
+        body = app.screen.query_one("#pair-body")
+        assert body.scroll_y == 0
+        await pilot.press("c")
+        await pilot.pause()
+        assert body.scroll_y > 0

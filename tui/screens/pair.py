@@ -80,6 +80,7 @@ class PairScreen(ModalScreen[None]):
     BINDINGS = [
         Binding("escape", "close", "Close"),
         Binding("q", "close", "Close", show=False),
+        Binding("c", "show_chart", "Chart"),
     ]
 
     CSS_PATH = "pair.tcss"
@@ -154,7 +155,7 @@ class PairScreen(ModalScreen[None]):
                 else:
                     yield Static(f"No chart: {self.chart_error}", id="pair-no-chart", markup=False)
             yield Static(CAUTION, classes="caution", markup=False)
-            yield Button("Close (Esc)", id="pair-close", compact=True)
+            yield Button("Close (Esc) · c: chart", id="pair-close", compact=True)
 
     def on_mount(self) -> None:
         if self.chart is not None:
@@ -163,6 +164,11 @@ class PairScreen(ModalScreen[None]):
 
     def action_close(self) -> None:
         self.dismiss(None)
+
+    def action_show_chart(self) -> None:
+        """Scroll the chart into view (on a short terminal it sits below the text)."""
+        for chart in self.query(BandChart):
+            chart.scroll_visible(animate=False)
 
     @on(Button.Pressed, "#pair-close")
     def _close_pressed(self) -> None:
