@@ -16,7 +16,7 @@ from textual.widget import Widget
 from textual.widgets import Button, Checkbox, Input, Label, Select, Static, TextArea
 
 from model.limits import RULE_SETS
-from model.site import SiteInfo, TrendSettings
+from model.site import SiteFile, SiteInfo, TrendSettings
 
 EARTHING_CHOICES = ("TN-S", "TN-C-S", "TT", "IT")
 
@@ -112,7 +112,7 @@ class SiteDetailsScreen(ModalScreen[SiteInfo | None]):
 
     CSS_PATH = "site_details.tcss"
 
-    def __init__(self, site: Any) -> None:
+    def __init__(self, site: SiteFile) -> None:
         super().__init__()
         self.site = site
         self.info: SiteInfo = site.site
