@@ -42,7 +42,7 @@ GENERAL, S_TYPE, SET = 0, 1, 2
 _DELAY_CODE = {"general": GENERAL, "S": S_TYPE, "set": SET}
 
 #: Points of the plain log grid added to the exact breakpoints of each pair.
-LOG_POINTS = 48
+LOG_POINTS = 16
 
 
 @dataclass(frozen=True)
@@ -56,11 +56,13 @@ class DeviceCurve:
 
     @classmethod
     def of(cls, node: object) -> DeviceCurve:
+        """The curve parameters of a residual-current device node."""
+        d = node.__dict__  # plain field access: pydantic's fallback getattr is slow
         return cls(
-            idn_ma=float(getattr(node, "idn_ma")),  # noqa: B009
-            delay=str(getattr(node, "delay", "general")),
-            delay_ms=getattr(node, "delay_ms", None),
-            max_break_ms=getattr(node, "max_break_ms", None),
+            idn_ma=float(d["idn_ma"]),
+            delay=str(d.get("delay", "general")),
+            delay_ms=d.get("delay_ms"),
+            max_break_ms=d.get("max_break_ms"),
         )
 
 
@@ -102,6 +104,18 @@ class DeviceArrays:
         return cls(idn_ma=idn, tab_ma=tab.reshape(p, t), tab_max_ms=tmax, tab_min_ms=tmin)
 
 
+def _count(tab_ma: FloatArray, i_ma: FloatArray, *, strict: bool) -> npt.NDArray[np.int64]:
+    """How many tabulated currents of each row lie below (or at) each current.
+
+    One pass per table column over (P, G) arrays keeps memory traffic low.
+    """
+    out = np.zeros(i_ma.shape, dtype=np.int64)
+    for k in range(tab_ma.shape[1]):
+        col = tab_ma[:, k : k + 1]
+        out += (col < i_ma) if strict else (col <= i_ma)
+    return out
+
+
 def max_break_ms(dev: DeviceArrays, i_ma: FloatArray) -> FloatArray:
     """Maximum break time of each device (rows) at each residual current (columns). [ms]
 
@@ -111,8 +125,7 @@ def max_break_ms(dev: DeviceArrays, i_ma: FloatArray) -> FloatArray:
     ----------
     IEC 61008-1 Ed.3 Table 1 (step-function reading between columns).
     """
-    below = dev.tab_ma[:, None, :] <= i_ma[:, :, None]  # (P, G, T)
-    idx = below.sum(axis=2) - 1
+    idx = _count(dev.tab_ma, i_ma, strict=False) - 1
     safe = np.clip(idx, 0, dev.tab_ma.shape[1] - 1)
     out = np.take_along_axis(dev.tab_max_ms, safe, axis=1)
     return np.where(idx < 0, np.inf, out)
@@ -129,8 +142,7 @@ def min_nonactuating_ms(dev: DeviceArrays, i_ma: FloatArray) -> FloatArray:
     IEC 61008-1 Ed.3 Table 1 (step-function reading; below IΔn the value at
     IΔn, an assumption); IΔno = 0.5 IΔn.
     """
-    under = dev.tab_ma[:, None, :] < i_ma[:, :, None]
-    idx = np.clip(under.sum(axis=2), 0, dev.tab_ma.shape[1] - 1)
+    idx = np.clip(_count(dev.tab_ma, i_ma, strict=True), 0, dev.tab_ma.shape[1] - 1)
     out = np.take_along_axis(dev.tab_min_ms, idx, axis=1)
     cannot_trip = i_ma <= NON_OPERATING_FRACTION * dev.idn_ma[:, None]
     return np.where(cannot_trip, np.inf, out)

@@ -8,6 +8,7 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass
+from functools import lru_cache
 from typing import Any, Literal
 
 from model.limits import (
@@ -61,10 +62,30 @@ def time_band(node: Any, group: TestGroup, waveform: str, rules: str) -> Band:
     IEC 61008-1 Ed.3 Table 1 and IΔno = 0.5 IΔn; IEC 61009-1; BS 7671
     Appendix 3 Table 3A; Type A half-wave band 0.35–1.4 IΔn (IEC 61008-1).
     """
+    d = node.__dict__
+    return _time_band(
+        float(d["idn_ma"]),
+        str(d.get("delay", "general")),
+        d.get("delay_ms"),
+        d.get("max_break_ms"),
+        group,
+        waveform,
+        rules,
+    )
+
+
+@lru_cache(maxsize=4096)
+def _time_band(
+    idn: float,
+    delay: str,
+    dms: float | None,
+    bms: float | None,
+    group: TestGroup,
+    waveform: str,
+    rules: str,
+) -> Band:
     rs = rule_set(rules)
     required = group in rs.required_tests
-    idn = float(node.idn_ma)
-    delay = str(getattr(node, "delay", "general"))
     if group == "half":
         op = operating_band(waveform, idn)
         if op.low >= 0.5:
@@ -92,8 +113,6 @@ def time_band(node: Any, group: TestGroup, waveform: str, rules: str) -> Band:
         )
     mult = GROUP_MULTIPLE[group]
     if delay == "set":
-        dms = getattr(node, "delay_ms", None)
-        bms = getattr(node, "max_break_ms", None)
         lo = float(dms) if (dms is not None and group == "x1") else None
         hi = float(bms) if bms is not None else None
         return Band(
@@ -141,9 +160,9 @@ def judge_time(band: Band, value: float | str | None) -> Judgement:
             return Judgement(None, "recorded (not judged for this waveform)")
         if value == DID_NOT_TRIP:
             return Judgement(None, "did not trip, as it must not")
-        return Judgement("reading.half-tripped", f"tripped at ½ × IΔn ({value:g} ms); {band.text}")
+        return Judgement("reading.half-tripped", f"tripped in {value:g} ms; it must not trip")
     if value == DID_NOT_TRIP:
-        return Judgement("reading.no-trip", f"did not trip; {band.text}")
+        return Judgement("reading.no-trip", f"did not trip; it must trip, {band.text}")
     assert isinstance(value, float | int)
     if band.max_ms is not None and value > band.max_ms:
         return Judgement("reading.too-slow", f"{value:g} ms is slower than {band.text}")
@@ -152,14 +171,22 @@ def judge_time(band: Band, value: float | str | None) -> Judgement:
     return Judgement(None, f"{value:g} ms within {band.text}")
 
 
-def worse(a: float | str | None, b: float | str | None) -> float | str | None:
-    """The worse of the 0° and 180° results: 'did not trip' over any time, else the longer."""
+def worse(a: float | str | None, b: float | str | None, group: str = "x1") -> float | str | None:
+    """The worse of the 0° and 180° results.
+
+    For a test that must trip: 'did not trip' over any time, else the longer
+    time.  For the ½ IΔn test, which must not trip: any trip over 'did not
+    trip' (the shorter time, the more sensitive).
+    """
     vals = [v for v in (a, b) if v is not None]
     if not vals:
         return None
+    times = [float(v) for v in vals if v != DID_NOT_TRIP]
+    if group == "half":
+        return min(times) if times else DID_NOT_TRIP
     if DID_NOT_TRIP in vals:
         return DID_NOT_TRIP
-    return max(float(v) for v in vals)
+    return max(times)
 
 
 def faster(a: float | str | None, b: float | str | None) -> float | None:

@@ -30,34 +30,51 @@ class SiteLoadError(Exception):
         super().__init__(f"{self.path}: {message}" if self.path else message)
 
 
-def _loc_text(loc: tuple[Any, ...], raw: Any) -> str:
-    """A JSON path like ``nodes[3] (rcd1).idn_ma`` from a pydantic error location."""
+def _walk(loc: tuple[Any, ...], raw: Any) -> tuple[str, int]:
+    """A JSON path like ``nodes[3] (rcd1).idn_ma`` for a pydantic error location.
+
+    Also returns how many elements of ``loc`` name real places in the data; the
+    rest are pydantic's labels of union members, which users never typed.
+    """
     parts: list[str] = []
     cur = raw
     i = 0
+    used = 0
     while i < len(loc):
         key = loc[i]
-        if isinstance(key, int):
+        if isinstance(key, int) and isinstance(cur, list):
             parts.append(f"[{key}]")
-            nxt = None
-            if isinstance(cur, list) and 0 <= key < len(cur):
-                nxt = cur[key]
+            nxt = cur[key] if 0 <= key < len(cur) else None
             if isinstance(nxt, dict) and isinstance(nxt.get("id"), str):
                 parts.append(f" ({nxt['id']})")
                 # pydantic adds the union tag after a list index of a discriminated union
                 if i + 1 < len(loc) and loc[i + 1] == nxt.get("kind"):
                     i += 1
             cur = nxt
+        elif isinstance(cur, dict) and isinstance(key, str) and key in cur:
+            parts.append(f".{key}" if parts else key)
+            cur = cur[key]
+        elif isinstance(cur, dict) and isinstance(key, str) and i == len(loc) - 1:
+            parts.append(f".{key}" if parts else key)  # a missing or extra field
+            cur = None
         else:
-            parts.append(f".{key}" if parts else str(key))
-            cur = cur.get(key) if isinstance(cur, dict) else None
+            break
         i += 1
-    return "".join(parts) or "(top level)"
+        used = i
+    return "".join(parts), used
+
+
+def _loc_text(loc: tuple[Any, ...], raw: Any) -> str:
+    return _walk(loc, raw)[0] or "(top level)"
 
 
 def describe_validation_error(exc: ValidationError, raw: Any) -> str:
-    """One line per problem, each with its JSON path; joined by '; '."""
-    out: list[str] = []
+    """One clause per problem, each with its JSON path; joined by '; '.
+
+    Errors from the members of one union (a time or 'did not trip') are merged
+    into one clause.
+    """
+    merged: dict[str, list[str]] = {}
     for err in exc.errors():
         loc = tuple(err.get("loc", ()))
         msg = str(err.get("msg", "invalid"))
@@ -69,13 +86,18 @@ def describe_validation_error(exc: ValidationError, raw: Any) -> str:
             loc = loc[:-1]
         elif err.get("type") == "union_tag_invalid":
             msg = "unknown kind; " + msg
-        where = _loc_text(loc, raw)
-        out.append(f"{where}: {msg}")
-        if len(out) >= 5:
-            more = len(exc.errors()) - 5
-            if more > 0:
-                out.append(f"and {more} more")
-            break
+        elif err.get("type") == "missing":
+            msg = "required field is missing"
+        where, _ = _walk(loc, raw)
+        msgs = merged.setdefault(where, [])
+        if msg not in msgs:
+            msgs.append(msg)
+    out: list[str] = []
+    for where, msgs in merged.items():
+        text = " or ".join(msgs)
+        out.append(f"{where}: {text}" if where else text)
+    if len(out) > 5:
+        out = [*out[:5], f"and {len(out) - 5} more"]
     return "; ".join(out)
 
 

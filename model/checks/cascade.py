@@ -40,9 +40,8 @@ def largest_fault_ma(ctx: Context) -> dict[str, float]:
     for nid in reversed(idx.order):
         node = idx.by_id[nid]
         best = float("inf")
-        zs = getattr(node, "zs_ohm", None)
-        if node.kind == "circuit" and zs is not None:
-            best = float(zs)
+        if node.kind == "circuit" and node.zs_ohm is not None:
+            best = float(node.zs_ohm)
         for c in idx.children[nid]:
             best = min(best, min_zs.get(c, float("inf")))
         min_zs[nid] = best
@@ -138,8 +137,9 @@ def analyse_pairs(ctx: Context) -> list[PairAnalysis]:
         return []
     idx = ctx.index
     faults = largest_fault_ma(ctx)
-    ups = [DeviceCurve.of(idx.by_id[u]) for u, _ in pairs]
-    downs = [DeviceCurve.of(idx.by_id[d]) for _, d in pairs]
+    curves = {r: DeviceCurve.of(idx.by_id[r]) for r in idx.rcds()}
+    ups = [curves[u] for u, _ in pairs]
+    downs = [curves[d] for _, d in pairs]
     imax = [faults[d] for _, d in pairs]
     bands = pair_bands(ups, downs, imax)
     out: list[PairAnalysis] = []

@@ -88,7 +88,7 @@ def _reading_findings(
                 missing_required.append(GROUP_TITLE[group])
             continue
         both = f"0°: {fmt_result(v0)}, 180°: {fmt_result(v180)}"
-        w = worse(v0, v180)
+        w = worse(v0, v180, group)
         j = judge_time(band, w)
         if j.flag is None and band.min_ms is not None:
             # too fast is judged on the faster of the two

@@ -1,0 +1,86 @@
+"""Small builders for test sites (importable from every test folder)."""
+
+from __future__ import annotations
+
+import json
+import shutil
+from pathlib import Path
+from typing import Any
+
+from model.checks import analyse
+from model.findings import Analysis
+from model.site import SiteFile
+
+ROOT = Path(__file__).resolve().parent.parent
+SAMPLES = ROOT / "sample_sites"
+
+
+def node(id: str, parent: str | None, kind: str, **kw: Any) -> dict[str, Any]:
+    d: dict[str, Any] = {"id": id, "kind": kind, **kw}
+    if parent is not None:
+        d["parent"] = parent
+    return d
+
+
+def rcd(
+    id: str,
+    parent: str,
+    idn_ma: float,
+    *,
+    kind: str = "rccb",
+    waveform: str = "A",
+    delay: str = "general",
+    **kw: Any,
+) -> dict[str, Any]:
+    return node(id, parent, kind, idn_ma=float(idn_ma), waveform=waveform, delay=delay, **kw)
+
+
+def circuit(id: str, parent: str, use: str = "other", **kw: Any) -> dict[str, Any]:
+    return node(id, parent, "circuit", use=use, **kw)
+
+
+def site_doc(
+    nodes: list[dict[str, Any]], visits: list[dict[str, Any]] | None = None, **info: Any
+) -> dict[str, Any]:
+    base = {"name": "Test site", "earthing": "TN-C-S"}
+    base.update(info)
+    return {
+        "format": "tripwise.site",
+        "version": 1,
+        "site": base,
+        "nodes": [node("o", None, "origin"), *nodes],
+        "visits": visits or [],
+    }
+
+
+def build(
+    nodes: list[dict[str, Any]], visits: list[dict[str, Any]] | None = None, **info: Any
+) -> SiteFile:
+    return SiteFile.model_validate(site_doc(nodes, visits, **info))
+
+
+def visit(
+    readings: dict[str, dict[str, Any]], id: str = "v1", date: str = "2026-11-30"
+) -> dict[str, Any]:
+    return {"id": id, "date": date, "readings": readings}
+
+
+def run(
+    nodes: list[dict[str, Any]], visits: list[dict[str, Any]] | None = None, **info: Any
+) -> Analysis:
+    return analyse(build(nodes, visits, **info))
+
+
+def rules_of(result: Analysis, rule: str) -> list[Any]:
+    return [f for f in result.findings if f.rule == rule]
+
+
+def copy_sample(name: str, dest: Path) -> Path:
+    target = dest / f"{name}.json"
+    shutil.copyfile(SAMPLES / f"{name}.json", target)
+    return target
+
+
+def write_doc(path: Path, doc: Any) -> Path:
+    path.write_text(json.dumps(doc, ensure_ascii=False), encoding="utf-8")
+    return path

@@ -1,0 +1,116 @@
+"""PairScreen on the sample's workshop pairs.
+
+rc3 is a 100 mA type S RCCB, rb1 and rb2 are 30 mA general RCBOs below it.
+By IEC 61008-1 Ed.3 Table 1 (step-function reading between the tabulated
+currents; IΔno = 0.5 IΔn) selectivity is not guaranteed from 50 mA (rc3 may
+trip above 0.5 × 100 mA with a 130 ms minimum) to 150 mA (5 × 30 mA, where the
+downstream maximum drops to 40 ms).  rb1's readings (slowest 21 ms) against
+rc3's fastest (92 ms) show a margin; rb2 has no readings.
+"""
+
+from __future__ import annotations
+
+import shutil
+from pathlib import Path
+
+import pytest
+from textual.app import App
+from textual.screen import Screen
+from textual.widgets import Static
+from textual_plotext import PlotextPlot
+
+from model.checks import analyse
+from model.findings import CAUTION
+from model.site import SiteFile
+from model.store import load_site
+from tui.screens.pair import PairScreen
+from tui.widgets.bandchart import BandChart
+
+SAMPLE = Path(__file__).resolve().parents[2] / "sample_sites" / "oak-lane-house.json"
+
+
+class Host(App[None]):
+    def __init__(self, screen: Screen[object]) -> None:
+        super().__init__()
+        self.modal = screen
+        self.results: list[object] = []
+
+    def on_mount(self) -> None:
+        self.push_screen(self.modal, self.results.append)
+
+
+@pytest.fixture()
+def site(tmp_path: Path) -> SiteFile:
+    dest = tmp_path / "site.json"
+    shutil.copy(SAMPLE, dest)
+    return load_site(dest)
+
+
+def shown(screen: Screen[object]) -> str:
+    return "\n".join(str(s.content) for s in screen.query(".pair-row").results(Static))
+
+
+async def test_rc3_rb1_selective_in_practice_with_chart(site: SiteFile) -> None:
+    app = Host(PairScreen(site, analyse(site), "rc3", "rb1"))
+    async with app.run_test(size=(120, 40)) as pilot:
+        await pilot.pause()
+        screen = app.screen
+        text = shown(screen)
+        assert "50 mA to 150 mA" in text  # IEC 61008-1 Table 1, step-function reading
+        assert "selective in practice" in text.lower()
+        assert "margin 71 ms" in text  # 92 ms (rc3 fastest at 5 × IΔn) - 21 ms (rb1 slowest)
+        assert "ratio 3.33:1" in text  # 100 mA / 30 mA
+        chart = screen.query_one(BandChart)
+        assert chart.chart is not None
+        assert chart.chart.ranges == [(50.0, 150.0)]
+        assert 300.0 in chart.chart.down_max  # general max break at IΔn (Table 1)
+        assert 130.0 in chart.chart.up_min  # type S min non-actuating at IΔn (Table 1)
+        assert chart.chart.down_points and chart.chart.up_points
+        drawn = str(chart.query_one(PlotextPlot).render())
+        assert "∞" in drawn and "●" in drawn and "■" in drawn and "▲" in drawn
+        assert CAUTION in str(screen.query_one(".caution", Static).content)
+        await pilot.press("escape")
+        await pilot.pause()
+        assert app.results == [None]
+
+
+async def test_rc3_rb2_not_selective_without_readings(site: SiteFile) -> None:
+    app = Host(PairScreen(site, analyse(site), "rc3", "rb2"))
+    async with app.run_test(size=(120, 40)) as pilot:
+        await pilot.pause()
+        text = shown(app.screen)
+        assert "50 mA to 150 mA" in text
+        assert "NOT SELECTIVE" in text
+        assert "SELECTIVE IN PRACTICE" not in text
+        assert "no reading" in text
+        chart = app.screen.query_one(BandChart).chart
+        assert chart is not None and chart.down_points == []
+
+
+async def test_pair_not_in_series_is_said_plainly(site: SiteFile) -> None:
+    app = Host(PairScreen(site, analyse(site), "rc1", "rb1"))
+    async with app.run_test(size=(80, 24)) as pilot:
+        await pilot.pause()
+        text = shown(app.screen)
+        assert "NOT IN SERIES" in text
+        assert "Verdict" not in text
+
+
+async def test_reversed_pair_is_named(site: SiteFile) -> None:
+    app = Host(PairScreen(site, analyse(site), "rb1", "rc3"))
+    async with app.run_test(size=(160, 45)) as pilot:
+        await pilot.pause()
+        text = shown(app.screen)
+        assert "NOT IN SERIES" in text and "other way round" in text
+        assert app.screen.has_class("-wide")
+
+
+async def test_c_brings_the_chart_into_view_on_a_short_terminal(site: SiteFile) -> None:
+    app = Host(PairScreen(site, analyse(site), "rc3", "rb1"))
+    async with app.run_test(size=(80, 24)) as pilot:
+        await pilot.pause()
+        body = app.screen.query_one("#pair-body")
+        assert body.scroll_y == 0
+        await pilot.press("c")
+        await pilot.pause()
+        assert body.scroll_y > 0

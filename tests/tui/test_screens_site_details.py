@@ -1,0 +1,134 @@
+"""SiteDetailsScreen: strict numbers refused at the field, a valid edit returns SiteInfo.
+
+U0 limits (50 to 1000 V) are the SiteInfo model's; 230 V is the common
+nominal line-to-earth voltage of European low-voltage supplies (IEC 60038).
+"""
+
+from __future__ import annotations
+
+import shutil
+from pathlib import Path
+
+import pytest
+from textual.app import App
+from textual.pilot import Pilot
+from textual.screen import Screen
+from textual.widgets import Input, Select, Static
+
+from model.site import SiteFile, SiteInfo
+from model.store import load_site
+from tui.screens.site_details import SiteDetailsScreen
+
+SAMPLE = Path(__file__).resolve().parents[2] / "sample_sites" / "oak-lane-house.json"
+
+
+class Host(App[None]):
+    def __init__(self, screen: Screen[object]) -> None:
+        super().__init__()
+        self.modal = screen
+        self.results: list[object] = []
+
+    def on_mount(self) -> None:
+        self.push_screen(self.modal, self.results.append)
+
+
+@pytest.fixture()
+def site(tmp_path: Path) -> SiteFile:
+    dest = tmp_path / "site.json"
+    shutil.copy(SAMPLE, dest)
+    return load_site(dest)
+
+
+async def retype(pilot: Pilot[None], screen: Screen[object], field: str, text: str) -> None:
+    """Clear a field and type new text into it, key by key."""
+    inp = screen.query_one(f"#f-{field}", Input)
+    inp.focus()
+    inp.value = ""
+    if text:
+        await pilot.press(*text)
+    await pilot.pause()
+
+
+def error_at(screen: Screen[object], field: str) -> str:
+    return str(screen.query_one(f"#err-{field}", Static).content)
+
+
+@pytest.mark.parametrize(
+    ("typed", "expected"),
+    [("abc", "'abc' is not a number"), ("0.23", "at least 50 V"), ("", "U0 is needed")],
+)
+async def test_bad_u0_is_refused_at_the_field(site: SiteFile, typed: str, expected: str) -> None:
+    app = Host(SiteDetailsScreen(site))
+    async with app.run_test(size=(120, 40)) as pilot:
+        await pilot.pause()
+        screen = app.screen
+        await retype(pilot, screen, "u0_v", typed)
+        await pilot.press("ctrl+s")
+        await pilot.pause()
+        assert app.screen is screen  # not dismissed
+        assert app.results == []
+        assert expected in error_at(screen, "u0_v")
+        assert screen.query_one("#f-u0_v", Input).has_class("-invalid")
+        assert screen.focused is screen.query_one("#f-u0_v", Input)
+        # a fix clears the message and saves
+        await retype(pilot, screen, "u0_v", "230")
+        await pilot.press("ctrl+s")
+        await pilot.pause()
+        assert len(app.results) == 1
+        assert isinstance(app.results[0], SiteInfo)
+
+
+async def test_valid_edit_dismisses_with_new_site_info(site: SiteFile) -> None:
+    app = Host(SiteDetailsScreen(site))
+    async with app.run_test(size=(120, 40)) as pilot:
+        await pilot.pause()
+        screen = app.screen
+        assert not screen.query_one("#row-ra_ohm").display  # TN-C-S: RA not shown
+        await retype(pilot, screen, "name", "Oak Lane House")
+        await retype(pilot, screen, "u0_v", "240")
+        screen.query_one("#f-earthing", Select).value = "TT"
+        await pilot.pause()
+        assert screen.query_one("#row-ra_ohm").display  # TT: RA shown
+        assert not screen.query_one("#row-ze_ohm").display
+        await retype(pilot, screen, "ra_ohm", "21.5")
+        await retype(pilot, screen, "growth_pct", "25")
+        await pilot.press("ctrl+s")
+        await pilot.pause()
+    expected = site.site.model_copy(
+        update={
+            "name": "Oak Lane House",
+            "u0_v": 240.0,
+            "earthing": "TT",
+            "ra_ohm": 21.5,
+            "trend": site.site.trend.model_copy(update={"growth_pct": 25.0}),
+        }
+    )
+    assert app.results == [expected]
+    assert app.results[0].ze_ohm == 0.28  # hidden field kept, not lost
+
+
+async def test_empty_name_and_negative_ze_are_refused(site: SiteFile) -> None:
+    app = Host(SiteDetailsScreen(site))
+    async with app.run_test(size=(80, 24)) as pilot:
+        await pilot.pause()
+        screen = app.screen
+        await retype(pilot, screen, "ze_ohm", "-1")
+        await pilot.press("ctrl+s")
+        await pilot.pause()
+        assert "Ze must be more than 0 Ω" in error_at(screen, "ze_ohm")
+        await retype(pilot, screen, "ze_ohm", "0.3")
+        await retype(pilot, screen, "name", "")
+        await pilot.press("ctrl+s")
+        await pilot.pause()
+        assert "Name must not be empty" in error_at(screen, "name")
+        assert error_at(screen, "ze_ohm") == ""
+        assert app.results == []
+
+
+async def test_cancel_returns_none(site: SiteFile) -> None:
+    app = Host(SiteDetailsScreen(site))
+    async with app.run_test(size=(120, 40)) as pilot:
+        await pilot.pause()
+        await pilot.press("escape")
+        await pilot.pause()
+        assert app.results == [None]

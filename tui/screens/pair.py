@@ -1,0 +1,175 @@
+"""One series pair of residual-current devices: rule, bands, readings, verdict and chart."""
+
+from __future__ import annotations
+
+from typing import Any
+
+from rich.text import Text
+from textual import on
+from textual.app import ComposeResult
+from textual.binding import Binding
+from textual.containers import ScrollableContainer, Vertical
+from textual.screen import ModalScreen
+from textual.widgets import Button, Static
+
+from model.chartdata import CHART_SOURCE, MeasuredPoint, PairChart, pair_chart_data
+from model.findings import CAUTION, Analysis, PairAnalysis, fmt_ma
+from model.limits import CASCADE_RATIO
+from model.readings import GROUP_TITLE, fmt_result, group_of
+from model.site import SiteFile
+from model.tree import SiteIndex
+from tui.widgets.bandchart import BandChart
+
+VERDICT_TITLE = {
+    "selective": "SELECTIVE",
+    "selective-in-practice": "SELECTIVE IN PRACTICE",
+    "not-selective": "NOT SELECTIVE",
+}
+
+_DELAY = {"general": "general", "S": "type S", "set": "set delay"}
+
+
+def device_text(node: Any) -> str:
+    """'100 mA Type A, type S' for one residual-current device."""
+    text = f"{node.idn_ma:g} mA Type {node.waveform}, {_DELAY.get(str(node.delay), node.delay)}"
+    if getattr(node, "delay_ms", None) is not None:
+        text += f" {node.delay_ms:g} ms"
+    return text
+
+
+def points_text(points: list[MeasuredPoint]) -> str:
+    """'½ × IΔn (15 mA): did not trip, did not trip; 1 × IΔn (30 mA): 18 ms, 21 ms'."""
+    groups: dict[str, tuple[float, list[str]]] = {}
+    for current, value, test in points:
+        g = group_of(test)
+        groups.setdefault(g, (current, []))[1].append(fmt_result(value))
+    return "; ".join(
+        f"{GROUP_TITLE[g]} ({fmt_ma(cur)}): {', '.join(vals)}" for g, (cur, vals) in groups.items()
+    )
+
+
+def rule_text(p: PairAnalysis) -> str:
+    delayed = "yes" if p.up_delayed else "no"
+    head = (
+        f"upstream time-delayed: {delayed} · IΔn ratio {p.ratio:.3g}:1 "
+        f"(needs {CASCADE_RATIO.value:g}:1 or more)"
+    )
+    if p.rule_ok:
+        return head + " → met"
+    return head + " → not met: " + "; ".join(p.rule_notes)
+
+
+def ranges_text(p: PairAnalysis) -> str:
+    if not p.ranges:
+        return f"none: the bands do not overlap anywhere up to {fmt_ma(p.i_max_ma)}"
+    return ", ".join(r.text() for r in p.ranges) + f" (largest fault current {fmt_ma(p.i_max_ma)})"
+
+
+def measured_text(p: PairAnalysis, visit: str | None) -> str:
+    if p.measured is None:
+        if not p.ranges:
+            return "not needed: the bands do not overlap"
+        return "no visit recorded"
+    where = f"visit {visit}: " if visit else ""
+    return where + p.measured.explanation
+
+
+class PairScreen(ModalScreen[None]):
+    """Selectivity of an upstream and a downstream residual-current device."""
+
+    BINDINGS = [
+        Binding("escape", "close", "Close"),
+        Binding("q", "close", "Close", show=False),
+        Binding("c", "show_chart", "Chart"),
+    ]
+
+    CSS_PATH = "pair.tcss"
+    HORIZONTAL_BREAKPOINTS = [(0, "-narrow"), (130, "-wide")]
+
+    def __init__(self, site: SiteFile, analysis: Analysis, up_id: str, down_id: str) -> None:
+        super().__init__()
+        self.site = site
+        self.analysis = analysis
+        self.up_id = up_id
+        self.down_id = down_id
+        self.index = SiteIndex.build(site)
+        self.pair: PairAnalysis | None = analysis.pair(up_id, down_id)
+        self.chart: PairChart | None = None
+        self.chart_error: str | None = None
+        try:
+            self.chart = pair_chart_data(site, analysis, up_id, down_id)
+        except (KeyError, ValueError) as exc:
+            self.chart_error = str(exc).strip("'")
+
+    def _lines(self) -> list[tuple[str, str, str]]:
+        """(heading, text, css class) rows of the summary."""
+        idx = self.index
+        up, down = idx.node(self.up_id), idx.node(self.down_id)
+        rows: list[tuple[str, str, str]] = []
+        for role, nid, node in (("Upstream", self.up_id, up), ("Downstream", self.down_id, down)):
+            desc = device_text(node) if hasattr(node, "delay") else str(node.kind)
+            rows.append((role, f"{idx.label(nid)} ({nid}) · {desc} · {idx.board_label(nid)}", ""))
+        p = self.pair
+        if p is None:
+            msg = f"NOT IN SERIES: {idx.label(self.down_id)} is not fed through {idx.label(self.up_id)}"
+            if self.analysis.pair(self.down_id, self.up_id) is not None:
+                msg += " (they are in series the other way round)"
+            rows.append(("Pair", msg + "; there is no series pair to judge.", "-not-series"))
+            return rows
+        rows.append(("Rule", rule_text(p), "" if p.rule_ok else "-warn"))
+        rows.append(("Not guaranteed", ranges_text(p), "-warn" if p.ranges else ""))
+        rows.append(("Basis", CHART_SOURCE, "-muted"))
+        visit = self.chart.visit if self.chart else None
+        rows.append(("Measured", measured_text(p, visit), ""))
+        rows.append(("Verdict", f"{VERDICT_TITLE[p.verdict]}: {p.explanation}", f"-{p.verdict}"))
+        if self.chart is not None:
+            for role, nid, pts in (
+                ("Readings up", self.up_id, self.chart.up_points),
+                ("Readings down", self.down_id, self.chart.down_points),
+            ):
+                if pts:
+                    rows.append((role, f"{nid}: {points_text(pts)}", "-muted"))
+            for note in self.chart.notes:
+                rows.append(("Note", note, "-muted"))
+        return rows
+
+    def compose(self) -> ComposeResult:
+        idx = self.index
+        with Vertical(id="pair-box"):
+            yield Static(
+                Text(
+                    f"Selectivity: {idx.label(self.up_id)} above {idx.label(self.down_id)}",
+                    style="bold",
+                ),
+                id="pair-title",
+            )
+            with ScrollableContainer(id="pair-body"):
+                with Vertical(id="pair-text"):
+                    for heading, text, cls in self._lines():
+                        row = Text()
+                        row.append(f"{heading}: ", style="bold")
+                        row.append(text)
+                        yield Static(row, classes=f"pair-row {cls}".strip())
+                if self.chart is not None:
+                    yield BandChart(id="pair-chart")
+                else:
+                    yield Static(f"No chart: {self.chart_error}", id="pair-no-chart", markup=False)
+            yield Static(CAUTION, classes="caution", markup=False)
+            yield Button("Close (Esc) · c: chart", id="pair-close", compact=True)
+
+    def on_mount(self) -> None:
+        if self.chart is not None:
+            self.query_one(BandChart).chart = self.chart
+        self.query_one("#pair-body").focus()
+
+    def action_close(self) -> None:
+        self.dismiss(None)
+
+    def action_show_chart(self) -> None:
+        """Scroll the chart into view (on a short terminal it sits below the text)."""
+        for chart in self.query(BandChart):
+            chart.scroll_visible(animate=False)
+
+    @on(Button.Pressed, "#pair-close")
+    def _close_pressed(self) -> None:
+        self.dismiss(None)
