@@ -90,11 +90,12 @@ class TripwiseApp(App[None]):
         self.session: EditSession | None = session
         self.lock_message = lock_message
         self.analysis: Analysis | None = None
-        self.index: SiteIndex = SiteIndex.build(session.site) if session else _empty_index()
+        self.index: SiteIndex = _empty_index()
         self.undo_stack: list[tuple[str, SiteFile]] = []
         self._save_timer: Timer | None = None
         self._analysis_timer: Timer | None = None
         self._analysis_gen = 0
+        self._analysis_wanted = False
         if session is not None:
             self._took_session(session)
 
@@ -149,7 +150,9 @@ class TripwiseApp(App[None]):
             self.notify(line, title="Recovered from the journal", timeout=12)
         for line in self.session.warnings:
             self.notify(line, title="Warning", severity="warning", timeout=12)
-        self._start_analysis()
+        # the first screen is drawn before the checks start, so the tree is usable at once
+        self._analysis_wanted = True
+        self.call_after_refresh(self._start_analysis)
 
     @property
     def main(self) -> MainScreen:
@@ -264,14 +267,16 @@ class TripwiseApp(App[None]):
     # ------------------------------------------------------------ analysis
     def _schedule_analysis(self) -> None:
         self._analysis_gen += 1
+        self._analysis_wanted = True
         if self._analysis_timer is not None:
             self._analysis_timer.stop()
         self._analysis_timer = self.set_timer(ANALYSIS_DELAY_S, self._start_analysis)
 
     def _start_analysis(self) -> None:
         self._analysis_timer = None
-        if self.session is None:
+        if self.session is None or not self._analysis_wanted:
             return
+        self._analysis_wanted = False
         self._run_analysis(self.site, self._analysis_gen)
 
     @work(thread=True, exclusive=True, group="analysis", exit_on_error=False)
@@ -295,7 +300,7 @@ class TripwiseApp(App[None]):
         """Run pending checks now and wait for them (used by tests and benchmarks)."""
         if self._analysis_timer is not None:
             self._analysis_timer.stop()
-            self._start_analysis()
+        self._start_analysis()
         await self.workers.wait_for_complete()
 
     # ------------------------------------------------------------ tree actions

@@ -147,3 +147,25 @@ async def test_lock_held_offers_read_only(oak_lane: Path, monkeypatch: pytest.Mo
         await pilot.press("d")
         assert not isinstance(app.screen, ConfirmScreen)
     assert oak_lane.read_bytes() == before
+
+
+async def test_hook_keys_open_the_analysis_screens(oak_lane: Path) -> None:
+    from tui.screens.impact import ImpactScreen
+    from tui.screens.pair import PairScreen
+    from tui.screens.site_details import SiteDetailsScreen
+    from tui.screens.visits import VisitsScreen
+
+    app = make_app(oak_lane)
+    async with app.run_test(size=(120, 40)) as pilot:
+        await app.settle()
+        app.main.select("rb1")
+        for key, cls in (
+            ("i", ImpactScreen),
+            ("p", PairScreen),
+            ("s", SiteDetailsScreen),
+            ("v", VisitsScreen),
+        ):
+            await pilot.press(key)
+            assert isinstance(app.screen, cls), key
+            await pilot.press("escape")
+            assert not isinstance(app.screen, cls), key

@@ -8,10 +8,11 @@ from textual import on
 from textual.app import ComposeResult
 from textual.containers import Horizontal, VerticalScroll
 from textual.screen import Screen
-from textual.widgets import Footer, Tree
+from textual.widgets import Tree
 
 from tui.widgets.caution_bar import CautionBar
 from tui.widgets.findings_panel import FindingsPanel, FindingsTable
+from tui.widgets.key_bar import KeyBar
 from tui.widgets.node_details import NodeDetails
 from tui.widgets.site_tree import SiteTree
 from tui.widgets.top_bar import TopBar
@@ -28,7 +29,7 @@ class MainScreen(Screen[None]):
                 yield NodeDetails(id="details")
         yield FindingsPanel(id="findings")
         yield CautionBar(id="caution")
-        yield Footer(compact=True, show_command_palette=False)
+        yield KeyBar(id="key-bar")
 
     @property
     def _app(self) -> Any:
@@ -52,6 +53,8 @@ class MainScreen(Screen[None]):
         app = self._app
         worst = app.analysis.worst_by_node() if app.analysis is not None else {}
         current = keep or self.tree.selected_id()
+        if current == app.index.root:
+            current = None  # the cursor starts on the root anyway
         self.tree.rebuild(app.index, worst, keep=current)
         self.show_details()
         if app.analysis is not None:

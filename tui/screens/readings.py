@@ -17,7 +17,7 @@ from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Vertical
 from textual.screen import Screen
-from textual.widgets import Footer, Static
+from textual.widgets import Static
 
 from model.readings import Band, judge_ramp, judge_time, ramp_band, time_band
 from model.site import DID_NOT_TRIP, TEST_NAMES, Reading
@@ -25,6 +25,7 @@ from tui.editing import is_untested
 from tui.format import LIVE_TEST_CAUTION, node_summary, node_title
 from tui.forms import errors_by_field, parse_number
 from tui.widgets.caution_bar import CautionBar
+from tui.widgets.key_bar import KeyBar
 from tui.widgets.reading_pad import ReadingPad
 from tui.widgets.top_bar import TopBar
 
@@ -99,7 +100,7 @@ class ReadingScreen(Screen[None]):
             )
             yield Static(LIVE_TEST_CAUTION, id="rd-live")
         yield CautionBar(id="caution")
-        yield Footer(compact=True, show_command_palette=False)
+        yield KeyBar(id="key-bar")
 
     @property
     def pad(self) -> ReadingPad:

@@ -10,7 +10,7 @@ from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Horizontal, Vertical
 from textual.message import Message
-from textual.widgets import DataTable, Select, Static
+from textual.widgets import DataTable, Static
 
 from model.findings import SEVERITIES, Analysis, Finding
 from model.tree import SiteIndex
@@ -29,7 +29,11 @@ class FindingsTable(DataTable[Text]):
     ]
 
     def action_filter(self, which: str) -> None:
-        self.screen.query_one(f"#filter-{which}", Select).focus()
+        panel = self.parent
+        while panel is not None and not isinstance(panel, FindingsPanel):
+            panel = panel.parent
+        if panel is not None:
+            panel.cycle_filter(which)
 
     def action_jump(self) -> None:
         panel = self.parent
@@ -53,18 +57,16 @@ class FindingsPanel(Vertical):
         self._findings: list[Finding] = []
         self._shown: list[Finding] = []
         self._index: SiteIndex | None = None
+        #: The filters now: a severity and a board id, or None for all.
+        self.severity: str | None = None
+        self.board: str | None = None
+        self._boards: list[str] = []
 
     def compose(self) -> ComposeResult:
         with Horizontal(id="findings-bar"):
             yield Static("Findings", id="findings-title")
-            yield Select(
-                [(s, s) for s in SEVERITIES],
-                prompt="all severities",
-                allow_blank=True,
-                compact=True,
-                id="filter-severity",
-            )
-            yield Select([], prompt="all boards", allow_blank=True, compact=True, id="filter-board")
+            yield Static("", id="filter-severity", classes="filter-chip")
+            yield Static("", id="filter-board", classes="filter-chip")
             yield Static("", id="findings-count")
         table = FindingsTable(id="findings-table", cursor_type="row", zebra_stripes=True)
         yield table
@@ -86,23 +88,33 @@ class FindingsPanel(Vertical):
         """Show a new analysis (keeps the filters)."""
         self._index = idx
         self._findings = [] if analysis is None else list(analysis.findings)
-        boards = sorted({f.board for f in self._findings if f.board})
-        board_select: Select[str] = self.query_one("#filter-board", Select)
-        current = board_select.value
-        options = [(idx.label(b) if b in idx.by_id else b, b) for b in boards]
-        board_select.set_options(options)
-        if current in boards:
-            board_select.value = current
+        self._boards = sorted({f.board for f in self._findings if f.board})
+        if self.board not in self._boards:
+            self.board = None
         self._refill()
 
+    def cycle_filter(self, which: str) -> None:
+        """Step a filter to its next value (all, then each severity or board)."""
+        if which == "severity":
+            order: list[str | None] = [None, *SEVERITIES]
+            self.severity = order[(order.index(self.severity) + 1) % len(order)]
+        else:
+            boards: list[str | None] = [None, *self._boards]
+            i = boards.index(self.board) if self.board in boards else 0
+            self.board = boards[(i + 1) % len(boards)]
+        self._refill()
+
+    def on_click(self, event: object) -> None:
+        widget = getattr(event, "widget", None)
+        if widget is not None and widget.id in ("filter-severity", "filter-board"):
+            self.cycle_filter(widget.id.removeprefix("filter-"))
+
     def _refill(self) -> None:
-        sev = self.query_one("#filter-severity", Select).value
-        board = self.query_one("#filter-board", Select).value
+        sev, board = self.severity, self.board
         shown = [
             f
             for f in self._findings
-            if (sev is Select.NULL or f.severity == sev)
-            and (board is Select.NULL or f.board == board)
+            if (sev is None or f.severity == sev) and (board is None or f.board == board)
         ]
         self._shown = shown
         table = self.query_one(FindingsTable)
@@ -124,14 +136,12 @@ class FindingsPanel(Vertical):
             )
         if shown:
             table.move_cursor(row=min(max(row, 0), len(shown) - 1))
+        board_name = idx.label(board) if idx is not None and board in idx.by_id else board
+        self.query_one("#filter-severity", Static).update(f"1 severity: {sev or 'all'}")
+        self.query_one("#filter-board", Static).update(f"2 board: {board_name or 'all'}")
         total = len(self._findings)
         count = f"{len(shown)} of {total}" if len(shown) != total else f"{total}"
         self.query_one("#findings-count", Static).update(count)
-
-    @on(Select.Changed)
-    def _filter_changed(self, event: Select.Changed) -> None:
-        event.stop()
-        self._refill()
 
     @on(DataTable.RowSelected, "#findings-table")
     def _row_chosen(self, event: DataTable.RowSelected) -> None:

@@ -1,0 +1,33 @@
+"""The keys that apply where the cursor is, on one line (a light stand-in for a footer)."""
+
+from __future__ import annotations
+
+from typing import Any
+
+from rich.text import Text
+from textual.widgets import Static
+
+
+class KeyBar(Static):
+    """Follows the screen's active bindings; redrawn when focus or bindings change."""
+
+    def on_mount(self) -> None:
+        self.screen.bindings_updated_signal.subscribe(self, self._bindings_changed)
+        self._show()
+
+    def on_unmount(self) -> None:
+        self.screen.bindings_updated_signal.unsubscribe(self)
+
+    def _bindings_changed(self, _screen: Any) -> None:
+        self._show()
+
+    def _show(self) -> None:
+        seen: set[str] = set()
+        t = Text(no_wrap=True, overflow="ellipsis")
+        for _node, binding, enabled, _tooltip in self.screen.active_bindings.values():
+            if not binding.show or not enabled or binding.action in seen:
+                continue
+            seen.add(binding.action)
+            t.append(f" {self.app.get_key_display(binding)} ", style="bold #12171b on #e0a526")
+            t.append(f" {binding.description}  ", style="#c9d4da")
+        self.update(t)
