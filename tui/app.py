@@ -39,6 +39,8 @@ from tui.screens.start_visit import StartVisitScreen
 SAVE_DELAY_S = 0.8
 #: Seconds after the last edit before the checks are re-run.
 ANALYSIS_DELAY_S = 0.12
+#: Seconds after the first paint before the first checks (the tree is usable meanwhile).
+FIRST_ANALYSIS_DELAY_S = 0.1
 #: Whole-site states kept for undo.
 UNDO_LIMIT = 200
 
@@ -152,7 +154,7 @@ class TripwiseApp(App[None]):
             self.notify(line, title="Warning", severity="warning", timeout=12)
         # the first screen is drawn before the checks start, so the tree is usable at once
         self._analysis_wanted = True
-        self.call_after_refresh(self._start_analysis)
+        self.call_after_refresh(self._first_analysis)
 
     @property
     def main(self) -> MainScreen:
@@ -278,6 +280,9 @@ class TripwiseApp(App[None]):
             return
         self._analysis_wanted = False
         self._run_analysis(self.site, self._analysis_gen)
+
+    def _first_analysis(self) -> None:
+        self._analysis_timer = self.set_timer(FIRST_ANALYSIS_DELAY_S, self._start_analysis)
 
     @work(thread=True, exclusive=True, group="analysis", exit_on_error=False)
     def _run_analysis(self, site: SiteFile, gen: int) -> None:

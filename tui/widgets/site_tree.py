@@ -2,6 +2,7 @@
 
 from __future__ import annotations
 
+from rich.cells import cell_len
 from rich.text import Text
 from textual.binding import Binding
 from textual.widgets import Tree
@@ -43,6 +44,11 @@ class SiteTree(Tree[str]):
         text.append("  ")
         text.append(node_summary(node), style="#8fa7b3")
         return text
+
+    def get_label_width(self, node: TreeNode[str]) -> int:
+        """Width of a line's label, without rendering it (the tree asks for every line)."""
+        prefix = cell_len(self.ICON_NODE_EXPANDED) if node.allow_expand else 0
+        return prefix + node.label.cell_len
 
     def rebuild(self, idx: SiteIndex, worst: dict[str, str], keep: str | None = None) -> None:
         """Show the whole tree again (after a change of structure), keeping the cursor."""
