@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from typing import Any
 
-from textual import on
+from textual import events, on
 from textual.app import ComposeResult
 from textual.containers import Horizontal, VerticalScroll
 from textual.screen import Screen
@@ -81,14 +81,22 @@ class MainScreen(Screen[None]):
             self.show_details()
 
     def focus_tree(self) -> None:
-        self.tree.focus()
+        self.set_focus(self.tree)  # at once, so the next key already goes there
 
     def focus_findings(self) -> None:
-        self.query_one(FindingsTable).focus()
+        self.set_focus(self.query_one(FindingsTable))
 
     @on(Tree.NodeHighlighted, "#site-tree")
     def _highlighted(self) -> None:
         self.show_details()
+
+    def on_descendant_focus(self, event: events.DescendantFocus) -> None:
+        if event.widget is self.tree:
+            self.show_details()
+
+    @on(FindingsPanel.Highlighted)
+    def _finding_highlighted(self, event: FindingsPanel.Highlighted) -> None:
+        self.query_one(NodeDetails).show_finding(self._app.index, event.finding)
 
     @on(FindingsPanel.JumpTo)
     def _jump(self, event: FindingsPanel.JumpTo) -> None:

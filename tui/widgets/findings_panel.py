@@ -35,6 +35,17 @@ class FindingsTable(DataTable[Text]):
         if panel is not None:
             panel.cycle_filter(which)
 
+    def _panel(self) -> FindingsPanel | None:
+        panel = self.parent
+        while panel is not None and not isinstance(panel, FindingsPanel):
+            panel = panel.parent
+        return panel
+
+    def on_focus(self) -> None:
+        panel = self._panel()
+        if panel is not None:
+            panel.highlight_cursor()
+
     def action_jump(self) -> None:
         panel = self.parent
         while panel is not None and not isinstance(panel, FindingsPanel):
@@ -51,6 +62,12 @@ class FindingsPanel(Vertical):
         """The user chose a finding; go to this node."""
 
         node_id: str
+
+    @dataclass
+    class Highlighted(Message):
+        """The cursor is on this finding (shown in full elsewhere)."""
+
+        finding: Finding
 
     def __init__(self, *, id: str | None = None) -> None:
         super().__init__(id=id)
@@ -143,10 +160,22 @@ class FindingsPanel(Vertical):
         count = f"{len(shown)} of {total}" if len(shown) != total else f"{total}"
         self.query_one("#findings-count", Static).update(count)
 
+    @on(DataTable.RowHighlighted, "#findings-table")
+    def _row_highlighted(self, event: DataTable.RowHighlighted) -> None:
+        event.stop()
+        table = self.query_one(FindingsTable)
+        if table.has_focus and 0 <= event.cursor_row < len(self._shown):
+            self.post_message(self.Highlighted(self._shown[event.cursor_row]))
+
     @on(DataTable.RowSelected, "#findings-table")
     def _row_chosen(self, event: DataTable.RowSelected) -> None:
         event.stop()
         self.jump_to_cursor()
+
+    def highlight_cursor(self) -> None:
+        table = self.query_one(FindingsTable)
+        if 0 <= table.cursor_row < len(self._shown):
+            self.post_message(self.Highlighted(self._shown[table.cursor_row]))
 
     def jump_to_cursor(self) -> None:
         table = self.query_one(FindingsTable)

@@ -29,5 +29,5 @@ class KeyBar(Static):
                 continue
             seen.add(binding.action)
             t.append(f" {self.app.get_key_display(binding)} ", style="bold #12171b on #e0a526")
-            t.append(f" {binding.description}  ", style="#c9d4da")
+            t.append(f" {binding.description} ", style="#c9d4da")
         self.update(t)

@@ -7,7 +7,7 @@ from typing import Any
 from rich.text import Text
 from textual.widgets import Static
 
-from model.findings import Analysis
+from model.findings import Analysis, Finding
 from model.impact import trip_impact
 from model.readings import fmt_result, judge_reading
 from model.site import NODE_CLASSES, RCD_KINDS, TEST_NAMES, Visit
@@ -80,6 +80,25 @@ class NodeDetails(Static):
             t.append("\nIf it opens\n", style="bold underline")
             for line in impact_lines(idx, node_id):
                 t.append(line + "\n")
+        self.update(t)
+
+    def show_finding(self, idx: SiteIndex, f: Finding) -> None:
+        """One finding in full: what, where, what to do, and what it rests on."""
+        mark, style = SEVERITY_MARK[f.severity]
+        t = Text()
+        t.append(f"{mark} {f.severity}", style=style)
+        t.append(f"  {f.rule}\n", style="#8fa7b3")
+        where = ", ".join(idx.path_text(n) for n in f.nodes if n in idx.by_id)
+        if where:
+            t.append(f"{where}\n", style="#8fa7b3")
+        t.append(f"\n{f.message}\n")
+        if f.measured or f.band:
+            t.append(f"measured {f.measured or '—'}; band {f.band or '—'}\n", style="#d9c28a")
+        t.append("\nWhat to do\n", style="bold underline")
+        t.append(f"{f.action}\n")
+        basis = "" if f.basis == "standard" else f" ({f.basis}: advice, not a requirement)"
+        t.append(f"\nRests on: {f.source}{basis}\n", style="#8fa7b3")
+        t.append("Enter: go to the node\n", style="#8fa7b3")
         self.update(t)
 
     def _values(self, t: Text, node: Any) -> None:

@@ -29,7 +29,7 @@ class SiteTree(Tree[str]):
     def __init__(self, *, id: str | None = None) -> None:
         super().__init__("site", id=id)
         self.show_root = True
-        self.guide_depth = 3
+        self.guide_depth = 2
         self._by_id: dict[str, TreeNode[str]] = {}
         self._worst: dict[str, str] = {}
         self._index: SiteIndex | None = None
