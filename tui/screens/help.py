@@ -32,7 +32,7 @@ KEY_MAP: list[tuple[str, str, str]] = [
     ("tree", "i", "trip impact: what loses supply if this device opens"),
     ("tree", "p", "pair: this RCD with its nearest RCD above (or below)"),
     ("findings", "enter", "go to the finding's node in the tree"),
-    ("findings", "1  2", "filter by severity / by board"),
+    ("findings", "1  2", "step the severity / board filter (click a filter too)"),
     ("form", "enter", "next field; on the last field, apply"),
     ("form", "ctrl+s", "apply the form"),
     ("form", "escape", "cancel"),

@@ -100,7 +100,7 @@ class NodeEditorScreen(ModalScreen[str | None]):
         for spec in self._specs:
             w = self.query_one(f"#f-{spec.name}")
             if w.focusable and not w.disabled:
-                w.focus()
+                self.set_focus(w)
                 break
         self._check()
 
@@ -150,9 +150,14 @@ class NodeEditorScreen(ModalScreen[str | None]):
         self.errors = errors
         names = {s.name for s in self._specs}
         for spec in self._specs:
-            self.query_one(f"#err-{spec.name}", Static).update(errors.get(spec.name, ""))
+            label = self.query_one(f"#err-{spec.name}", Static)
+            message = errors.get(spec.name, "")
+            label.update(message)
+            label.display = bool(message)
         whole = [v for k, v in errors.items() if k not in names]
-        self.query_one("#form-error", Static).update("; ".join(whole))
+        top = self.query_one("#form-error", Static)
+        top.update("; ".join(whole))
+        top.display = bool(whole)
         return node if not errors else None
 
     @on(Input.Changed)
@@ -183,7 +188,9 @@ class NodeEditorScreen(ModalScreen[str | None]):
             return
         problem = self._apply(node)
         if problem:
-            self.query_one("#form-error", Static).update(problem)
+            top = self.query_one("#form-error", Static)
+            top.update(problem)
+            top.display = True
             self.app.bell()
             return
         self.dismiss(str(node.id))
