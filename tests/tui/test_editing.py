@@ -169,3 +169,66 @@ async def test_hook_keys_open_the_analysis_screens(oak_lane: Path) -> None:
             assert isinstance(app.screen, cls), key
             await pilot.press("escape")
             assert not isinstance(app.screen, cls), key
+
+
+async def test_move_reparents_by_keys(oak_lane: Path) -> None:
+    app = make_app(oak_lane)
+    async with app.run_test(size=(120, 40)) as pilot:
+        app.main.select("c-l1")  # lights upstairs, under MCB 1
+        await pilot.press("m")
+        from tui.screens.choice import ChoiceScreen
+
+        assert isinstance(app.screen, ChoiceScreen)
+        await pilot.press("enter")  # the first place it may be fed from
+        new_parent = app.site.node("c-l1").parent
+        assert new_parent != "m1"
+        assert app.main.tree.selected_id() == "c-l1"
+        await pilot.press("ctrl+s")
+    assert load_site(oak_lane).node("c-l1").parent == new_parent
+
+
+async def test_findings_filter_by_severity(oak_lane: Path) -> None:
+    app = make_app(oak_lane)
+    async with app.run_test(size=(120, 40)) as pilot:
+        await app.settle()
+        await pilot.pause()
+        total = len(app.analysis.findings)  # type: ignore[union-attr]
+        await pilot.press("f", "1")  # all -> urgent
+        assert app.main.findings.severity == "urgent"
+        assert all(f.severity == "urgent" for f in app.main.findings.shown)
+        await pilot.press("1")  # -> required
+        shown = app.main.findings.shown
+        assert shown and all(f.severity == "required" for f in shown)
+        await pilot.press("1", "1", "1")  # advisory, investigate, back to all
+        assert len(app.main.findings.shown) == total
+
+
+async def test_save_error_is_shown_and_recovered_lines_too(
+    oak_lane: Path, monkeypatch: pytest.MonkeyPatch
+) -> None:
+    from model import session as session_mod
+
+    real_open = session_mod.EditSession.open.__func__  # type: ignore[attr-defined]
+
+    def open_with_recovery(cls, path, *, read_only=False):  # type: ignore[no-untyped-def]
+        s = real_open(cls, path, read_only=read_only)
+        s.recovered = ["re-applied 2 edits made after the last save"]
+        return s
+
+    monkeypatch.setattr(session_mod.EditSession, "open", classmethod(open_with_recovery))
+    app = make_app(oak_lane)
+    async with app.run_test(size=(120, 40)) as pilot:
+        await pilot.pause()
+        assert any("re-applied 2 edits" in n.message for n in app._notifications)
+
+        def full_disk() -> None:
+            raise OSError(28, "No space left on device")
+
+        monkeypatch.setattr(app.session, "save", full_disk)
+        app.main.select("wb")
+        await pilot.press("c")  # any accepted edit
+        assert app.save_state == "pending"
+        await pilot.press("ctrl+s")
+        assert app.save_state == "error"
+        bar = str(app.screen.query_one("#save-state").render())
+        assert "not saved" in bar and "No space left" in bar
