@@ -98,6 +98,7 @@ class TripwiseApp(App[None]):
         self._analysis_timer: Timer | None = None
         self._analysis_gen = 0
         self._analysis_wanted = False
+        self._warned = 0
         if session is not None:
             self._took_session(session)
 
@@ -150,8 +151,7 @@ class TripwiseApp(App[None]):
         assert self.session is not None
         for line in self.session.recovered:
             self.notify(line, title="Recovered from the journal", timeout=12)
-        for line in self.session.warnings:
-            self.notify(line, title="Warning", severity="warning", timeout=12)
+        self._show_new_warnings()
         # the first screen is drawn before the checks start, so the tree is usable at once
         self._analysis_wanted = True
         self.call_after_refresh(self._first_analysis)
@@ -182,8 +182,13 @@ class TripwiseApp(App[None]):
         return True
 
     def push_undo(self, label: str) -> None:
-        """Keep the whole site as it is now, so the next change can be undone."""
-        self.undo_stack.append((label, self.site.model_copy(deep=True)))
+        """Keep the whole site as it is now, so the next change can be undone.
+
+        The session replaces ``site`` on every edit and never changes it in
+        place, and the app never changes a site in place either, so keeping the
+        object itself is a true snapshot.
+        """
+        self.undo_stack.append((label, self.site))
         del self.undo_stack[:-UNDO_LIMIT]
 
     def apply_edit(
@@ -197,10 +202,10 @@ class TripwiseApp(App[None]):
         if not self._writable():
             return "the site is open read-only"
         assert self.session is not None
-        before = self.site.model_copy(deep=True)
+        before = self.site
         try:
             change(self.session)
-        except (ValueError, TypeError, KeyError) as exc:
+        except (ValueError, TypeError, KeyError, OSError) as exc:
             return describe(exc)
         self.undo_stack.append((label, before))
         del self.undo_stack[:-UNDO_LIMIT]
@@ -219,7 +224,7 @@ class TripwiseApp(App[None]):
             return None  # nothing changed: nothing to journal
         try:
             self.session.set_reading(visit.id, device_id, reading)
-        except (ValueError, TypeError, KeyError) as exc:
+        except (ValueError, TypeError, KeyError, OSError) as exc:
             return describe(exc)
         self._after_edit(structural=False)
         return None
@@ -264,7 +269,14 @@ class TripwiseApp(App[None]):
             return False
         self.save_state = "saved"
         self.save_message = ""
+        self._show_new_warnings()
         return True
+
+    def _show_new_warnings(self) -> None:
+        assert self.session is not None
+        for line in self.session.warnings[self._warned :]:
+            self.notify(line, title="Warning", severity="warning", timeout=12)
+        self._warned = len(self.session.warnings)
 
     # ------------------------------------------------------------ analysis
     def _schedule_analysis(self) -> None:
@@ -431,7 +443,7 @@ class TripwiseApp(App[None]):
         label, state = self.undo_stack.pop()
         try:
             self.session.replace_site(state)
-        except (ValueError, TypeError) as exc:
+        except (ValueError, TypeError, OSError) as exc:
             self.notify(f"Could not undo: {describe(exc)}", severity="error")
             return
         self.index = SiteIndex.build(self.site)

@@ -27,7 +27,13 @@ def open_app(path: str, *, read_only: bool = False) -> int:
     except OSError as exc:
         print(f"tripwise: cannot open {path}: {exc.strerror or exc}", file=sys.stderr)
         return 2
-    app.run()
+    try:
+        app.run()
+    finally:
+        if app.session is not None:
+            app.session.close()  # releases the lock; unsaved edits stay in the journal
+    if app.return_code:
+        return int(app.return_code)
     return 0
 
 
