@@ -129,23 +129,33 @@ async def test_findings_update_after_edit(oak_lane: Path) -> None:
 async def test_lock_held_offers_read_only(oak_lane: Path, monkeypatch: pytest.MonkeyPatch) -> None:
     from model import session as session_mod
 
-    real_open = session_mod.EditSession.open.__func__  # type: ignore[attr-defined]
+    holder = session_mod.EditSession.open(oak_lane)  # another editor holds the file
+    try:
+        session_mod.EditSession.open(oak_lane).close()
+    except LockHeld:
+        pass  # the session locks: the real refusal is used
+    else:  # a session without locking: refuse the second editor as a lock would
+        real_open = session_mod.EditSession.open.__func__  # type: ignore[attr-defined]
 
-    def fake_open(cls, path, *, read_only=False):  # type: ignore[no-untyped-def]
-        if not read_only:
-            raise LockHeld("held by inspector@van (pid 4242)")
-        return real_open(cls, path, read_only=read_only)
+        def fake_open(cls, path, *, read_only=False):  # type: ignore[no-untyped-def]
+            if not read_only:
+                raise LockHeld("held by inspector@van (pid 4242)")
+            return real_open(cls, path, read_only=read_only)
 
-    monkeypatch.setattr(session_mod.EditSession, "open", classmethod(fake_open))
+        monkeypatch.setattr(session_mod.EditSession, "open", classmethod(fake_open))
     before = oak_lane.read_bytes()
-    app = make_app(oak_lane)
-    async with app.run_test(size=(120, 40)) as pilot:
-        assert isinstance(app.screen, ConfirmScreen)
-        await pilot.press("y")
-        assert app.session is not None and app.session.read_only
-        assert app.save_state == "read-only"
-        await pilot.press("d")
-        assert not isinstance(app.screen, ConfirmScreen)
+    try:
+        app = make_app(oak_lane)
+        async with app.run_test(size=(120, 40)) as pilot:
+            assert isinstance(app.screen, ConfirmScreen)
+            await pilot.press("y")
+            assert app.session is not None and app.session.read_only
+            assert app.save_state == "read-only"
+            await pilot.press("d")
+            assert not isinstance(app.screen, ConfirmScreen)
+            await pilot.press("ctrl+s")
+    finally:
+        holder.close()
     assert oak_lane.read_bytes() == before
 
 
