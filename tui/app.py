@@ -18,7 +18,7 @@ from textual import work
 from textual.app import App
 from textual.binding import Binding
 from textual.reactive import reactive
-from textual.screen import Screen
+from textual.screen import ModalScreen, Screen
 from textual.timer import Timer
 
 from model.checks import analyse
@@ -102,12 +102,21 @@ class TripwiseApp(App[None]):
         if session is not None:
             self._took_session(session)
 
+    _APP_ACTIONS = frozenset(
+        {"help", "save", "undo", "focus_tree", "focus_findings", "site_details", "visits"}
+        | {"export", "quit_app"}
+    )
     #: Actions that make no sense while typing readings (their keys are values there).
     _NOT_WHILE_READING = frozenset(
         {"focus_tree", "focus_findings", "quit_app", "site_details", "visits", "export"}
     )
 
+    #: App actions offered under a dialog (the others wait until it is closed).
+    _UNDER_A_DIALOG = frozenset({"help", "save"})
+
     def check_action(self, action: str, parameters: tuple[object, ...]) -> bool | None:
+        if isinstance(self.screen, ModalScreen):
+            return action in self._UNDER_A_DIALOG or action not in self._APP_ACTIONS
         reading = isinstance(self.screen, ReadingScreen)
         return not (reading and action in self._NOT_WHILE_READING)
 
