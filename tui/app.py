@@ -167,10 +167,7 @@ class TripwiseApp(App[None]):
 
     @property
     def main(self) -> MainScreen:
-        screen = self.get_default_screen_instance()
-        return screen
-
-    def get_default_screen_instance(self) -> MainScreen:
+        """The main screen (at the bottom of the screen stack)."""
         for s in self.screen_stack:
             if isinstance(s, MainScreen):
                 return s
