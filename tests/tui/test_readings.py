@@ -110,3 +110,14 @@ async def test_keystrokes_per_reading_set(oak_lane_no_visits: Path) -> None:
         assert len(keys) <= len(FIELDS) + digits
         reading = app.site.latest_visit().readings["rc1"]  # type: ignore[union-attr]
         assert (reading.x1_0, reading.x5_180, reading.button) == (22.0, 13.0, "worked")
+
+
+async def test_not_tested_with_a_reason(oak_lane_no_visits: Path) -> None:
+    app = make_app(oak_lane_no_visits)
+    async with app.run_test(size=(80, 24)) as pilot:
+        screen = await _open_readings(app, pilot, "rc3")
+        await pilot.press("ctrl+t", *"no access", "enter")
+        assert screen.device_id == "rb1"
+        await pilot.press("ctrl+s")
+    reading = load_site(oak_lane_no_visits).latest_visit().readings["rc3"]  # type: ignore[union-attr]
+    assert reading.not_tested == "no access" and not reading.has_values()
