@@ -62,3 +62,18 @@ def sample_copy(tmp_path: Path, name: str = "oak-lane-house", dest: str | None =
     out = tmp_path / (dest or f"{name}.json")
     shutil.copyfile(SAMPLES / f"{name}.json", out)
     return out
+
+
+def run_cli(*args: str, stdin: str | None = None) -> Any:
+    """Run ``python -m tui ARGS`` from the worktree root; the completed process."""
+    import subprocess
+    import sys
+
+    return subprocess.run(
+        [sys.executable, "-m", "tui", *args],
+        cwd=REPO,
+        capture_output=True,
+        text=True,
+        input=stdin,
+        timeout=120,
+    )
