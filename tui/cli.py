@@ -20,6 +20,7 @@ COMMAND_MODULES = [
     "tui.commands.schema",
     "tui.commands.demo",
     "tui.commands.compare",
+    "tui.commands.merge",
 ]
 
 EXIT_OK, EXIT_FINDINGS, EXIT_BAD_INPUT = 0, 1, 2
