@@ -77,3 +77,61 @@ def run_cli(*args: str, stdin: str | None = None) -> Any:
         input=stdin,
         timeout=120,
     )
+
+
+#: The test-sheet CSV layout: value columns (the others are there to be ignored).
+SHEET_VALUE_COLUMNS = [
+    "half_0 [ms]",
+    "half_180 [ms]",
+    "x1_0 [ms]",
+    "x1_180 [ms]",
+    "x5_0 [ms]",
+    "x5_180 [ms]",
+    "ramp [mA]",
+    "button",
+    "waveform",
+    "note",
+    "not_tested",
+]
+SHEET_KEYS = [
+    "half_0",
+    "half_180",
+    "x1_0",
+    "x1_180",
+    "x5_0",
+    "x5_180",
+    "ramp_ma",
+    "button",
+    "waveform",
+    "note",
+    "not_tested",
+]
+
+
+def sheet_csv(rows: list[dict[str, Any]], guard: bool = False) -> str:
+    """A CSV in the test-sheet layout, written with the csv module.
+
+    ``rows`` are readings by key plus ``device``; label, board, type, band and
+    mark columns are filled with text the import must ignore.  With ``guard``
+    every text cell carries the spreadsheet's leading apostrophe.
+    """
+    import csv
+    import io
+
+    header = ["device", "label", "board", "type", "x1 band", *SHEET_VALUE_COLUMNS, "x1 mark"]
+    buf = io.StringIO()
+    w = csv.writer(buf)
+    w.writerow(header)
+    for r in rows:
+        cells = [r["device"], "Some label, with comma", "Board 1", "RCCB 30 mA A", "≤ 300 ms"]
+        for key in SHEET_KEYS:
+            v = r.get(key)
+            if v is None:
+                cells.append("")
+            elif isinstance(v, float):
+                cells.append(f"{v:g}")
+            else:
+                cells.append(f"'{v}" if guard else str(v))
+        cells.append("FAIL?")
+        w.writerow(cells)
+    return buf.getvalue()
