@@ -206,7 +206,12 @@ def plan_import(site: SiteFile, data: bytes | str, visit_id: str | None = None) 
         elif name in VALUE_COLUMNS and name not in columns.values():
             columns[i] = name
     if device_col is None:
-        errors.append(RowError(1, DEVICE_COLUMN, "the header has no 'device' column"))
+        hint = (
+            " (the file looks semicolon- or tab-separated; the test sheet is comma-separated)"
+            if len(header) == 1 and (";" in header[0] or "\t" in header[0])
+            else ""
+        )
+        errors.append(RowError(1, DEVICE_COLUMN, "the header has no 'device' column" + hint))
     elif device_col != 0:
         errors.append(RowError(1, DEVICE_COLUMN, "'device' must be the first column"))
     if not columns:

@@ -148,6 +148,8 @@ def test_header_problems() -> None:
     site = make_site([("v1", "2025-01-01", {})])
     with pytest.raises(CsvImportError, match="no 'device' column"):
         plan_import(site, "label,x1_0 [ms]\nA,20\n")
+    with pytest.raises(CsvImportError, match="semicolon"):
+        plan_import(site, "device;x1_0 [ms]\nrc1;20\n")
     with pytest.raises(CsvImportError, match="no reading columns"):
         plan_import(site, "device,label\nrc1,A\n")
     with pytest.raises(CsvImportError, match="not UTF-8"):

@@ -12,6 +12,7 @@ from textual.widgets import DataTable, Static
 
 from model.compare import CompareError, VisitComparison, change_text, compare_visits
 from model.findings import CAUTION
+from model.history import visit_ids
 from model.readings import fmt_result
 from model.site import TEST_NAMES, SiteFile
 
@@ -32,6 +33,8 @@ class CompareScreen(ModalScreen[None]):
     BINDINGS = [
         Binding("escape", "close", "Close"),
         Binding("q", "close", "Close", show=False),
+        Binding("left_square_bracket", "step(-1)", "Earlier pair"),
+        Binding("right_square_bracket", "step(1)", "Later pair"),
     ]
     CSS_PATH = "compare.tcss"
 
@@ -50,7 +53,11 @@ class CompareScreen(ModalScreen[None]):
             yield Static("Comparing visits…", id="compare-title", markup=False)
             yield DataTable(id="compare-readings", zebra_stripes=True, cursor_type="row")
             yield Static("", id="compare-findings", markup=False)
-            yield Static(f"Caution: {CAUTION}   Esc: close", id="compare-caution", markup=False)
+            yield Static(
+                f"Caution: {CAUTION}   [ / ]: earlier / later pair of visits · Esc: close",
+                id="compare-caution",
+                markup=False,
+            )
 
     def on_mount(self) -> None:
         table = self.query_one("#compare-readings", DataTable)
@@ -72,9 +79,12 @@ class CompareScreen(ModalScreen[None]):
 
     def _show(self, cmp: VisitComparison) -> None:
         self.comparison = cmp
+
+        def when(vid: str, date: str) -> str:
+            return f"visit {vid}" if vid == date else f"visit {vid} ({date})"
+
         self.query_one("#compare-title", Static).update(
-            f"{cmp.site_name}: visit {cmp.from_id} ({cmp.from_date}) → "
-            f"visit {cmp.to_id} ({cmp.to_date})"
+            f"{cmp.site_name}: {when(cmp.from_id, cmp.from_date)} → {when(cmp.to_id, cmp.to_date)}"
         )
         table = self.query_one("#compare-readings", DataTable)
         table.clear()
@@ -107,6 +117,18 @@ class CompareScreen(ModalScreen[None]):
             if title != "Unchanged":
                 parts.extend(f"  {f.severity.upper()} {f.rule} ({', '.join(f.nodes)})" for f in fs)
         self.query_one("#compare-findings", Static).update("\n".join(parts))
+
+    def action_step(self, delta: int) -> None:
+        """Move both visits one visit earlier (-1) or later (+1) in the site's history."""
+        if self.comparison is None:
+            return
+        order = visit_ids(self.site)
+        i, j = order.index(self.comparison.from_id), order.index(self.comparison.to_id)
+        if not (0 <= i + delta < len(order) and 0 <= j + delta < len(order)):
+            self.notify("No visit further that way.", severity="warning")
+            return
+        self.from_id, self.to_id = order[i + delta], order[j + delta]
+        self._compare()
 
     def action_close(self) -> None:
         self.dismiss(None)
