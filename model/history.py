@@ -53,7 +53,8 @@ def previous_reading(site: SiteFile, visit_id: str, device: str) -> tuple[Visit,
 def cut_at(site: SiteFile, visit_id: str) -> SiteFile:
     """A copy of the site whose history ends at ``visit_id`` (later visits left out).
 
-    The copy's :meth:`~model.site.SiteFile.latest_visit` is that visit.
+    The copy's :meth:`~model.site.SiteFile.latest_visit` is that visit.  It shares the
+    (unchanged) nodes and visits of the original: treat it as read-only.
     """
     order = ordered_visits(site)
     keep: set[int] = set()
@@ -64,4 +65,4 @@ def cut_at(site: SiteFile, visit_id: str) -> SiteFile:
     else:
         raise KeyError(visit_id)
     visits = [v for v in site.visits if id(v) in keep]
-    return site.model_copy(update={"visits": visits}, deep=True)
+    return site.model_copy(update={"visits": visits})
