@@ -19,6 +19,9 @@ COMMAND_MODULES = [
     "tui.commands.check",
     "tui.commands.schema",
     "tui.commands.demo",
+    "tui.commands.compare",
+    "tui.commands.merge",
+    "tui.commands.import_readings",
 ]
 
 EXIT_OK, EXIT_FINDINGS, EXIT_BAD_INPUT = 0, 1, 2
