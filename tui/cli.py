@@ -19,6 +19,8 @@ COMMAND_MODULES = [
     "tui.commands.check",
     "tui.commands.schema",
     "tui.commands.demo",
+    "tui.commands.report",
+    "tui.commands.print_",
 ]
 
 EXIT_OK, EXIT_FINDINGS, EXIT_BAD_INPUT = 0, 1, 2
