@@ -43,8 +43,14 @@ def _raw() -> dict[str, Any]:
 
 def awkward_raw() -> dict[str, Any]:
     d = copy.deepcopy(_raw())
-    labels = {"rc2": UNICODE_LABEL, "rb1": FORMULA_LABEL, "rb3": MARKUP_LABEL,
-              "cu": "Tableau général (Ω)", "c-out": "-Patio socket", "rc1": "@upstairs"}
+    labels = {
+        "rc2": UNICODE_LABEL,
+        "rb1": FORMULA_LABEL,
+        "rb3": MARKUP_LABEL,
+        "cu": "Tableau général (Ω)",
+        "c-out": "-Patio socket",
+        "rc1": "@upstairs",
+    }
     for n in d["nodes"]:
         if n["id"] in labels:
             n["label"] = labels[n["id"]]
@@ -71,25 +77,72 @@ def big_raw(boards: int = 8, per_board: int = 12) -> dict[str, Any]:
     nodes: list[dict[str, Any]] = [{"id": "o", "kind": "origin", "label": "Intake"}]
     readings: dict[str, Any] = {}
     for b in range(boards):
-        nodes.append({"id": f"b{b}", "parent": "o", "kind": "board", "label": f"Board {b}",
-                      "place": f"Floor {b}"})
-        nodes.append({"id": f"f{b}", "parent": f"b{b}", "kind": "rccb", "label": f"Feed {b}",
-                      "idn_ma": 100.0, "waveform": "A", "rated_a": 63.0})
+        nodes.append(
+            {
+                "id": f"b{b}",
+                "parent": "o",
+                "kind": "board",
+                "label": f"Board {b}",
+                "place": f"Floor {b}",
+            }
+        )
+        nodes.append(
+            {
+                "id": f"f{b}",
+                "parent": f"b{b}",
+                "kind": "rccb",
+                "label": f"Feed {b}",
+                "idn_ma": 100.0,
+                "waveform": "A",
+                "rated_a": 63.0,
+            }
+        )
         readings[f"f{b}"] = {"x1_0": 40.0 + b, "x5_0": 20.0, "button": "worked"}
         for k in range(per_board):
             d = f"d{b}-{k}"
-            nodes.append({"id": d, "parent": f"f{b}", "kind": "rcbo", "label": f"RCBO {b}.{k}",
-                          "idn_ma": 30.0, "waveform": "A", "rated_a": 20.0})
-            nodes.append({"id": f"c{b}-{k}", "parent": d, "kind": "circuit", "use": "sockets",
-                          "label": f"Sockets {b}.{k}", "rated_a": 20.0})
-            readings[d] = {"half_0": "did not trip", "x1_0": 20.0 + k, "x1_180": 320.0 if k == 3
-                           else 22.0, "x5_0": 10.0, "ramp_ma": 22.5, "button": "worked"}
+            nodes.append(
+                {
+                    "id": d,
+                    "parent": f"f{b}",
+                    "kind": "rcbo",
+                    "label": f"RCBO {b}.{k}",
+                    "idn_ma": 30.0,
+                    "waveform": "A",
+                    "rated_a": 20.0,
+                }
+            )
+            nodes.append(
+                {
+                    "id": f"c{b}-{k}",
+                    "parent": d,
+                    "kind": "circuit",
+                    "use": "sockets",
+                    "label": f"Sockets {b}.{k}",
+                    "rated_a": 20.0,
+                }
+            )
+            readings[d] = {
+                "half_0": "did not trip",
+                "x1_0": 20.0 + k,
+                "x1_180": 320.0 if k == 3 else 22.0,
+                "x5_0": 10.0,
+                "ramp_ma": 22.5,
+                "button": "worked",
+            }
     return {
-        "format": "tripwise.site", "version": 1,
+        "format": "tripwise.site",
+        "version": 1,
         "site": {"name": "Block of flats (invented)", "earthing": "TN-S", "ze_ohm": 0.35},
         "nodes": nodes,
-        "visits": [{"id": "v1", "date": "2026-10-02", "inspector": "A. Inventé",
-                    "instrument": "tester", "readings": readings}],
+        "visits": [
+            {
+                "id": "v1",
+                "date": "2026-10-02",
+                "inspector": "A. Inventé",
+                "instrument": "tester",
+                "readings": readings,
+            }
+        ],
     }
 
 

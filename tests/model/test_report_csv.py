@@ -8,8 +8,8 @@ from pathlib import Path
 
 import pytest
 
-from model.report import STATEMENT, write_report
 from model.render_csv import REMEDIAL_COLUMNS, SHEET_COLUMNS
+from model.report import STATEMENT, write_report
 from model.site import DID_NOT_TRIP, TEST_NAMES, SiteFile
 from model.store import load_site
 from model.tree import SiteIndex

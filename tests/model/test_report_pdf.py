@@ -118,8 +118,11 @@ def test_pair_chart_for_every_cascade_pair(tmp_path: Path) -> None:
     result = analyse(site)
     doc = build_remedial(site, result, generated=WHEN)
     cascade_pairs = {
-        (f.nodes[0], d) for f in result.findings if f.rule.startswith("cascade.")
-        for d in f.nodes[1:] if result.pair(f.nodes[0], d) is not None
+        (f.nodes[0], d)
+        for f in result.findings
+        if f.rule.startswith("cascade.")
+        for d in f.nodes[1:]
+        if result.pair(f.nodes[0], d) is not None
     }
     # Non-delayed 100 mA RCCBs above 30 mA RCBOs: every pair is named by a cascade finding
     # (BS 7671 536.4.1.4, common practice: the upstream device must be time-delayed).

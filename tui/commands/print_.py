@@ -26,7 +26,9 @@ def register(sub: argparse._SubParsersAction) -> None:  # type: ignore[type-arg]
         "lp. Exit codes: 0 queued, 2 bad input, no lp, or lp refused.",
     )
     p.add_argument("site", help="path to the site file (.json)")
-    p.add_argument("--kind", choices=KINDS, default="remedial", help="which document (default remedial)")
+    p.add_argument(
+        "--kind", choices=KINDS, default="remedial", help="which document (default remedial)"
+    )
     p.add_argument("--printer", "-d", help="print queue name (default: the system's default)")
     p.add_argument("--copies", "-n", type=int, default=1, help="number of copies (default 1)")
     p.set_defaults(func=run)

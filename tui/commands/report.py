@@ -19,8 +19,12 @@ def register(sub: argparse._SubParsersAction) -> None:  # type: ignore[type-arg]
         "replaced without --force. Exit codes: 0 written, 2 bad input or refused.",
     )
     p.add_argument("site", help="path to the site file (.json)")
-    p.add_argument("--kind", choices=KINDS, default="remedial", help="which document (default remedial)")
-    p.add_argument("--format", dest="fmt", choices=FORMATS, default="pdf", help="file format (default pdf)")
+    p.add_argument(
+        "--kind", choices=KINDS, default="remedial", help="which document (default remedial)"
+    )
+    p.add_argument(
+        "--format", dest="fmt", choices=FORMATS, default="pdf", help="file format (default pdf)"
+    )
     p.add_argument("--out", help="file to write (default: beside the site file)")
     p.add_argument("--force", action="store_true", help="replace the file if it exists")
     p.set_defaults(func=run)
