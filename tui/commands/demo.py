@@ -43,9 +43,7 @@ def register(sub: argparse._SubParsersAction) -> None:  # type: ignore[type-arg]
     p = sub.add_parser("demo", help="open a fresh copy of a bundled (invented) sample site")
     p.add_argument("name", nargs="?", default=DEFAULT_DEMO, help="sample name (see --list)")
     p.add_argument("--list", action="store_true", help="list the bundled samples")
-    p.add_argument(
-        "--check", action="store_true", help="print the check instead of opening the app"
-    )
+    p.add_argument("--check", action="store_true", help="print the check instead of opening the app")
     p.set_defaults(func=run)
 
 
