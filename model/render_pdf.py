@@ -16,7 +16,6 @@ from collections.abc import Sequence
 from pathlib import Path
 
 from fpdf import FPDF
-from fpdf.enums import XPos, YPos
 
 from model.findings import fmt_ma
 from model.report import (
@@ -75,6 +74,7 @@ class _Pdf(FPDF):
         self.set_creator(f"tripwise {heading.version}")
         self.set_author(heading.inspector or "tripwise")
         self.c_margin = 0.8
+        self._widths: dict[tuple[str, str], float] = {}
         self.font(9)
         self.ink()
 
@@ -98,11 +98,57 @@ class _Pdf(FPDF):
         if self.get_y() + h > self.bottom:
             self.add_page()
 
+    def wrap(self, text: str, w: float, size: float, bold: bool = False) -> list[str]:
+        """Greedy word wrap of ``text`` into lines no wider than ``w`` mm.
+
+        Word widths are measured once per word and style (fpdf2's own line
+        breaking re-measures each line character by character, which is slow
+        for long documents).
+        """
+        key = "B" if bold else ""
+        space = self._word_w(key, " ") * size
+        lines: list[str] = []
+        cur: list[str] = []
+        cur_w = 0.0
+        for word in text.split(" "):
+            if not word:
+                continue
+            ww = self._word_w(key, word) * size
+            if ww > w:  # a word longer than the line: break it by characters
+                if cur:
+                    lines.append(" ".join(cur))
+                    cur, cur_w = [], 0.0
+                piece = ""
+                for ch in word:
+                    if piece and self._word_w(key, piece + ch) * size > w:
+                        lines.append(piece)
+                        piece = ""
+                    piece += ch
+                cur, cur_w = [piece], self._word_w(key, piece) * size
+                continue
+            extra = ww if not cur else space + ww
+            if cur and cur_w + extra > w:
+                lines.append(" ".join(cur))
+                cur, cur_w = [word], ww
+            else:
+                cur.append(word)
+                cur_w += extra
+        if cur:
+            lines.append(" ".join(cur))
+        return lines or [""]
+
+    def _word_w(self, style: str, word: str) -> float:
+        """Width of ``word`` at 1 pt in the given style. [mm]"""
+        k = (style, word)
+        got = self._widths.get(k)
+        if got is None:
+            self.set_font(FAMILY, style, 10)
+            got = float(self.get_string_width(word)) / 10.0
+            self._widths[k] = got
+        return got
+
     def para_h(self, w: float, lh: float, text: str, size: float, bold: bool = False) -> float:
-        self.font(size, bold)
-        lines = self.multi_cell(w, lh, text, dry_run=True, output="LINES")
-        assert isinstance(lines, list)
-        return lh * max(1, len(lines))
+        return lh * len(self.wrap(text, w - 2 * self.c_margin, size, bold))
 
     def para(
         self,
@@ -116,12 +162,21 @@ class _Pdf(FPDF):
         align: str = "L",
     ) -> float:
         """Write wrapped text at (x, current y); return its height."""
+        lines = self.wrap(text, w - 2 * self.c_margin, size, bold)
         self.font(size, bold)
         self.ink(rgb)
         y = self.get_y()
-        self.set_xy(x, y)
-        self.multi_cell(w, lh, text, align=align, new_x=XPos.LMARGIN, new_y=YPos.NEXT)
-        return float(self.get_y() - y)
+        for line in lines:
+            if y + lh > self.bottom and self.auto_page_break:
+                self.add_page()
+                self.font(size, bold)
+                self.ink(rgb)
+                y = self.t_margin
+            self.set_xy(x, y)
+            self.cell(w, lh, line, align=align)
+            y += lh
+        self.set_xy(self.l_margin, y)
+        return lh * len(lines)
 
     # page furniture ------------------------------------------------------------
     def stamp_pages(self) -> None:
@@ -150,10 +205,8 @@ class _Pdf(FPDF):
             # footer
             top = self.h - FOOT_H + 2
             self.line(left, top, right, top)
-            self.set_xy(left, top + 1.6)
-            self.font(7.2, True)
-            self.ink(INK)
-            self.multi_cell(self.content_w - 30, 3.4, h.statement, align="L")
+            self.set_y(top + 1.6)
+            self.para(left, self.content_w - 30, 3.4, h.statement, 7.2, True)
             self.font(7)
             self.ink(MUTED)
             self.set_x(left)
@@ -228,6 +281,7 @@ def _draw_item(pdf: _Pdf, i: RemedialItem, draw: bool) -> float:
     if not draw:
         return h
     y0 = pdf.get_y()
+    page = pdf.page
     colour = SEVERITY_COLOUR.get(i.severity, MUTED)
     pdf.set_xy(x0, y0)
     pdf.font(10, True)
@@ -251,8 +305,8 @@ def _draw_item(pdf: _Pdf, i: RemedialItem, draw: bool) -> float:
         pdf.font(7.6)
         pdf.ink(MUTED)
         pdf.cell(LABEL_W, lh, name)
-        hv = pdf.para(x0 + LABEL_W, w - LABEL_W, lh, text, 8.6, bold)
-        pdf.set_y(y + hv + 0.5)
+        pdf.para(x0 + LABEL_W, w - LABEL_W, lh, text, 8.6, bold)
+        pdf.set_y(pdf.get_y() + 0.5)
     # the box to tick and the line for notes
     y = pdf.get_y() + 2.0
     pdf.set_draw_color(*INK)
@@ -269,10 +323,10 @@ def _draw_item(pdf: _Pdf, i: RemedialItem, draw: bool) -> float:
     pdf.set_line_width(0.25)
     pdf.line(x0 + 28, y + 3.8, pdf.w - pdf.r_margin, y + 3.8)
     pdf.line(x0 + 28, y + 9.0, pdf.w - pdf.r_margin, y + 9.0)
-    y1 = y0 + h - 1.5
-    pdf.set_fill_color(*colour)
-    pdf.rect(pdf.l_margin, y0 + 0.5, 1.6, y1 - y0 - 1.0, style="F")
-    pdf.set_y(y0 + h)
+    if pdf.page == page:  # the item fitted on its page (it always does unless huge)
+        pdf.set_fill_color(*colour)
+        pdf.rect(pdf.l_margin, y0 + 0.5, 1.6, h - 2.5, style="F")
+        pdf.set_y(y0 + h)
     return h
 
 
@@ -578,14 +632,14 @@ def _band(
 
 
 SHEET_COLS: tuple[tuple[str, float], ...] = (
-    ("Device", 38.0),
-    ("Board", 24.0),
-    ("Type", 27.0),
-    ("Test", 11.0),
+    ("Device", 36.0),
+    ("Board", 22.0),
+    ("Type", 24.0),
+    ("Test", 10.5),
 )
 TEST_W = 19.0
 RAMP_W = 20.0
-BUTTON_W = 13.0
+BUTTON_W = 12.0
 LH = 3.5
 
 
@@ -622,7 +676,12 @@ def _test_cell(pdf: _Pdf, c: SheetCell, x: float, y: float, w: float, unit: str)
         pdf.ink(MUTED)
         pdf.cell(w - 1.2, LH, "—")
     else:
-        pdf.cell(w - 1.2, LH, f"{c.value_text(unit)} {MARK_PDF.get(c.mark, '')}".strip())
+        text = f"{c.value_text(unit)} {MARK_PDF.get(c.mark, '')}".strip()
+        room = w - 1.2 - 2 * pdf.c_margin
+        width = pdf.get_string_width(text)
+        if width > room:  # 'did not trip ✗' in bold: shrink to fit rather than overflow
+            pdf.font(7.4 * room / width, out)
+        pdf.cell(w - 1.2, LH, text)
     pdf.set_xy(x + 0.6, y + LH)
     pdf.font(5.9)
     pdf.ink(MUTED)
@@ -634,7 +693,7 @@ def _sheet_row(pdf: _Pdf, r: SheetRow, note_w: float, shade: bool, draw: bool) -
     widths = [w for _, w in SHEET_COLS]
     hs = [pdf.para_h(widths[0] - 1.2, LH, r.label, 7.4, True) + LH]
     hs += [pdf.para_h(w - 1.2, LH, t, 7.4) for t, w in zip(texts[1:], widths[1:3], strict=True)]
-    note = r.note
+    note = clean(r.note)
     if r.not_tested is not None or not r.recorded:
         span_text = (
             f"not tested: {r.not_tested}"
