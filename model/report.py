@@ -52,7 +52,7 @@ FORMAT_TITLE: dict[str, str] = {
     "pdf": "PDF",
     "md": "Markdown",
     "csv": "CSV (spreadsheet)",
-    "txt": "plain text",
+    "txt": "Plain text",
 }
 
 #: Printed on every page (PDF) or at top and bottom (Markdown, text) of both documents.

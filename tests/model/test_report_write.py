@@ -69,3 +69,32 @@ def test_model_report_never_imports_textual() -> None:
     )
     done = subprocess.run([sys.executable, "-c", code], cwd=Path(__file__).parents[2], check=False)
     assert done.returncode == 0
+
+
+def test_every_document_renders_for_bare_sites(tmp_path: Path) -> None:
+    """No visit, no residual-current device, no finding: every format still renders."""
+    import json
+
+    from model.report import FORMATS, KINDS, STATEMENT
+    from model.store import parse_site
+    from tests.model.report_sites import awkward_raw, squash
+
+    bare = {
+        "format": "tripwise.site",
+        "version": 1,
+        "site": {"name": "Empty shed (invented)", "earthing": "TN-S"},
+        "nodes": [{"id": "o", "kind": "origin"}],
+    }
+    no_visit = awkward_raw()
+    no_visit["visits"] = []
+    for raw in (bare, no_visit):
+        site = parse_site(json.dumps(raw))
+        for kind in KINDS:
+            for fmt in FORMATS:
+                out = write_report(site, kind, fmt, tmp_path / f"{len(raw)}-{kind}.{fmt}")
+                data = out.read_bytes()
+                assert data
+                if fmt in ("md", "txt", "csv"):
+                    assert squash(STATEMENT) in squash(data.decode("utf-8-sig"))
+    site = parse_site(json.dumps(no_visit))
+    assert default_name(tmp_path / "a.json", site, "sheet", "pdf").name == "a-sheet-no-visit.pdf"
