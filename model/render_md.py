@@ -86,8 +86,8 @@ def remedial_md(doc: RemedialDoc) -> bytes:
                 )
             lines.append(f"- **To do:** {esc(i.action)}")
             lines.append(f"- **Rests on:** {esc(i.source_text())}")
-            if i.chart is not None:
-                lines.append(f"- Pair chart {i.chart} in the PDF shows the two bands.")
+            if i.charts:
+                lines.append(f"- The PDF's {i.charts_text()} show(s) the two bands.")
             lines += ["- [ ] Done. Notes: ______________________________________", ""]
     if doc.charts:
         lines += ["## Series pairs", ""]

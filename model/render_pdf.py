@@ -259,8 +259,8 @@ def _item_rows(i: RemedialItem) -> list[tuple[str, str, bool]]:
         rows.append(("Band", i.band or "—", False))
     rows.append(("To do", i.action, True))
     rows.append(("Rests on", i.source_text(), False))
-    if i.chart is not None:
-        rows.append(("Chart", f"pair chart {i.chart} (end of this document)", False))
+    if i.charts:
+        rows.append(("Chart", f"{i.charts_text()} (end of this document)", False))
     return rows
 
 

@@ -74,8 +74,8 @@ def remedial_txt(doc: RemedialDoc) -> bytes:
                 )
             lines += _wrap(i.action, _IND, "      To do:    ")
             lines += _wrap(i.source_text(), _IND, "      Rests on: ")
-            if i.chart is not None:
-                lines.append(f"      Pair chart {i.chart} in the PDF.")
+            if i.charts:
+                lines += _wrap(f"{i.charts_text()} in the PDF", _IND, "      Chart:    ")
             lines.append("      Notes: " + "_" * 60)
     if doc.charts:
         lines += ["", "Series pairs", "------------"]

@@ -184,7 +184,15 @@ class RemedialItem:
     action: str
     source: str
     basis: str
-    chart: int | None = None
+    #: Numbers of the pair charts (PDF) that show this item's pairs.
+    charts: tuple[int, ...] = ()
+
+    def charts_text(self) -> str:
+        """'pair chart 3' or 'pair charts 3, 4, 5'; '' when there is none."""
+        if not self.charts:
+            return ""
+        word = "pair chart" if len(self.charts) == 1 else "pair charts"
+        return f"{word} {', '.join(str(n) for n in self.charts)}"
 
     @property
     def basis_note(self) -> str:
@@ -389,9 +397,10 @@ def _item(
     number: int, idx: SiteIndex, f: Finding, chart_of: dict[tuple[str, str], int]
 ) -> RemedialItem:
     known = [n for n in f.nodes if n in idx.by_id]
-    chart = None
+    charts: tuple[int, ...] = ()
     if f.rule.startswith("cascade.") and len(f.nodes) >= 2:
-        chart = chart_of.get((f.nodes[0], f.nodes[1]))
+        found = (chart_of.get((f.nodes[0], d)) for d in f.nodes[1:])
+        charts = tuple(n for n in found if n is not None)
     return RemedialItem(
         number=number,
         rule=f.rule,
@@ -405,7 +414,7 @@ def _item(
         action=clean(f.action),
         source=clean(f.source),
         basis=f.basis,
-        chart=chart,
+        charts=charts,
     )
 
 

@@ -162,3 +162,17 @@ def test_pdf_is_rendered_without_core_fonts() -> None:
     data = render(awkward_site(), "remedial", "pdf")
     assert b"DejaVu" in data
     assert not re.search(rb"/BaseFont\s*/Helvetica", data)
+
+
+def test_items_point_at_their_pair_charts() -> None:
+    raw = big_raw(boards=1, per_board=3)
+    site = parse_site(json.dumps(raw))
+    doc = build_remedial(site, analyse(site))
+    by_pair = {(c.up_id, c.down_id): c.number for c in doc.charts}
+    for item in doc.items:
+        if item.rule == "cascade.upstream-not-delayed":
+            # one finding names the upstream device and all three downstream ones
+            assert item.charts == tuple(by_pair[(item.node_ids[0], d)] for d in item.node_ids[1:])
+            assert item.charts_text() == "pair charts 1, 2, 3"
+        elif item.rule.startswith("cascade."):
+            assert item.charts == (by_pair[item.node_ids[:2]],)
