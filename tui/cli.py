@@ -22,6 +22,8 @@ COMMAND_MODULES = [
     "tui.commands.compare",
     "tui.commands.merge",
     "tui.commands.import_readings",
+    "tui.commands.report",
+    "tui.commands.print_",
 ]
 
 EXIT_OK, EXIT_FINDINGS, EXIT_BAD_INPUT = 0, 1, 2
