@@ -231,6 +231,12 @@ def plan_import(site: SiteFile, data: bytes | str, visit_id: str | None = None) 
     for rec_no, rec in enumerate(records[1:], start=2):
         if not any(c.strip() for c in rec):
             continue
+        dev_cell = _clean(rec[device_col]) if device_col < len(rec) else ""
+        if not dev_cell and not any(
+            _clean(rec[i]) for i, name in columns.items() if name != "note" and i < len(rec)
+        ):
+            # no device and no values: the sheet's closing statement row, or a note line
+            continue
         rows += 1
         row_errors: list[RowError] = []
         if len(rec) > len(header) and any(c.strip() for c in rec[len(header) :]):
@@ -274,6 +280,8 @@ def plan_import(site: SiteFile, data: bytes | str, visit_id: str | None = None) 
             errors.extend(row_errors)
             continue
         old = visit.readings.get(dev)
+        if old is None and not any(k != "waveform" for k in values):
+            continue  # an untested device's empty row: nothing to record
         merged = {} if old is None else old.model_dump(exclude_defaults=True)
         merged.update(values)
         cleared_not_tested = (
