@@ -147,7 +147,10 @@ def describe_validation_error(exc: ValidationError, raw: Any) -> str:
         elif err.get("type") == "union_tag_invalid":
             msg = "unknown kind; " + msg
         where = _loc_text(loc, raw)
-        out.append(f"{where}: {msg}")
+        if not loc and msg.startswith(("nodes", "visits")):
+            out.append(msg)  # a whole-document rule: the message names its own place
+        else:
+            out.append(f"{where}: {msg}")
         if len(out) >= 5:
             more = len(exc.errors()) - 5
             if more > 0:
@@ -386,11 +389,11 @@ def fsync_dir(folder: Path) -> None:
         os.close(fd)
 
 
-def _temp_name(target: Path) -> Path:
+def temp_name(target: Path) -> Path:
     return target.with_name(f".{target.name}.{os.getpid()}-{secrets.token_hex(4)}.tmp")
 
 
-def _write_new_file(tmp: Path, data: bytes, mode: int | None) -> None:
+def write_new_file(tmp: Path, data: bytes, mode: int | None) -> None:
     fd = os.open(tmp, os.O_WRONLY | os.O_CREAT | os.O_EXCL | getattr(os, "O_CLOEXEC", 0), 0o666)
     try:
         if mode is not None:
@@ -411,12 +414,12 @@ def _unlink_quietly(p: Path) -> None:
 
 def copy_aside(src: Path, dest: Path) -> None:
     """Make ``dest`` a durable copy of ``src`` (a hard link where the disk allows), atomically."""
-    tmp = _temp_name(dest)
+    tmp = temp_name(dest)
     try:
         try:
             os.link(src, tmp)
         except OSError:
-            _write_new_file(tmp, src.read_bytes(), src.stat().st_mode)
+            write_new_file(tmp, src.read_bytes(), src.stat().st_mode)
         os.replace(tmp, dest)
     except BaseException:
         _unlink_quietly(tmp)
@@ -436,7 +439,7 @@ def write_site_bytes(
     shown = Path(path)
     old_mode: int | None = None
     step = "reading the current file"
-    tmp = _temp_name(p)
+    tmp = temp_name(p)
     try:
         try:
             st = p.stat()
@@ -449,7 +452,7 @@ def write_site_bytes(
             if st.st_size == len(data) and p.read_bytes() == data:
                 return  # already saved: keep the backup of the version before
         step = f"writing a temporary file in {folder}"
-        _write_new_file(tmp, data, old_mode)
+        write_new_file(tmp, data, old_mode)
         if st is not None and backup:
             step = f"keeping the previous version as {backup_path(p).name}"
             copy_aside(p, backup_path(p))
