@@ -24,6 +24,7 @@ import errno
 import hashlib
 import json
 import os
+import re
 import secrets
 import stat
 from collections.abc import Callable
@@ -146,6 +147,10 @@ def describe_validation_error(exc: ValidationError, raw: Any) -> str:
             loc = loc[:-1]
         elif err.get("type") == "union_tag_invalid":
             msg = "unknown kind; " + msg
+        elif err.get("type") == "string_pattern_mismatch" and loc and loc[-1] in ("id", "parent"):
+            msg = (
+                "an id is 1 to 40 letters, digits, '.', '_' or '-', starting with a letter or digit"
+            )
         where = _loc_text(loc, raw)
         if not loc and msg.startswith(("nodes", "visits")):
             out.append(msg)  # a whole-document rule: the message names its own place
@@ -168,21 +173,44 @@ MIGRATIONS: dict[int, Callable[[dict[str, Any]], dict[str, Any]]] = {}
 _MAX_NUMBER_DIGITS = 40
 
 
+class _BadLiteral(ValueError):
+    """A JSON number or constant refused while parsing; ``literal`` is its text."""
+
+    def __init__(self, literal: str, message: str) -> None:
+        super().__init__(message)
+        self.literal = literal
+
+
 def _parse_float(text: str) -> float:
     value = float(text)
     if value in (float("inf"), float("-inf")):
-        raise ValueError(f"number {text[:40]} is too large (numbers must be finite)")
+        raise _BadLiteral(text, f"number {text[:40]} is too large (numbers must be finite)")
     return value
 
 
 def _parse_int(text: str) -> int:
     if len(text.lstrip("-")) > _MAX_NUMBER_DIGITS:
-        raise ValueError(f"number {text[:20]}… has more than {_MAX_NUMBER_DIGITS} digits")
+        raise _BadLiteral(text, f"number {text[:20]}… has more than {_MAX_NUMBER_DIGITS} digits")
     return int(text)
 
 
 def _refuse_constant(name: str) -> Any:
-    raise ValueError(f"{name} is not allowed in a site file (numbers must be finite)")
+    raise _BadLiteral(name, f"{name} is not allowed in a site file (numbers must be finite)")
+
+
+def _line_col(text: str, index: int) -> tuple[int, int]:
+    line = text.count("\n", 0, index) + 1
+    return line, index - (text.rfind("\n", 0, index) + 1) + 1
+
+
+def _where_literal(text: str, literal: str) -> str:
+    """``at line L, column C: `` of the first place ``literal`` stands as a value."""
+    pattern = r"(?<![\w.+-])" + re.escape(literal) + r"(?![\w.])"
+    m = re.search(pattern, text)
+    if m is None:
+        return ""
+    line, col = _line_col(text, m.start())
+    return f"at line {line}, column {col}: "
 
 
 def _no_duplicate_keys(pairs: list[tuple[str, Any]]) -> dict[str, Any]:
@@ -201,12 +229,15 @@ def _no_duplicate_keys(pairs: list[tuple[str, Any]]) -> dict[str, Any]:
     return out
 
 
-def _decode_json(text: str | bytes, path: str | os.PathLike[str] | None) -> Any:
-    if isinstance(text, bytes):
+def _decode_json(data: str | bytes, path: str | os.PathLike[str] | None) -> Any:
+    if isinstance(data, bytes):
         try:
-            text = text.decode("utf-8")
+            text = data.decode("utf-8")
         except UnicodeDecodeError as exc:
-            raise SiteLoadError(path, f"not UTF-8 text (byte {exc.start})") from None
+            line = data.count(b"\n", 0, exc.start) + 1
+            raise SiteLoadError(path, f"not UTF-8 text at line {line} (byte {exc.start})") from None
+    else:
+        text = data
     if text.startswith("\ufeff"):  # a byte-order mark left by some editors
         text = text[1:]
     if not text.strip():
@@ -225,6 +256,8 @@ def _decode_json(text: str | bytes, path: str | os.PathLike[str] | None) -> Any:
         ) from None
     except RecursionError:
         raise SiteLoadError(path, "JSON nested too deeply") from None
+    except _BadLiteral as exc:
+        raise SiteLoadError(path, _where_literal(text, exc.literal) + str(exc)) from None
     except ValueError as exc:
         raise SiteLoadError(path, str(exc)) from None
 
