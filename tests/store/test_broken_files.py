@@ -120,8 +120,8 @@ def test_refused_numbers_say_where(tmp_path: Path) -> None:
     p.write_text('{"format": "tripwise.site",\n "version": 1,\n "site": {"u0_v": NaN}}')
     with pytest.raises(SiteLoadError) as err:
         load_site(p)
-    # RFC 8259 §6: NaN is not a JSON number; line 3, column 20 is where it stands
-    assert "at line 3, column 20: NaN is not allowed" in str(err.value)
+    # RFC 8259 §6: NaN is not a JSON number; line 3, column 19 is where it stands
+    assert "at line 3, column 19: NaN is not allowed" in str(err.value)
     p.write_bytes(b'{"format": "tripwise.site",\n "version": 1,\n "x": "\xff"}')
     with pytest.raises(SiteLoadError, match=r"not UTF-8 text at line 3 \(byte 52\)"):
         load_site(p)
