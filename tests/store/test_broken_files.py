@@ -123,7 +123,7 @@ def test_refused_numbers_say_where(tmp_path: Path) -> None:
     # RFC 8259 §6: NaN is not a JSON number; line 3, column 19 is where it stands
     assert "at line 3, column 19: NaN is not allowed" in str(err.value)
     p.write_bytes(b'{"format": "tripwise.site",\n "version": 1,\n "x": "\xff"}')
-    with pytest.raises(SiteLoadError, match=r"not UTF-8 text at line 3 \(byte 52\)"):
+    with pytest.raises(SiteLoadError, match=r"not UTF-8 text at line 3 \(byte 50\)"):
         load_site(p)
 
 
