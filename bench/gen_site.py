@@ -77,7 +77,9 @@ class _Builder:
         fields: dict[str, Any] = {
             "kind": kind,
             "idn_ma": idn_ma,
-            "waveform": self.rng.choice(["A", "A", "A", "AC", "F", "B"] if kind != "cbr" else ["A"]),
+            "waveform": self.rng.choice(
+                ["A", "A", "A", "AC", "F", "B"] if kind != "cbr" else ["A"]
+            ),
             "rated_a": 100.0 if delayed else self.rng.choice([40.0, 63.0, 80.0]),
             "label": f"{kind.upper()} {idn_ma:g} mA",
         }

@@ -16,6 +16,10 @@ disk before the edit is reported as saved::
     {"op": "upsert-visit", "visit": {…}}
     {"op": "replace-site", "site": {…whole site file…}}
 
+A full save first appends ``{"saving": "sha256:…"}`` (the digest the file is
+about to have), then replaces the file, then removes the journal; a journal
+found with a ``saving`` digest equal to the file's is already in the file.
+
 :func:`apply_op` is the pure function that turns a site and an op into the
 next site, validating the result; live edits and replay on open use the same
 function, so a journal replays to exactly what the editor showed.  A last line
@@ -291,6 +295,8 @@ class JournalContents:
     #: Digest of the site file the ops apply to (None when the header is unreadable).
     base: str | None
     ops: list[Op] = field(default_factory=list)
+    #: Digests of full saves that were begun while this journal was in use.
+    saving: list[str] = field(default_factory=list)
     warnings: list[str] = field(default_factory=list)
     #: Bytes up to the end of the last whole line (a torn tail starts here).
     good_size: int = 0
@@ -357,6 +363,9 @@ def read_journal(path: str | os.PathLike[str]) -> JournalContents | None:
             out.warnings.append(
                 f"entry {lineno} of the recovery journal is damaged and was ignored"
             )
+            continue
+        if isinstance(item, dict) and isinstance(item.get("saving"), str) and len(item) == 1:
+            out.saving.append(item["saving"])
             continue
         try:
             out.ops.append(op_from_dict(item))
@@ -449,6 +458,26 @@ class JournalWriter:
                 f"recording the edit in the recovery journal {self.path.name}",
                 plain_os_error(exc),
             ) from exc
+
+    def mark_saving(self, digest: str) -> None:
+        """Record, before a full save replaces the file, the digest the file is about to get.
+
+        A save cut off after its rename but before :meth:`clear` then leaves
+        a journal whose every entry is known to be in the file.
+        """
+        if self._fd is None:
+            return
+        line = (json.dumps({"saving": digest}) + "\n").encode("utf-8")
+        try:
+            os.pwrite(self._fd, line, self._size)
+            _datasync(self._fd)
+        except OSError as exc:
+            with contextlib.suppress(OSError):
+                os.ftruncate(self._fd, self._size)
+            raise SaveError(
+                self.path, f"updating the recovery journal {self.path.name}", plain_os_error(exc)
+            ) from exc
+        self._size += len(line)
 
     def compact(self, site: SiteFile) -> None:
         """Rewrite the journal as one whole-site entry (keeps it small after many edits)."""

@@ -21,6 +21,8 @@ import os
 import re
 from pathlib import Path
 
+from pydantic import ValidationError
+
 from model.journal import (
     COMPACT_BYTES,
     DeleteNodes,
@@ -37,7 +39,6 @@ from model.journal import (
     describe_op,
     journal_path,
     move_aside,
-    op_to_dict,
     read_journal,
     validated_op,
 )
@@ -48,6 +49,7 @@ from model.store import (
     SiteLoadError,
     backup_path,
     copy_aside,
+    describe_validation_error,
     digest_bytes,
     dumps_site,
     plain_os_error,
@@ -190,9 +192,9 @@ class EditSession:
         if contents.base == self._digest:
             self._replay(contents)
             return
-        if contents.base is not None and contents.base == _digest_of(backup_path(self.path)):
-            # The last save finished but stopped before it could clear the journal:
-            # every entry is already in the file.
+        if self._digest in contents.saving:
+            # The last save replaced the file but stopped before it could clear the
+            # journal: every entry is already in the file.
             if not self.read_only:
                 self._discard_journal(jp)
             return
@@ -211,7 +213,7 @@ class EditSession:
             where = f"; they are kept in {moved.name}" if moved else ""
         self.warnings.append(
             f"{self.path.name} was changed outside tripwise after the recovery journal was "
-            f"written, so its {n} unsaved edit{'s' if n != 1 else ''} were not applied{where}"
+            f"written, so its {n} unsaved edit{'s were' if n != 1 else ' was'} not applied{where}"
         )
 
     def _replay(self, contents: JournalContents) -> None:
@@ -280,17 +282,19 @@ class EditSession:
         self._check_writable()
         if reading is not None:
             # re-check the reading itself (it may have been built without validation)
+            raw = reading.model_dump(mode="json", exclude_defaults=True)
             try:
-                reading = Reading.model_validate(
-                    json.loads(json.dumps(reading.model_dump(mode="json", exclude_defaults=True)))
-                )
-            except ValueError as exc:
+                reading = Reading.model_validate(json.loads(json.dumps(raw)))
+            except ValidationError as exc:
+                problem = describe_validation_error(exc, raw)
+                raise InvalidEdit(f"reading for {device_id}: {problem}") from None
+            except (TypeError, ValueError) as exc:
                 raise InvalidEdit(f"reading for {device_id}: {exc}") from None
-        op = SetReading.model_construct(
+        op: Op = SetReading.model_construct(
             op="set-reading", visit=visit_id, device=device_id, reading=reading
         )
         if not _is_id(visit_id) or not _is_id(device_id):
-            op = SetReading.model_validate(op_to_dict(op))
+            op = validated_op(op)
         self._commit(op, trusted=True)
 
     def upsert_node(self, node: Node) -> None:
@@ -334,11 +338,13 @@ class EditSession:
                     raise SaveError(
                         self.path, f"keeping the original as {vb.name}", plain_os_error(exc)
                     ) from exc
+        new_digest = digest_bytes(data)
+        assert self._journal is not None
+        self._journal.mark_saving(new_digest)
         write_site_bytes(data, self.path)
-        self._digest = digest_bytes(data)
+        self._digest = new_digest
         self._source_version = FORMAT_VERSION
         self._pending = 0
-        assert self._journal is not None
         try:
             self._journal.clear(self._digest)
         except OSError as exc:

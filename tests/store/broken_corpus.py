@@ -82,7 +82,9 @@ def broken_cases(seed: int = 0) -> Iterator[BrokenCase]:
         else:
             choices = _WRONG_FOR_STRING
         node[f] = rng.choice(choices)
-        yield BrokenCase(f"wrong-type-{k}-{node['id']}-{f}", _dump(doc), f"nodes[{i}] ({node['id']})")
+        yield BrokenCase(
+            f"wrong-type-{k}-{node['id']}-{f}", _dump(doc), f"nodes[{i}] ({node['id']})"
+        )
 
     # 3. duplicate node ids
     for k in range(100):
@@ -152,8 +154,10 @@ def broken_cases(seed: int = 0) -> Iterator[BrokenCase]:
         bad = rng.choice([b"\xff", b"\xc3\x28", b"\xa0\xa1", b"\xe2\x28\xa1", b"\xf0\x28\x8c\xbc"])
         t[pos:pos] = bad
         yield BrokenCase(f"not-utf8-{k}", bytes(t), "not UTF-8")
-    latin = json.dumps(bases[0], ensure_ascii=False).replace("Supply intake", "Zähler").encode(
-        "latin-1", "replace"
+    latin = (
+        json.dumps(bases[0], ensure_ascii=False)
+        .replace("Supply intake", "Zähler")
+        .encode("latin-1", "replace")
     )
     yield BrokenCase("latin-1-file", latin, "not UTF-8")
     yield BrokenCase("utf-16-file", texts[0].decode().encode("utf-16"), "not UTF-8")
@@ -175,7 +179,7 @@ def broken_cases(seed: int = 0) -> Iterator[BrokenCase]:
     ]
     for k, (data, expect) in enumerate(others):
         yield BrokenCase(f"other-{k}", data, expect)
-    for k, version in enumerate([2, 3, 99, 10**6]):
+    for version in [2, 3, 99, 10**6]:
         doc = json.loads(texts[0])
         doc["version"] = version
         yield BrokenCase(f"newer-{version}", _dump(doc), "newer than this tripwise")

@@ -79,7 +79,7 @@ def test_nothing_in_the_file_is_executed(tmp_path: Path) -> None:
     p = tmp_path / "s.json"
     p.write_text(
         '{"format": "tripwise.site", "version": 1, "site": {"name": "__import__(\'pathlib\')'
-        f".Path('{marker}').touch()\", \"earthing\": \"TT\"}}, \"nodes\": "
+        f'.Path(\'{marker}\').touch()", "earthing": "TT"}}, "nodes": '
         '[{"id": "o", "kind": "origin", "label": "eval(\'1+1\')"}]}'
     )
     site = load_site(p)

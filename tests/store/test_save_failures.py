@@ -29,7 +29,15 @@ def _mount_tmpfs(where: Path, size: str) -> bool:
     where.mkdir()
     try:
         r = subprocess.run(
-            ["mount", "-t", "tmpfs", "-o", f"size={size},mode=0755", f"tw-{uuid.uuid4().hex[:6]}", str(where)],
+            [
+                "mount",
+                "-t",
+                "tmpfs",
+                "-o",
+                f"size={size},mode=0755",
+                f"tw-{uuid.uuid4().hex[:6]}",
+                str(where),
+            ],
             capture_output=True,
             timeout=20,
         )
