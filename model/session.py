@@ -106,7 +106,7 @@ class EditSession:
     @classmethod
     def open(cls, path: str | os.PathLike[str], *, read_only: bool = False) -> EditSession:
         """Open a site; replay its journal.  Raises ``SiteLoadError`` or ``LockHeld``."""
-        p = Path(path)
+        p = _canonical(path)
         lock: SiteLock | None = None
         if not read_only:
             if not p.exists():
@@ -154,7 +154,7 @@ class EditSession:
     @classmethod
     def create(cls, path: str | os.PathLike[str], site: SiteFile) -> EditSession:
         """Write a new site file and open it; ``FileExistsError`` if the path exists."""
-        p = Path(path)
+        p = _canonical(path)
         if p.exists():
             raise FileExistsError(f"{p} already exists; tripwise will not overwrite it")
         site = apply_op(
@@ -207,6 +207,10 @@ class EditSession:
                     self.warnings.append(f"the unreadable journal was kept as {moved.name}")
             return
         n = len(contents.ops)
+        if n == 0 and not contents.warnings:
+            if not self.read_only:  # nothing in it but a header: nothing to keep
+                self._discard_journal(jp)
+            return
         where = ""
         if not self.read_only:
             moved = move_aside(jp, "unapplied")
@@ -365,6 +369,17 @@ class EditSession:
 
     def __exit__(self, *exc: object) -> None:
         self.close()
+
+
+def _canonical(path: str | os.PathLike[str]) -> Path:
+    """The path as given, or its real path when symbolic links are involved.
+
+    Two editors reaching one file by different links must find the same lock
+    and journal.
+    """
+    given = Path(path)
+    real = Path(os.path.realpath(given))
+    return given if real == Path(os.path.abspath(given)) else real
 
 
 def _is_id(text: object) -> bool:

@@ -152,3 +152,19 @@ def test_stale_lock_file_of_a_dead_pid_is_taken_over(site_file: Path) -> None:
     assert sess._lock is not None and sess._lock.took_over == stale
     assert any("2026-12-01 09:14" in w for w in sess.warnings)
     sess.close()
+
+
+def test_a_symlink_to_the_site_shares_its_lock(site_file: Path) -> None:
+    link = site_file.with_name("shortcut.json")
+    link.symlink_to(site_file)
+    first = EditSession.open(site_file)
+    with pytest.raises(LockHeld):
+        EditSession.open(link)
+    first.close()
+    via_link = EditSession.open(link)
+    assert via_link.path == site_file
+    via_link.set_site_info(via_link.site.site.model_copy(update={"notes": "via the link"}))
+    via_link.save()
+    via_link.close()
+    assert link.is_symlink()  # saving through a link keeps the link
+    assert "via the link" in site_file.read_text()
