@@ -64,3 +64,18 @@ def test_missing_file_with_awkward_name_is_exit_2_one_line(tmp_path: Path) -> No
     assert r.returncode == 2
     assert r.stderr.strip().splitlines() == [f"tripwise: cannot load {p}: no such file"]
     assert "Traceback" not in r.stderr
+
+
+def test_check_notes_unsaved_journal_edits(tmp_path: Path) -> None:
+    from model.session import EditSession
+    from model.site import Reading
+
+    p = tmp_path / "site ö.json"
+    s = EditSession.create(p, generate_site(25, seed=4))
+    dev = next(n.id for n in s.site.nodes if n.kind == "rcbo")
+    s.set_reading(s.site.visits[-1].id, dev, Reading(x1_0=20.0))
+    s.close()
+    r = _check(str(p), "--json")
+    assert r.returncode in (0, 1)
+    json.loads(r.stdout)  # stdout is still one JSON object only
+    assert "has edits not yet saved" in r.stderr and "site ö.json.tripwise-journal" in r.stderr
