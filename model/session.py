@@ -70,7 +70,12 @@ def _digest_of(path: Path) -> str | None:
 
 
 class EditSession:
-    """A site open in the editor.  See the module docstring."""
+    """A site open in the editor.  See the module docstring.
+
+    ``site`` is replaced, never changed in place, by each edit (consecutive
+    sites share unchanged parts), so the caller may keep earlier ``site``
+    values, e.g. for undo, but must not mutate them.
+    """
 
     path: Path
     site: SiteFile
