@@ -17,7 +17,9 @@ from pathlib import Path
 
 import pytest
 
+import model.session as session_mod
 from bench.gen_site import generate_site
+from model.journal import journal_path
 from model.session import EditSession
 from model.site import Reading
 from model.store import backup_path, load_site, save_site
@@ -28,7 +30,7 @@ MIN_KILLS = 200
 TIME_BUDGET_S = 45.0
 
 
-def _child(path: Path, wfd: int, seed: int, first_seq: int) -> None:
+def _child(path: Path, wfd: int, seed: int, first_seq: int, save_prob: float) -> None:
     """Edit forever, reporting each edit after it returned; never returns."""
     code = 0
     try:
@@ -41,10 +43,10 @@ def _child(path: Path, wfd: int, seed: int, first_seq: int) -> None:
         while True:
             seq += 1
             r = rng.random()
-            if r < 0.06:
+            if r < save_prob:
                 sess.save()
                 os.write(wfd, b"saved\n")
-            elif r < 0.1:
+            elif r < save_prob + 0.04:
                 node = sess.site.node(rng.choice(circuits))
                 sess.upsert_node(node.model_copy(update={"label": f"seq {seq}"}))
                 os.write(wfd, f"node {node.id} {seq}\n".encode())
@@ -68,24 +70,41 @@ def _seq_of(text: str) -> int:
 
 
 @pytest.mark.skipif(not hasattr(os, "fork"), reason="needs fork")
-def test_sigkill_at_random_moments_loses_nothing_reported(tmp_path: Path) -> None:
+@pytest.mark.parametrize(
+    ("save_prob", "compact_bytes", "min_kills"),
+    [
+        (0.06, None, MIN_KILLS),  # frequent full saves
+        (0.01, 40_000, 100),  # long journals, compacted often (a 150-node site is ~35 kB)
+    ],
+)
+def test_sigkill_at_random_moments_loses_nothing_reported(
+    tmp_path: Path,
+    monkeypatch: pytest.MonkeyPatch,
+    save_prob: float,
+    compact_bytes: int | None,
+    min_kills: int,
+) -> None:
+    if compact_bytes is not None:
+        monkeypatch.setattr(session_mod, "COMPACT_BYTES", compact_bytes)  # inherited by the child
     path = tmp_path / "van site.json"
     save_site(generate_site(150, seed=5), path)
     rng = random.Random(1234)
     latest_reading: dict[str, int] = {}
     latest_label: dict[str, int] = {}
+    in_file_at_save: dict[str, int] = {}
     kills = 0
     saves_seen = 0
     replays = 0
+    compactions = 0
     started = time.monotonic()
-    while kills < MIN_KILLS or (kills < 400 and time.monotonic() - started < 10):
+    while kills < min_kills or (kills < 2 * min_kills and time.monotonic() - started < 6):
         assert time.monotonic() - started < TIME_BUDGET_S, f"only {kills} kills in the time budget"
         rfd, wfd = os.pipe()
         first_seq = (kills + 1) * 1_000_000
         pid = os.fork()
         if pid == 0:  # pragma: no cover - the child
             os.close(rfd)
-            _child(path, wfd, seed=kills, first_seq=first_seq)
+            _child(path, wfd, seed=kills, first_seq=first_seq, save_prob=save_prob)
         os.close(wfd)
         want = rng.choice([0, 0, 1, 2, 3, 5, 8, 13, 21, 34])
         buf = b""
@@ -118,11 +137,18 @@ def test_sigkill_at_random_moments_loses_nothing_reported(tmp_path: Path) -> Non
                 latest_label[words[1]] = max(latest_label.get(words[1], 0), int(words[2]))
             else:
                 saves_seen += 1
+                in_file_at_save = dict(latest_reading)
 
-        # the file itself is always a whole, valid site, and so is its backup
-        load_site(path)
+        # the file itself is always a whole, valid site, and so is its backup;
+        # it holds at least every reading reported before the last reported save
+        on_disk = load_site(path).visits[-1].readings
+        for dev, seq in in_file_at_save.items():
+            assert _seq_of(on_disk[dev].note) >= seq, f"kill {kills}: saved {dev} not in the file"
         if backup_path(path).exists():
             load_site(backup_path(path))
+        jp = journal_path(path)
+        if jp.exists() and b'"replace-site"' in jp.read_bytes()[:200_000]:
+            compactions += 1
         sess = EditSession.open(path)
         try:
             replays += bool(sess.recovered)
@@ -136,7 +162,9 @@ def test_sigkill_at_random_moments_loses_nothing_reported(tmp_path: Path) -> Non
             sess.close()
     leftovers = [p.name for p in tmp_path.iterdir() if p.name.endswith(".tmp")]
     assert len(leftovers) <= 2, leftovers  # stray temporary files are cleaned on open
-    assert kills >= MIN_KILLS
-    assert saves_seen > 20 and replays > 50, (saves_seen, replays)  # both paths were exercised
+    assert kills >= min_kills
+    assert saves_seen > 5 and replays > 50, (saves_seen, replays)  # both paths were exercised
+    if compact_bytes is not None:
+        assert compactions > 5, compactions
     assert latest_reading
-    print(f"{kills} kills, {saves_seen} saves reported, {replays} opens replayed a journal")
+    print(f"{kills} kills, {saves_seen} saves, {replays} replays, {compactions} compacted")
