@@ -25,6 +25,7 @@ from pydantic import ValidationError
 
 from model.journal import (
     COMPACT_BYTES,
+    JOURNAL_SUFFIX,
     DeleteNodes,
     InvalidEdit,
     JournalContents,
@@ -227,12 +228,12 @@ class EditSession:
 
     def _replay(self, contents: JournalContents) -> None:
         site = self.site
-        for i, op in enumerate(contents.ops, start=2):
+        for op in contents.ops:
             try:
                 site = apply_op(site, op)
             except InvalidEdit as exc:
                 self.warnings.append(
-                    f"journal entry {i} could not be applied and was skipped: {exc}"
+                    f"the recorded {describe_op(op)} could not be applied and was skipped: {exc}"
                 )
                 continue
             self.recovered.append(f"recovered {describe_op(op)}")
@@ -248,11 +249,17 @@ class EditSession:
 
     def _remove_stray_temp_files(self) -> None:
         """Temporary files left by a save that was cut off (we hold the lock: nobody else saves)."""
-        prefixes = (f".{self.path.name}.", f".{backup_path(self.path).name}.")
+        pattern = re.compile(
+            r"^\."
+            + re.escape(self.path.name)
+            + r"(\.bak|\.v\d+\.bak|"
+            + re.escape(JOURNAL_SUFFIX)
+            + r")?\.(\d+)-[0-9a-f]{8}\.tmp$"
+        )
         with contextlib.suppress(OSError):
             for entry in os.scandir(self.path.parent):
-                name = entry.name
-                if name.endswith(".tmp") and name.startswith(prefixes):
+                m = pattern.match(entry.name)
+                if m and not _pid_alive(int(m.group(2))):
                     with contextlib.suppress(OSError):
                         os.unlink(entry.path)
 
@@ -374,6 +381,19 @@ class EditSession:
 
     def __exit__(self, *exc: object) -> None:
         self.close()
+
+
+def _pid_alive(pid: int) -> bool:
+    """True when a process with this id is running on this machine (not this one)."""
+    if pid == os.getpid():
+        return False
+    try:
+        os.kill(pid, 0)
+    except ProcessLookupError:
+        return False
+    except OSError:
+        return True  # it exists but belongs to someone else
+    return True
 
 
 def _canonical(path: str | os.PathLike[str]) -> Path:

@@ -4,6 +4,8 @@ from __future__ import annotations
 
 import json
 import os
+import subprocess
+import sys
 from pathlib import Path
 from typing import Any
 
@@ -309,10 +311,19 @@ def test_crash_after_rename_before_clearing_journal_does_not_replay_twice(
 
 def test_save_keeps_one_backup_and_cleans_temp_files(site_file: Path) -> None:
     first = site_file.read_bytes()
-    stray = site_file.with_name(f".{site_file.name}.99999-dead.tmp")
-    stray.write_bytes(b"half a save")
+    dead = subprocess.Popen([sys.executable, "-c", "pass"])
+    dead.wait()
+    stray = site_file.with_name(f".{site_file.name}.{dead.pid}-0123abcd.tmp")
+    stray_bak = site_file.with_name(f".{site_file.name}.bak.{dead.pid}-0123abcd.tmp")
+    other_site = site_file.with_name(f".{site_file.name}.copy.json.{dead.pid}-0123abcd.tmp")
+    live = site_file.with_name(f".{site_file.name}.{os.getppid()}-0123abcd.tmp")
+    for p in (stray, stray_bak, other_site, live):
+        p.write_bytes(b"half a save")
     s = EditSession.open(site_file)
-    assert not stray.exists()
+    assert not stray.exists() and not stray_bak.exists()  # left by a save that was cut off
+    assert other_site.exists() and live.exists()  # another site's, or a running program's
+    other_site.unlink()
+    live.unlink()
     visit, dev = _first(s)
     s.set_reading(visit, dev, Reading(x1_0=16.0))
     s.save()
