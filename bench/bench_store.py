@@ -61,6 +61,17 @@ def main() -> int:
             s.set_reading(visit, rcds[i % len(rcds)], Reading(x1_0=10.0 + i, x5_0=8.0))
 
         rows.append((f"record one reading ({n} nodes)", _median_ms(append, args.repeat * 3), "< 5"))
+        circuit = next(x for x in s.site.nodes if x.kind == "circuit")
+
+        def upsert(i: int, s: EditSession = s, c: object = circuit) -> None:
+            s.upsert_node(c.model_copy(update={"label": f"Circuit {i}"}))  # type: ignore[attr-defined]
+
+        rows.append((f"upsert one node ({n} nodes)", _median_ms(upsert, args.repeat), ""))
+
+        def replace(_i: int, s: EditSession = s) -> None:
+            s.replace_site(s.site.model_copy(update={"nodes": list(reversed(s.site.nodes))}))
+
+        rows.append((f"replace whole site ({n} nodes)", _median_ms(replace, 5), ""))
 
         def full_save(
             i: int, s: EditSession = s, visit: str = visit, rcds: list[str] = rcds
