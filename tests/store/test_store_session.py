@@ -18,8 +18,7 @@ from model.journal import InvalidEdit, journal_path
 from model.session import EditSession
 from model.site import DID_NOT_TRIP, Reading, SiteFile, SiteInfo, Visit
 from model.store import SiteLoadError, backup_path, load_site, save_site, site_to_dict
-
-from .helpers import rcd_ids
+from tests.store.helpers import rcd_ids
 
 
 def _first(session: EditSession) -> tuple[str, str]:

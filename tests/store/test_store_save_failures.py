@@ -21,8 +21,7 @@ from model import store
 from model.session import EditSession
 from model.site import Reading
 from model.store import SaveError, SiteLoadError, backup_path, load_site, save_site
-
-from .helpers import file_digest, rcd_ids
+from tests.store.helpers import file_digest, rcd_ids
 
 
 def _mount_tmpfs(where: Path, size: str) -> bool:

@@ -11,8 +11,7 @@ from pathlib import Path
 import pytest
 
 from model.store import MAX_FILE_BYTES, SiteLoadError, load_site
-
-from .broken_corpus import BrokenCase, broken_cases
+from tests.store.broken_corpus import BrokenCase, broken_cases
 
 ROOT = Path(__file__).resolve().parents[2]
 CASES = list(broken_cases())

@@ -23,8 +23,7 @@ from model.journal import journal_path
 from model.session import EditSession
 from model.site import Reading
 from model.store import backup_path, load_site, save_site
-
-from .helpers import rcd_ids
+from tests.store.helpers import rcd_ids
 
 MIN_KILLS = 200
 TIME_BUDGET_S = 45.0

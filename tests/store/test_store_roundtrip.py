@@ -13,8 +13,7 @@ from bench.gen_site import generate_site
 from model.session import EditSession
 from model.site import DID_NOT_TRIP, Reading
 from model.store import dumps_site, load_site, save_site
-
-from .helpers import rcd_ids
+from tests.store.helpers import rcd_ids
 
 SIZES = [4, 5, 9, 17, 40, 120, 333, 1000]
 
