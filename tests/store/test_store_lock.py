@@ -168,3 +168,47 @@ def test_a_symlink_to_the_site_shares_its_lock(site_file: Path) -> None:
     via_link.close()
     assert link.is_symlink()  # saving through a link keeps the link
     assert "via the link" in site_file.read_text()
+
+
+@pytest.mark.skipif(not hasattr(os, "fork"), reason="needs fork")
+def test_racing_processes_never_hold_the_lock_together(site_file: Path) -> None:
+    """Four processes take and release the lock as fast as they can; never two at once."""
+    marker = site_file.with_name("inside")
+    rfd, wfd = os.pipe()
+    pids = []
+    for k in range(4):
+        pid = os.fork()
+        if pid == 0:  # pragma: no cover - the child
+            os.close(rfd)
+            held = clashes = 0
+            try:
+                while held < 150:
+                    try:
+                        lock = SiteLock.acquire(site_file)
+                    except LockHeld:
+                        continue
+                    try:
+                        fd = os.open(marker, os.O_CREAT | os.O_EXCL | os.O_WRONLY)
+                    except FileExistsError:
+                        clashes += 1
+                    else:
+                        os.close(fd)
+                        os.unlink(marker)
+                    held += 1
+                    lock.release()
+                os.write(wfd, f"{k} {held} {clashes}\n".encode())
+            finally:
+                os._exit(0)
+        pids.append(pid)
+    os.close(wfd)
+    out = b""
+    while chunk := os.read(rfd, 4096):
+        out += chunk
+    os.close(rfd)
+    for pid in pids:
+        os.waitpid(pid, 0)
+    rows = [line.split() for line in out.decode().splitlines()]
+    assert len(rows) == 4, out
+    assert all(int(held) == 150 for _, held, _ in rows)
+    assert sum(int(clashes) for _, _, clashes in rows) == 0
+    assert not lock_path(site_file).exists()

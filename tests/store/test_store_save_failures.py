@@ -213,3 +213,44 @@ def test_failed_save_in_session_keeps_journal_and_dirty(
     assert not sess.dirty
     assert load_site(site_file).visits[-1].readings[dev].x1_0 == 19.0
     sess.close()
+
+
+def test_save_syncs_the_new_file_before_the_rename_and_the_folder_after(
+    site_file: Path, monkeypatch: pytest.MonkeyPatch
+) -> None:
+    """POSIX rename is atomic but not durable by itself: data first, then name, then folder."""
+    events: list[str] = []
+    folder_fds: set[int] = set()
+    real_open, real_fsync, real_replace, real_link = os.open, os.fsync, os.replace, os.link
+
+    def rec_open(path, flags, *a):  # type: ignore[no-untyped-def]
+        fd = real_open(path, flags, *a)
+        if os.path.isdir(path):
+            folder_fds.add(fd)
+        return fd
+
+    def rec_fsync(fd: int) -> None:
+        events.append("fsync folder" if fd in folder_fds else "fsync file")
+        real_fsync(fd)
+
+    def rec_replace(src, dst):  # type: ignore[no-untyped-def]
+        events.append(f"rename to {Path(dst).name}")
+        real_replace(src, dst)
+
+    def rec_link(src, dst):  # type: ignore[no-untyped-def]
+        events.append(f"link {Path(src).name}")
+        real_link(src, dst)
+
+    monkeypatch.setattr(os, "open", rec_open)
+    monkeypatch.setattr(os, "fsync", rec_fsync)
+    monkeypatch.setattr(os, "replace", rec_replace)
+    monkeypatch.setattr(os, "link", rec_link)
+    save_site(_edited(site_file), site_file)
+    monkeypatch.undo()
+    assert events == [
+        "fsync file",  # the new version is on disk ...
+        "link site.json",  # ... the current one is kept as the backup ...
+        "rename to site.json.bak",
+        "rename to site.json",  # ... then the new one takes the name ...
+        "fsync folder",  # ... and the rename itself is made durable
+    ]
