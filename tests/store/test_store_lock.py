@@ -78,6 +78,8 @@ def test_second_process_sees_holder_then_takes_over_after_kill(site_file: Path) 
             if stream:
                 stream.close()
     # the killed holder left its lock file behind; the next editor takes it over
+    # (flock(2), Linux man-pages: the lock is released when the holder's open file is
+    # closed, which the kernel does for a process that is killed)
     assert lock_path(site_file).exists()
     sess = EditSession.open(site_file)
     try:
@@ -126,6 +128,8 @@ def test_child_process_is_refused_while_this_one_holds(site_file: Path) -> None:
 
 
 def test_two_sessions_in_one_process_exclude_each_other(site_file: Path) -> None:
+    # flock(2): locks belong to the open file description, so two open() calls in one
+    # process conflict (unlike fcntl(2) record locks, which are per process)
     first = EditSession.open(site_file)
     with pytest.raises(LockHeld):
         EditSession.open(site_file)

@@ -218,7 +218,11 @@ def test_failed_save_in_session_keeps_journal_and_dirty(
 def test_save_syncs_the_new_file_before_the_rename_and_the_folder_after(
     site_file: Path, monkeypatch: pytest.MonkeyPatch
 ) -> None:
-    """POSIX rename is atomic but not durable by itself: data first, then name, then folder."""
+    """rename(2) is atomic but not durable by itself: data first, then name, then folder.
+
+    POSIX rename(): the new name refers to the old or the new file at every moment;
+    fsync(2) (Linux man-pages): syncing a file does not sync the folder entry naming it.
+    """
     events: list[str] = []
     folder_fds: set[int] = set()
     real_open, real_fsync, real_replace, real_link = os.open, os.fsync, os.replace, os.link
