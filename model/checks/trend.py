@@ -144,12 +144,12 @@ def _newly_failing(
     if prev is None or prev_visit is None:
         return
     rules = ctx.rules.name
-    before = judge_reading(node, prev, rules)
-    if any(j.flag for j in before.values()):
-        return
     now = judge_reading(node, reading, rules)
     failing = [(k, j) for k, j in now.items() if j.flag is not None]
     if not failing:
+        return
+    before = judge_reading(node, prev, rules)
+    if any(j.flag for j in before.values()):
         return
     label = ctx.index.label(dev)
     keys = [k for k, _ in failing]
