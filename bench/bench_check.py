@@ -26,9 +26,18 @@ def main() -> None:
     ap.add_argument("--repeat", type=int, default=7)
     args = ap.parse_args()
     medians: dict[int, float] = {}
+    baseline: dict[int, float] = {}
     for n in (1_000, 10_000, 50_000):
         site = generate_site(n, seed=1)
         analyse(site)  # warm-up
+        # the machine's own scaling: one dict of the nodes by id, nothing else
+        walks = []
+        for _ in range(args.repeat):
+            t0 = time.perf_counter()
+            by_id = {x.id: x for x in site.nodes}
+            walks.append(time.perf_counter() - t0)
+        baseline[n] = statistics.median(walks)
+        del by_id
         times = []
         for _ in range(args.repeat):
             t0 = time.perf_counter()
@@ -44,6 +53,11 @@ def main() -> None:
     ratio = medians[50_000] / medians[10_000]
     print(f"10k target < 200 ms: {medians[10_000] * 1000:.1f} ms")
     print(f"50k / 10k ratio: {ratio:.2f} (target < 5.5, linear = 5.0)")
+    base = baseline[50_000] / baseline[10_000]
+    print(
+        f"baseline (dict of nodes by id) 50k / 10k ratio: {base:.2f} "
+        "(what memory effects alone do to a linear pass on this machine)"
+    )
 
 
 if __name__ == "__main__":

@@ -26,6 +26,9 @@ GROUP_MULTIPLE: dict[str, float] = {"half": 0.5, "x1": 1.0, "x5": 5.0}
 GROUP_TITLE: dict[str, str] = {"half": "½ × IΔn", "x1": "1 × IΔn", "x5": "5 × IΔn"}
 
 
+_GROUP_OF: dict[str, TestGroup] = {t: t.split("_", 1)[0] for t in TEST_NAMES}  # type: ignore[misc]
+
+
 def group_of(test: str) -> TestGroup:
     """'x1_180' -> 'x1'."""
     g = test.split("_", 1)[0]
@@ -243,9 +246,10 @@ def fmt_result(value: float | str | None) -> str:
 def judge_reading(node: Any, reading: Any, rules: str) -> dict[str, Judgement]:
     """Every recorded value of one reading judged against its band (keys: test names, 'ramp_ma', 'button')."""
     out: dict[str, Judgement] = {}
+    bands = {g: time_band(node, g, reading.waveform, rules) for g in GROUPS}
+    values = reading.__dict__
     for t in TEST_NAMES:
-        band = time_band(node, group_of(t), reading.waveform, rules)
-        out[t] = judge_time(band, getattr(reading, t))
+        out[t] = judge_time(bands[_GROUP_OF[t]], values[t])
     out["ramp_ma"] = judge_ramp(ramp_band(node, reading.waveform), reading.ramp_ma)
     if reading.button == "failed":
         out["button"] = Judgement("reading.button-failed", "test button did not trip the device")

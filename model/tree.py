@@ -27,6 +27,8 @@ class SiteIndex:
     board_of: dict[str, str] = field(default_factory=dict)
     #: Overcurrent devices above each node, nearest first.
     ocpd_above: dict[str, tuple[str, ...]] = field(default_factory=dict)
+    _rcds: list[str] = field(default_factory=list)
+    _circuits: list[str] = field(default_factory=list)
 
     @classmethod
     def build(cls, site: SiteFile) -> SiteIndex:
@@ -48,6 +50,10 @@ class SiteIndex:
             nid, d, rcds, ocpds, board = stack.pop()
             node = idx.by_id[nid]
             idx.order.append(nid)
+            if node.kind in RCD_KINDS:
+                idx._rcds.append(nid)
+            elif node.kind == "circuit":
+                idx._circuits.append(nid)
             idx.depth[nid] = d
             idx.rcd_above[nid] = rcds
             idx.ocpd_above[nid] = ocpds
@@ -94,12 +100,12 @@ class SiteIndex:
         return out
 
     def rcds(self) -> list[str]:
-        """Protective residual-current devices in tree order."""
-        return [i for i in self.order if self.by_id[i].kind in RCD_KINDS]
+        """Protective residual-current devices in tree order (do not modify the list)."""
+        return self._rcds
 
     def circuits(self) -> list[str]:
-        """Circuits in tree order."""
-        return [i for i in self.order if self.by_id[i].kind == "circuit"]
+        """Circuits in tree order (do not modify the list)."""
+        return self._circuits
 
     def rcds_protecting(self, node_id: str) -> tuple[str, ...]:
         """Protective RCDs in the path of this node, nearest first, including itself."""

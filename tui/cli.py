@@ -19,6 +19,11 @@ COMMAND_MODULES = [
     "tui.commands.check",
     "tui.commands.schema",
     "tui.commands.demo",
+    "tui.commands.compare",
+    "tui.commands.merge",
+    "tui.commands.import_readings",
+    "tui.commands.report",
+    "tui.commands.print_",
     "tui.commands.open",
     "tui.commands.new",
 ]

@@ -23,6 +23,7 @@ from model.checks.coverage import (
 )
 from model.checks.earthing import check_earthing
 from model.checks.readings import check_readings
+from model.checks.trend import check_trend
 from model.findings import Analysis, Finding
 from model.site import SiteFile
 
@@ -38,6 +39,7 @@ CHECKS: list[Check] = [
     check_leakage,
     check_lighting,
     check_readings,
+    check_trend,
 ]
 
 

@@ -14,6 +14,7 @@ from model.store import load_site
 
 EXPECTED: dict[str, set[tuple[str, tuple[str, ...]]]] = {
     "oak-lane-house": {
+        ("reading.trend", ("rc2",)),  # 180 -> 312 ms at 1× 180°, and a pass turned to a fail
         ("coverage.additional-protection", ("c-out",)),
         ("reading.too-slow", ("rc2",)),
         ("type.ac-unsuitable", ("rc2", "c-l2", "c-s2", "c-s3")),
@@ -23,6 +24,8 @@ EXPECTED: dict[str, set[tuple[str, tuple[str, ...]]]] = {
         ("reading.missing", ("rb2",)),
     },
     "hollowmere-farm": {
+        ("reading.trend", ("h1",)),  # 18 -> 31 ms at 1× 180°: +72 %, +13 ms
+        ("reading.trend", ("h2",)),  # passed in 2022, did not trip in 2026
         ("earthing.tt-ra", ("dairy-rc", "c-ds", "c-mc")),
         ("earthing.tt-no-rcd", ("c-yl",)),
         ("reading.no-trip", ("h2",)),
@@ -83,6 +86,7 @@ ALL_RULES = {
     "reading.ramp-out-of-band",
     "reading.button-failed",
     "reading.missing",
+    "reading.trend",
 }
 
 

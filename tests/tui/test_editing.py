@@ -160,6 +160,7 @@ async def test_lock_held_offers_read_only(oak_lane: Path, monkeypatch: pytest.Mo
 
 
 async def test_hook_keys_open_the_analysis_screens(oak_lane: Path) -> None:
+    from tui.screens.export import ExportScreen
     from tui.screens.impact import ImpactScreen
     from tui.screens.pair import PairScreen
     from tui.screens.site_details import SiteDetailsScreen
@@ -174,6 +175,7 @@ async def test_hook_keys_open_the_analysis_screens(oak_lane: Path) -> None:
             ("p", PairScreen),
             ("s", SiteDetailsScreen),
             ("v", VisitsScreen),
+            ("x", ExportScreen),
         ):
             await pilot.press(key)
             assert isinstance(app.screen, cls), key

@@ -1,0 +1,79 @@
+"""``tripwise import-readings``: preview, --yes applies, bad rows leave the site byte-identical."""
+
+from __future__ import annotations
+
+import json
+from pathlib import Path
+
+from model.store import load_site
+from tests.visits_helpers import run_cli, sample_copy, sheet_csv
+
+
+def setup(tmp_path: Path, rows: list[dict[str, object]]) -> tuple[Path, Path, bytes]:
+    site = sample_copy(tmp_path)
+    csv_path = tmp_path / "sheet.csv"
+    csv_path.write_text(sheet_csv(rows), encoding="utf-8", newline="")
+    return site, csv_path, site.read_bytes()
+
+
+def test_yes_applies(tmp_path: Path) -> None:
+    # rb2 has no reading on the sample's latest visit; rc1's x1_0 changes 22 -> 23 ms
+    site, csv_path, _ = setup(
+        tmp_path,
+        [{"device": "rb2", "x1_0": 19.0, "button": "worked"}, {"device": "rc1", "x1_0": 23.0}],
+    )
+    p = run_cli("import-readings", str(site), str(csv_path), "--yes")
+    assert p.returncode == 0, p.stderr
+    assert "added" in p.stdout and "changed   x1_0 [ms]      22 → 23" in p.stdout
+    r = load_site(site).visits[-1].readings
+    assert r["rb2"].x1_0 == 19.0 and r["rb2"].button == "worked" and r["rc1"].x1_0 == 23.0
+    assert r["rc1"].x1_180 == 25.0  # untouched value kept
+
+
+def test_without_yes_and_no_terminal_is_a_dry_run(tmp_path: Path) -> None:
+    site, csv_path, before = setup(tmp_path, [{"device": "rb2", "x1_0": 19.0}])
+    p = run_cli("import-readings", str(site), str(csv_path), stdin="y\n")
+    assert p.returncode == 0, p.stderr
+    assert "added" in p.stdout and "Nothing written" in p.stdout
+    assert site.read_bytes() == before
+
+
+def test_bad_rows_listed_and_site_byte_identical(tmp_path: Path) -> None:
+    site, csv_path, before = setup(
+        tmp_path,
+        [
+            {"device": "rb2", "x1_0": 19.0},  # row 2 is fine
+            {"device": "ghost", "x1_0": 19.0},  # row 3
+            {"device": "rc1", "x5_0": "quick"},  # row 4
+            {"device": "m1", "x1_0": 10.0},  # row 5: an MCB
+        ],
+    )
+    p = run_cli("import-readings", str(site), str(csv_path), "--yes")
+    assert p.returncode == 2
+    err = p.stderr
+    assert "row 3, column 'device': no device 'ghost'" in err
+    assert "row 4, column 'x5_0 [ms]'" in err and "row 5, column 'device'" in err
+    assert "3 problem(s)" in err and "nothing written" in err and "Traceback" not in err
+    assert site.read_bytes() == before
+    assert sorted(x.name for x in tmp_path.iterdir()) == ["oak-lane-house.json", "sheet.csv"]
+
+
+def test_visit_option(tmp_path: Path) -> None:
+    site, csv_path, before = setup(tmp_path, [{"device": "rb2", "x1_0": 19.0}])
+    p = run_cli("import-readings", str(site), str(csv_path), "--visit", "2000-01-01", "--yes")
+    assert p.returncode == 2 and "known visits: 2023-05-09, 2026-11-14" in p.stderr
+    assert site.read_bytes() == before
+    p = run_cli("import-readings", str(site), str(csv_path), "--visit", "2023-05-09", "--yes")
+    assert p.returncode == 0, p.stderr
+    doc = json.loads(site.read_text(encoding="utf-8"))
+    assert doc["visits"][0]["readings"]["rb2"] == {"x1_0": 19.0}
+    assert "rb2" not in doc["visits"][1]["readings"]
+
+
+def test_missing_csv_and_nothing_to_change(tmp_path: Path) -> None:
+    site, csv_path, before = setup(tmp_path, [{"device": "rc1", "x1_0": 22.0}])
+    p = run_cli("import-readings", str(site), str(tmp_path / "none.csv"), "--yes")
+    assert p.returncode == 2 and "no such file" in p.stderr
+    p = run_cli("import-readings", str(site), str(csv_path), "--yes")
+    assert p.returncode == 0 and "Nothing to change" in p.stdout
+    assert site.read_bytes() == before
