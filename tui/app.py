@@ -73,6 +73,8 @@ class TripwiseApp(App[None]):
         Binding("s", "site_details", "Site", show=False),
         Binding("v", "visits", "Visits", show=False),
         Binding("x", "export", "Export", show=False),
+        Binding("h", "compare_visits", "Compare visits", show=False),
+        Binding("o", "merge_other", "Merge a copy", show=False),
         Binding("q", "quit_app", "Quit"),
     ]
 
@@ -514,18 +516,12 @@ class TripwiseApp(App[None]):
         if isinstance(self.screen, MainScreen):
             self.main.focus_findings()
 
-    def _missing(self, what: str) -> None:
-        self.notify(f"The {what} screen is not part of this build.", severity="warning")
-
     def action_impact(self) -> None:
         nid = self._selected()
         if nid is None:
             return
-        try:
-            from tui.screens.impact import ImpactScreen  # type: ignore[import-not-found]
-        except ImportError:
-            self._missing("impact")
-            return
+        from tui.screens.impact import ImpactScreen
+
         self.push_screen(ImpactScreen(self.site, nid))
 
     def action_pair(self) -> None:
@@ -536,21 +532,14 @@ class TripwiseApp(App[None]):
         if pair is None:
             self.notify("Choose a residual-current device with another RCD above or below it.")
             return
-        try:
-            from tui.screens.pair import PairScreen  # type: ignore[import-not-found]
-        except ImportError:
-            self._missing("pair")
-            return
+        from tui.screens.pair import PairScreen
+
         self.push_screen(PairScreen(self.site, self.analysis, pair[0], pair[1]))
 
     def action_site_details(self) -> None:
         if self.session is None:
             return
-        try:
-            from tui.screens.site_details import SiteDetailsScreen  # type: ignore[import-not-found]
-        except ImportError:
-            self._missing("site details")
-            return
+        from tui.screens.site_details import SiteDetailsScreen
 
         def done(info: Any) -> None:
             if info is None or not self._writable():
@@ -564,11 +553,7 @@ class TripwiseApp(App[None]):
     def action_visits(self) -> None:
         if self.session is None:
             return
-        try:
-            from tui.screens.visits import VisitsScreen  # type: ignore[import-not-found]
-        except ImportError:
-            self._missing("visits")
-            return
+        from tui.screens.visits import VisitsScreen
 
         def done(visit: Any) -> None:
             if visit is None or not self._writable():
@@ -580,14 +565,67 @@ class TripwiseApp(App[None]):
         self.push_screen(VisitsScreen(self.site), done)
 
     def action_export(self) -> None:
-        try:
-            from tui.screens.export import ExportScreen  # type: ignore[import-not-found]
-        except ImportError:
-            self._missing("export")
-            return
+        from tui.screens.export import ExportScreen
+
         if self.session is not None and not self.session.read_only:
             self.save_now()
         self.push_screen(ExportScreen(self.site_path))
+
+    def action_compare_visits(self) -> None:
+        from tui.screens.compare import CompareScreen
+
+        if len(self.site.visits) < 2:
+            self.notify(f"Comparing needs two visits; this site has {len(self.site.visits)}.")
+            return
+        self.push_screen(CompareScreen(self.site))
+
+    def action_merge_other(self) -> None:
+        """Merge another copy of this site (from a second laptop) into it."""
+        if not self._writable():
+            self.notify("The site is open read-only.", severity="warning")
+            return
+        from tui.screens.path_prompt import PathPromptScreen
+
+        self.push_screen(
+            PathPromptScreen(
+                "Merge another copy of this site",
+                "Path of the other copy (it is only read, never changed):",
+                start=str(self.site_path.parent) + "/",
+            ),
+            self._merge_from,
+        )
+
+    def _merge_from(self, path: str | None) -> None:
+        if not path:
+            return
+        from model.merge import merge_sites
+        from model.store import SiteLoadError, load_site
+        from tui.screens.merge import MergeScreen
+
+        try:
+            other = load_site(Path(path).expanduser())
+        except SiteLoadError as exc:
+            self.notify(f"Cannot merge: {exc}", severity="error")
+            return
+        result = merge_sites(self.site, other)
+
+        def apply(merged: SiteFile | None) -> None:
+            if merged is None:
+                return
+            problem = self.apply_edit(f"merge {Path(path).name}", lambda s: s.replace_site(merged))
+            if problem:
+                self.notify(f"Merge not applied: {problem}", severity="error")
+            else:
+                settled = len(result.conflicts)
+                self.notify(
+                    f"Merged {Path(path).name}"
+                    + (f"; {settled} conflict(s) settled by your choices." if settled else ".")
+                )
+
+        if result.clean:
+            apply(result.merged())
+        else:
+            self.push_screen(MergeScreen(result), apply)
 
     def action_quit_app(self) -> None:
         unsaved = (

@@ -20,6 +20,8 @@ KEY_MAP: list[tuple[str, str, str]] = [
     ("anywhere", "s", "site details (name, earthing, supply, rule set)"),
     ("anywhere", "v", "visits (add a visit)"),
     ("anywhere", "x", "export a report / test sheet"),
+    ("anywhere", "h", "compare two visits (readings side by side, findings new / gone)"),
+    ("anywhere", "o", "merge another copy of this site (from a second laptop)"),
     ("anywhere", "tab  shift+tab", "next / previous area"),
     ("anywhere", "q", "save and quit"),
     ("tree", "↑ ↓ ← →  space", "move, open and close branches"),
