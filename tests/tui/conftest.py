@@ -7,6 +7,7 @@ from pathlib import Path
 
 import pytest
 
+from model.site import SiteFile
 from model.store import load_site, save_site
 
 SAMPLES = Path(__file__).resolve().parents[2] / "sample_sites"
@@ -27,3 +28,9 @@ def oak_lane_no_visits(tmp_path: Path) -> Path:
     dest = tmp_path / "oak-fresh.json"
     save_site(site.model_copy(update={"visits": []}), dest)
     return dest
+
+
+@pytest.fixture
+def site(oak_lane: Path) -> SiteFile:
+    """The invented Oak Lane sample, loaded from a fresh copy."""
+    return load_site(oak_lane)

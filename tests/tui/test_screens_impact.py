@@ -7,37 +7,13 @@ the workshop board).  Lighting resilience is the principle of BS 7671 314.1 /
 
 from __future__ import annotations
 
-import shutil
-from pathlib import Path
-
-import pytest
-from textual.app import App
+from hosting import Host
 from textual.screen import Screen
 from textual.widgets import DataTable, Static
 
 from model.findings import CAUTION
 from model.site import SiteFile
-from model.store import load_site
 from tui.screens.impact import ImpactScreen
-
-SAMPLE = Path(__file__).resolve().parents[2] / "sample_sites" / "oak-lane-house.json"
-
-
-class Host(App[None]):
-    def __init__(self, screen: Screen[object]) -> None:
-        super().__init__()
-        self.modal = screen
-        self.results: list[object] = []
-
-    def on_mount(self) -> None:
-        self.push_screen(self.modal, self.results.append)
-
-
-@pytest.fixture()
-def site(tmp_path: Path) -> SiteFile:
-    dest = tmp_path / "site.json"
-    shutil.copy(SAMPLE, dest)
-    return load_site(dest)
 
 
 def rows(screen: Screen[object]) -> list[list[str]]:

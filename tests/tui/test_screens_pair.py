@@ -10,11 +10,7 @@ rc3's fastest (92 ms) show a margin; rb2 has no readings.
 
 from __future__ import annotations
 
-import shutil
-from pathlib import Path
-
-import pytest
-from textual.app import App
+from hosting import Host
 from textual.screen import Screen
 from textual.widgets import Static
 from textual_plotext import PlotextPlot
@@ -22,28 +18,8 @@ from textual_plotext import PlotextPlot
 from model.checks import analyse
 from model.findings import CAUTION
 from model.site import SiteFile
-from model.store import load_site
 from tui.screens.pair import PairScreen
 from tui.widgets.bandchart import BandChart
-
-SAMPLE = Path(__file__).resolve().parents[2] / "sample_sites" / "oak-lane-house.json"
-
-
-class Host(App[None]):
-    def __init__(self, screen: Screen[object]) -> None:
-        super().__init__()
-        self.modal = screen
-        self.results: list[object] = []
-
-    def on_mount(self) -> None:
-        self.push_screen(self.modal, self.results.append)
-
-
-@pytest.fixture()
-def site(tmp_path: Path) -> SiteFile:
-    dest = tmp_path / "site.json"
-    shutil.copy(SAMPLE, dest)
-    return load_site(dest)
 
 
 def shown(screen: Screen[object]) -> str:

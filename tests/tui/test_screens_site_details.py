@@ -6,37 +6,14 @@ nominal line-to-earth voltage of European low-voltage supplies (IEC 60038).
 
 from __future__ import annotations
 
-import shutil
-from pathlib import Path
-
 import pytest
-from textual.app import App
+from hosting import Host
 from textual.pilot import Pilot
 from textual.screen import Screen
 from textual.widgets import Input, Select, Static
 
 from model.site import SiteFile, SiteInfo
-from model.store import load_site
 from tui.screens.site_details import SiteDetailsScreen
-
-SAMPLE = Path(__file__).resolve().parents[2] / "sample_sites" / "oak-lane-house.json"
-
-
-class Host(App[None]):
-    def __init__(self, screen: Screen[object]) -> None:
-        super().__init__()
-        self.modal = screen
-        self.results: list[object] = []
-
-    def on_mount(self) -> None:
-        self.push_screen(self.modal, self.results.append)
-
-
-@pytest.fixture()
-def site(tmp_path: Path) -> SiteFile:
-    dest = tmp_path / "site.json"
-    shutil.copy(SAMPLE, dest)
-    return load_site(dest)
 
 
 async def retype(pilot: Pilot[None], screen: Screen[object], field: str, text: str) -> None:

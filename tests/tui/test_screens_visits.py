@@ -3,38 +3,15 @@
 from __future__ import annotations
 
 import datetime as dt
-import shutil
-from pathlib import Path
 
-import pytest
-from textual.app import App
-from textual.screen import Screen
+from hosting import Host
 from textual.widgets import DataTable, Input, Static
 
 from model.site import SiteFile, Visit
-from model.store import load_site
 from tui.screens.visits import VisitsScreen, new_visit_id
 
-SAMPLE = Path(__file__).resolve().parents[2] / "sample_sites" / "oak-lane-house.json"
 INSPECTOR = "T. Brackenridge (invented)"  # the sample's latest visit
 INSTRUMENT = "Multifunction tester (unnamed)"
-
-
-class Host(App[None]):
-    def __init__(self, screen: Screen[object]) -> None:
-        super().__init__()
-        self.modal = screen
-        self.results: list[object] = []
-
-    def on_mount(self) -> None:
-        self.push_screen(self.modal, self.results.append)
-
-
-@pytest.fixture()
-def site(tmp_path: Path) -> SiteFile:
-    dest = tmp_path / "site.json"
-    shutil.copy(SAMPLE, dest)
-    return load_site(dest)
 
 
 async def test_new_visit_by_keys_alone(site: SiteFile) -> None:
