@@ -132,6 +132,18 @@ class TripwiseApp(App[None]):
         self.site_name = session.site.site.name
         self.save_state = "read-only" if session.read_only else "saved"
 
+    def notify(
+        self,
+        message: str,
+        *,
+        title: str = "",
+        severity: Any = "information",
+        timeout: float | None = None,
+        markup: bool = False,
+    ) -> None:
+        """Notices carry user text (labels, file names): never read them as markup."""
+        super().notify(message, title=title, severity=severity, timeout=timeout, markup=False)
+
     def on_mount(self) -> None:
         if self.session is None:
             self.push_screen(

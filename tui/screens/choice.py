@@ -24,10 +24,10 @@ class ChoiceScreen(ModalScreen[str | None]):
 
     def compose(self) -> ComposeResult:
         with Vertical(classes="dialog"):
-            yield Label(self._title, classes="dialog-title")
+            yield Label(self._title, classes="dialog-title", markup=False)
             yield OptionList(*[Option(text, id=value) for text, value in self._options])
             if self._hint:
-                yield Label(self._hint, classes="dialog-hint")
+                yield Label(self._hint, classes="dialog-hint", markup=False)
 
     def on_mount(self) -> None:
         self.query_one(OptionList).focus()

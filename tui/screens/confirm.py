@@ -24,8 +24,8 @@ class ConfirmScreen(ModalScreen[bool]):
 
     def compose(self) -> ComposeResult:
         with Vertical(classes="dialog"):
-            yield Label(self._title, classes="dialog-title")
-            yield Static(self._body, classes="dialog-body")
+            yield Label(self._title, classes="dialog-title", markup=False)
+            yield Static(self._body, classes="dialog-body", markup=False)
             with Horizontal(classes="dialog-buttons"):
                 yield Button(f"{self._yes} (y)", id="yes", variant="warning")
                 yield Button(f"{self._no} (n)", id="no")

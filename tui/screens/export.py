@@ -53,23 +53,23 @@ class ExportScreen(ModalScreen[Path | None]):
 
     def compose(self) -> ComposeResult:
         with Vertical(id="export-box"):
-            yield Label("Export a document", id="export-title")
-            yield Static("", id="export-site")
+            yield Label("Export a document", id="export-title", markup=False)
+            yield Static("", id="export-site", markup=False)
             with Horizontal(id="export-choices"):
                 with Vertical(classes="export-column"):
-                    yield Label("Document", classes="export-label")
+                    yield Label("Document", classes="export-label", markup=False)
                     with RadioSet(id="export-kind"):
                         for i, k in enumerate(KINDS):
                             yield RadioButton(KIND_TITLE[k], value=i == 0, id=f"kind-{k}")
                 with Vertical(classes="export-column"):
-                    yield Label("Format", classes="export-label")
+                    yield Label("Format", classes="export-label", markup=False)
                     with RadioSet(id="export-format"):
                         for i, f in enumerate(FORMATS):
                             yield RadioButton(FORMAT_TITLE[f], value=i == 0, id=f"format-{f}")
-            yield Label("File", classes="export-label")
+            yield Label("File", classes="export-label", markup=False)
             yield Input(id="export-target")
-            yield Static("", id="export-status")
-            yield Static(STATEMENT, id="export-statement")
+            yield Static("", id="export-status", markup=False)
+            yield Static(STATEMENT, id="export-statement", markup=False)
             with Horizontal(id="export-buttons"):
                 yield Button("Write", id="export-write", variant="primary")
                 yield Button("Cancel", id="export-cancel")

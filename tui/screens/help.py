@@ -63,10 +63,10 @@ class HelpScreen(ModalScreen[None]):
         for where, keys, what in KEY_MAP:
             table.add_row(where, keys, what)
         with Vertical(classes="dialog wide"):
-            yield Label("Keys", classes="dialog-title")
+            yield Label("Keys", classes="dialog-title", markup=False)
             with VerticalScroll():
-                yield Static(table)
-            yield Static(Text("escape closes", style="#8fa7b3"))
+                yield Static(table, markup=False)
+            yield Static(Text("escape closes", style="#8fa7b3"), markup=False)
 
     def action_close(self) -> None:
         self.dismiss(None)

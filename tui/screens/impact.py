@@ -80,6 +80,7 @@ class ImpactScreen(ModalScreen[None]):
                     style="bold",
                 ),
                 id="impact-title",
+                markup=False,
             )
             yield Static(
                 f"{self.device_id} · {device_text(node)} · on {idx.board_label(self.device_id)}",
@@ -104,9 +105,8 @@ class ImpactScreen(ModalScreen[None]):
         table = self.query_one("#impact-lost", DataTable)
         table.add_columns("id", "circuit", "board", "use")
         for c in self.impact.lost:
-            table.add_row(
-                c, self.index.label(c), self.index.board_label(c), self.index.node(c).use, key=c
-            )
+            cells = (c, self.index.label(c), self.index.board_label(c), self.index.node(c).use)
+            table.add_row(*(Text(x) for x in cells), key=c)
         table.display = bool(self.impact.lost)
         if self.impact.lost:
             table.focus()

@@ -48,17 +48,23 @@ class NodeEditorScreen(ModalScreen[str | None]):
     def compose(self) -> ComposeResult:
         verb = "New" if self._new else "Edit"
         with Vertical(classes="dialog wide", id="node-form"):
-            yield Label(f"{verb} {KIND_TITLES.get(self._kind, self._kind)}", classes="dialog-title")
-            yield Static("", id="form-error", classes="field-error")
+            yield Label(
+                f"{verb} {KIND_TITLES.get(self._kind, self._kind)}",
+                classes="dialog-title",
+                markup=False,
+            )
+            yield Static("", id="form-error", classes="field-error", markup=False)
             with VerticalScroll(id="form-fields"):
                 for spec in self._specs:
                     with Horizontal(classes="form-row"):
                         unit = f" [{spec.unit}]" if spec.unit else ""
                         need = " *" if spec.required else ""
-                        yield Label(f"{spec.title}{unit}{need}", classes="form-label")
+                        yield Label(f"{spec.title}{unit}{need}", classes="form-label", markup=False)
                         with Vertical(classes="form-cell"):
                             yield self._widget_for(spec)
-                            yield Static("", id=f"err-{spec.name}", classes="field-error")
+                            yield Static(
+                                "", id=f"err-{spec.name}", classes="field-error", markup=False
+                            )
             with Horizontal(classes="dialog-buttons"):
                 yield Button("Apply (ctrl+s)", id="apply", variant="primary")
                 yield Button("Cancel (esc)", id="cancel")

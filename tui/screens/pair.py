@@ -142,6 +142,7 @@ class PairScreen(ModalScreen[None]):
                     style="bold",
                 ),
                 id="pair-title",
+                markup=False,
             )
             with ScrollableContainer(id="pair-body"):
                 with Vertical(id="pair-text"):
@@ -149,7 +150,7 @@ class PairScreen(ModalScreen[None]):
                         row = Text()
                         row.append(f"{heading}: ", style="bold")
                         row.append(text)
-                        yield Static(row, classes=f"pair-row {cls}".strip())
+                        yield Static(row, classes=f"pair-row {cls}".strip(), markup=False)
                 if self.chart is not None:
                     yield BandChart(id="pair-chart")
                 else:

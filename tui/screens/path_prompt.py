@@ -21,10 +21,10 @@ class PathPromptScreen(ModalScreen[str | None]):
 
     def compose(self) -> ComposeResult:
         with Vertical(classes="dialog"):
-            yield Label(self._title, classes="dialog-title")
-            yield Static(self._body, classes="dialog-body")
+            yield Label(self._title, classes="dialog-title", markup=False)
+            yield Static(self._body, classes="dialog-body", markup=False)
             yield Input(value=self._start, id="path", placeholder="/path/to/copy.json")
-            yield Static("Enter to merge · Esc to cancel", classes="dialog-body")
+            yield Static("Enter to merge · Esc to cancel", classes="dialog-body", markup=False)
 
     def on_mount(self) -> None:
         self.query_one("#path", Input).focus()

@@ -90,15 +90,16 @@ class ReadingScreen(Screen[None]):
     def compose(self) -> ComposeResult:
         yield TopBar(id="top-bar")
         with Vertical(id="reading-body"):
-            yield Static("", id="rd-device")
+            yield Static("", id="rd-device", markup=False)
             yield ReadingPad(self, _PAD_FIELDS, _CHOICES, id="reading-pad")
-            yield Static("", id="rd-status")
+            yield Static("", id="rd-status", markup=False)
             yield Static(
                 "digits ⏎ next · n did not trip · w/f button · a/h/d current · "
                 "⏎ on note: next device · req = required by the rule set",
                 id="rd-hint",
+                markup=False,
             )
-            yield Static(LIVE_TEST_CAUTION, id="rd-live")
+            yield Static(LIVE_TEST_CAUTION, id="rd-live", markup=False)
         yield CautionBar(id="caution")
         yield KeyBar(id="key-bar")
 

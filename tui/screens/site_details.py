@@ -129,7 +129,7 @@ class SiteDetailsScreen(ModalScreen[SiteInfo | None]):
     def compose(self) -> ComposeResult:
         info = self.info
         with Vertical(id="site-box"):
-            yield Static("Site details", id="site-title")
+            yield Static("Site details", id="site-title", markup=False)
             with VerticalScroll(id="site-form"):
                 for key in ("name", "address", "client"):
                     yield from self._row(

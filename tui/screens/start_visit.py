@@ -28,9 +28,11 @@ class StartVisitScreen(ModalScreen[Visit | None]):
 
     def compose(self) -> ComposeResult:
         with Vertical(classes="dialog"):
-            yield Label("Start a visit", classes="dialog-title")
+            yield Label("Start a visit", classes="dialog-title", markup=False)
             yield Static(
-                "Readings are recorded on a visit. There is none yet.", classes="dialog-body"
+                "Readings are recorded on a visit. There is none yet.",
+                classes="dialog-body",
+                markup=False,
             )
             for name, title, value in (
                 ("date", "Date (YYYY-MM-DD)", self._today.isoformat()),
@@ -38,9 +40,9 @@ class StartVisitScreen(ModalScreen[Visit | None]):
                 ("instrument", "Instrument", ""),
             ):
                 with Horizontal(classes="form-row"):
-                    yield Label(title, classes="form-label")
+                    yield Label(title, classes="form-label", markup=False)
                     yield Input(value, id=f"v-{name}", compact=True)
-            yield Static("", id="visit-error", classes="field-error")
+            yield Static("", id="visit-error", classes="field-error", markup=False)
 
     def on_mount(self) -> None:
         self.query_one("#v-date", Input).focus()

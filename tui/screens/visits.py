@@ -6,6 +6,7 @@ import datetime as dt
 from collections.abc import Iterable
 
 from pydantic import ValidationError
+from rich.text import Text
 from textual import on
 from textual.app import ComposeResult
 from textual.binding import Binding
@@ -47,15 +48,16 @@ class VisitsScreen(ModalScreen[Visit | None]):
     def compose(self) -> ComposeResult:
         last = self.last
         with Vertical(id="visits-box"):
-            yield Static("Visits", id="visits-title")
+            yield Static("Visits", id="visits-title", markup=False)
             if self.site.visits:
                 yield DataTable(id="visits-table", cursor_type="row", zebra_stripes=True)
             else:
-                yield Static("No visits recorded yet.", id="visits-none")
+                yield Static("No visits recorded yet.", id="visits-none", markup=False)
             yield Static(
                 "Start a new visit: it begins with no readings; earlier visits keep theirs "
                 "for comparison.",
                 id="visits-new-title",
+                markup=False,
             )
             defaults = {
                 "date": dt.date.today().isoformat(),
@@ -81,7 +83,11 @@ class VisitsScreen(ModalScreen[Visit | None]):
             table.add_columns("date", "id", "readings", "inspector", "instrument")
             for v in self.site.visits:
                 table.add_row(
-                    v.date, v.id, str(len(v.readings)), v.inspector, v.instrument, key=v.id
+                    *(
+                        Text(x)
+                        for x in (v.date, v.id, str(len(v.readings)), v.inspector, v.instrument)
+                    ),
+                    key=v.id,
                 )
         self.query_one("#v-date", Input).focus()
 

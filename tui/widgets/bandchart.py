@@ -144,7 +144,7 @@ class BandChart(Widget):
 
     def compose(self) -> ComposeResult:
         yield PlotextPlot()
-        yield Static(classes="bandchart--legend")
+        yield Static(classes="bandchart--legend", markup=False)
 
     def watch_chart(self, chart: PairChart | None) -> None:
         if not self.is_mounted:

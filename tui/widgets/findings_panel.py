@@ -81,10 +81,10 @@ class FindingsPanel(Vertical):
 
     def compose(self) -> ComposeResult:
         with Horizontal(id="findings-bar"):
-            yield Static("Findings", id="findings-title")
-            yield Static("", id="filter-severity", classes="filter-chip")
-            yield Static("", id="filter-board", classes="filter-chip")
-            yield Static("", id="findings-count")
+            yield Static("Findings", id="findings-title", markup=False)
+            yield Static("", id="filter-severity", classes="filter-chip", markup=False)
+            yield Static("", id="filter-board", classes="filter-chip", markup=False)
+            yield Static("", id="findings-count", markup=False)
         table = FindingsTable(id="findings-table", cursor_type="row", zebra_stripes=True)
         yield table
 

@@ -20,9 +20,9 @@ class TopBar(Horizontal):
     """Shows the site name and the save state; follows the app's reactives."""
 
     def compose(self) -> ComposeResult:
-        yield Static(Text("tripwise", style="bold"), id="brand")
-        yield Static("", id="site-name")
-        yield Static("", id="save-state")
+        yield Static(Text("tripwise", style="bold"), id="brand", markup=False)
+        yield Static("", id="site-name", markup=False)
+        yield Static("", id="save-state", markup=False)
 
     def on_mount(self) -> None:
         self.watch(self.app, "site_name", self._show_name)
