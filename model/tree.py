@@ -20,7 +20,6 @@ class SiteIndex:
     by_id: dict[str, Any] = field(default_factory=dict)
     children: dict[str, list[str]] = field(default_factory=dict)
     order: list[str] = field(default_factory=list)
-    depth: dict[str, int] = field(default_factory=dict)
     #: Protective residual-current devices above each node, nearest first (RCMs excluded).
     rcd_above: dict[str, tuple[str, ...]] = field(default_factory=dict)
     #: The nearest board above (or at) each node; the origin where there is none.
@@ -35,35 +34,39 @@ class SiteIndex:
         idx = cls(site=site)
         idx.by_id = {n.id: n for n in site.nodes}
         idx.children = {n.id: [] for n in site.nodes}
-        root: str | None = None
+        kids: dict[str, list[Any]] = {}
+        root: Any = None
         for n in site.nodes:
             if n.parent is None:
-                root = n.id
+                root = n
             else:
                 idx.children[n.parent].append(n.id)
+                kids.setdefault(n.parent, []).append(n)
         if root is None:
             return idx
-        stack: list[tuple[str, int, tuple[str, ...], tuple[str, ...], str]] = [
-            (root, 0, (), (), root)
-        ]
+        order, rcd_list, circuit_list = idx.order, idx._rcds, idx._circuits
+        rcd_above, ocpd_above, board_of = idx.rcd_above, idx.ocpd_above, idx.board_of
+        stack: list[tuple[Any, tuple[str, ...], tuple[str, ...], str]] = [(root, (), (), root.id)]
         while stack:
-            nid, d, rcds, ocpds, board = stack.pop()
-            node = idx.by_id[nid]
-            idx.order.append(nid)
-            if node.kind in RCD_KINDS:
-                idx._rcds.append(nid)
-            elif node.kind == "circuit":
-                idx._circuits.append(nid)
-            idx.depth[nid] = d
-            idx.rcd_above[nid] = rcds
-            idx.ocpd_above[nid] = ocpds
-            if node.kind == "board":
+            node, rcds, ocpds, board = stack.pop()
+            nid, kind = node.id, node.kind
+            order.append(nid)
+            rcd_above[nid] = rcds
+            ocpd_above[nid] = ocpds
+            if kind in RCD_KINDS:
+                rcd_list.append(nid)
+                rcds = (nid, *rcds)
+            elif kind == "circuit":
+                circuit_list.append(nid)
+            elif kind == "board":
                 board = nid
-            idx.board_of[nid] = board
-            child_rcds = (nid, *rcds) if node.kind in RCD_KINDS else rcds
-            child_ocpds = (nid, *ocpds) if node.kind in OVERCURRENT_KINDS else ocpds
-            for c in reversed(idx.children[nid]):
-                stack.append((c, d + 1, child_rcds, child_ocpds, board))
+            board_of[nid] = board
+            if kind in OVERCURRENT_KINDS:
+                ocpds = (nid, *ocpds)
+            below = kids.get(nid)
+            if below:
+                for c in reversed(below):
+                    stack.append((c, rcds, ocpds, board))
         return idx
 
     @property

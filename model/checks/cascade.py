@@ -28,31 +28,30 @@ def series_pairs(ctx: Context) -> list[tuple[str, str]]:
 
 
 def largest_fault_ma(ctx: Context) -> dict[str, float]:
-    """Largest prospective earth-fault current below each node. [mA]
+    """Largest prospective earth-fault current below each protective RCD. [mA]
 
     U0 / Zs of the lowest Zs measured on a circuit below; where none is
     measured, U0 / RA in TT, U0 / Ze otherwise, and 500 A where nothing is
     known.
     """
     idx = ctx.index
-    u0 = ctx.site.site.u0_v
-    min_zs: dict[str, float] = {}
-    for nid in reversed(idx.order):
-        node = idx.by_id[nid]
-        best = float("inf")
-        if node.kind == "circuit" and node.zs_ohm is not None:
-            best = float(node.zs_ohm)
-        for c in idx.children[nid]:
-            best = min(best, min_zs.get(c, float("inf")))
-        min_zs[nid] = best
     info = ctx.site.site
+    u0 = info.u0_v
+    inf = float("inf")
+    min_zs: dict[str, float] = dict.fromkeys(idx.rcds(), inf)
+    for c in idx.circuits():
+        zs = idx.by_id[c].zs_ohm
+        if zs is not None:
+            for r in idx.rcd_above[c]:
+                if zs < min_zs[r]:
+                    min_zs[r] = float(zs)
     if info.earthing == "TT" and info.ra_ohm is not None:
         fallback = u0 / info.ra_ohm * 1000.0
     elif info.earthing != "TT" and info.ze_ohm is not None:
         fallback = u0 / info.ze_ohm * 1000.0
     else:
         fallback = DEFAULT_MAX_FAULT_A.value * 1000.0
-    return {nid: (u0 / z * 1000.0 if z != float("inf") else fallback) for nid, z in min_zs.items()}
+    return {r: (u0 / z * 1000.0 if z != inf else fallback) for r, z in min_zs.items()}
 
 
 def _delayed(node: Any) -> bool:

@@ -263,15 +263,17 @@ def check_no_overcurrent(ctx: Context) -> Iterator[Finding]:
 
 
 def leakage_below(ctx: Context) -> dict[str, float]:
-    """Sum of the circuits' estimated standing leakage below each node. [mA]"""
+    """Sum of the circuits' estimated standing leakage below each protective RCD. [mA]
+
+    Leakage below a downstream device passes through every device above it too.
+    """
     idx = ctx.index
-    total: dict[str, float] = {}
-    for nid in reversed(idx.order):
-        node = idx.by_id[nid]
-        s = float(getattr(node, "leakage_ma", None) or 0.0) if node.kind == "circuit" else 0.0
-        for c in idx.children[nid]:
-            s += total[c]
-        total[nid] = s
+    total: dict[str, float] = dict.fromkeys(idx.rcds(), 0.0)
+    for c in idx.circuits():
+        leak = idx.by_id[c].leakage_ma
+        if leak:
+            for r in idx.rcd_above[c]:
+                total[r] += float(leak)
     return total
 
 
