@@ -159,6 +159,8 @@ class FindingsPanel(Vertical):
         total = len(self._findings)
         count = f"{len(shown)} of {total}" if len(shown) != total else f"{total}"
         self.query_one("#findings-count", Static).update(count)
+        # a short list leaves the rest of a tall screen to the tree (border, bar, header)
+        self.styles.max_height = max(6, len(shown) + 5)
 
     @on(DataTable.RowHighlighted, "#findings-table")
     def _row_highlighted(self, event: DataTable.RowHighlighted) -> None:
