@@ -160,7 +160,7 @@ class Analysis:
 def fmt_ma(value_ma: float) -> str:
     """A residual current for people: '150 mA', '5 A', '1.5 A'."""
     if value_ma >= 1000:
-        return f"{value_ma / 1000:g} A"
+        return f"{value_ma / 1000:.4g} A"
     return f"{value_ma:.3g} mA" if value_ma < 10 else f"{value_ma:.0f} mA"
 
 

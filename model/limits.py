@@ -226,6 +226,21 @@ RULE_SETS: dict[str, RuleSet] = {
 }
 
 
+#: Installation-rule sources quoted under the generic IEC rule set, by rule id.
+#: BS 7671 follows the IEC 60364 clause numbering for these parts; the IEC
+#: clause numbers are from memory (not checked against the IEC text), so they
+#: are stated as such, and the rules keep the basis they have under BS 7671.
+IEC_INSTALLATION_SOURCES: dict[str, str] = {
+    "cascade.upstream-not-delayed": "IEC 60364-5-53 536.4 (clause from memory; common practice worldwide)",
+    "cascade.ratio-below-3": "IEC 60364-5-53 536.4 (clause from memory; common practice worldwide)",
+    "type.dc-load": "IEC 60364-5-53 531.3.3; IEC 60364-7-722 531.3.101 (clauses from memory)",
+    "leakage.over-30pct": "IEC 60364-5-53 531.3.2 (clause from memory; BS 7671 531.3.2(iii) wording)",
+    "resilience.lighting-single-rcd": "IEC 60364-3 314 (division of installation)",
+    "earthing.zs-limit": "IEC 60364-4-41 411.5.3 (50 V / IΔn; tabulated as BS 7671 Table 41.5)",
+    "earthing.ra-unstable": "BS 7671 Table 41.5 Note 2 (no IEC equivalent known; guidance)",
+}
+
+
 def rule_set(name: str) -> RuleSet:
     """The rule set of this name; a clear error for an unknown one."""
     try:

@@ -8,6 +8,7 @@ case and a near miss in ``tests/model``.
 
 from __future__ import annotations
 
+import dataclasses
 import gc
 from collections.abc import Callable, Iterable
 
@@ -25,6 +26,7 @@ from model.checks.earthing import check_earthing
 from model.checks.readings import check_readings
 from model.checks.trend import check_trend
 from model.findings import Analysis, Finding
+from model.limits import IEC_INSTALLATION_SOURCES
 from model.site import SiteFile
 
 Check = Callable[[Context], Iterable[Finding]]
@@ -58,11 +60,22 @@ def analyse(site: SiteFile) -> Analysis:
         findings: list[Finding] = []
         for check in CHECKS:
             findings.extend(check(ctx))
+        if ctx.rules.name == "iec-60364":
+            findings = [_iec_source(f) for f in findings]
         findings.sort(key=Finding.sort_key)
         return Analysis(rules=site.site.rules, findings=findings, pairs=ctx.pairs)
     finally:
         if paused:
             gc.enable()
+
+
+def _iec_source(f: Finding) -> Finding:
+    """The finding with the IEC 60364 source of its installation rule, where one is known."""
+    src = IEC_INSTALLATION_SOURCES.get(f.rule)
+    if src is None:
+        return f
+    basis = "guidance" if f.rule == "earthing.ra-unstable" else f.basis
+    return dataclasses.replace(f, source=src, basis=basis)
 
 
 __all__ = ["analyse", "CHECKS", "Context"]

@@ -335,3 +335,16 @@ def test_latest_visit_is_judged() -> None:
         run(nodes, [old, visit({"r": {"x1_0": "did not trip"}}, id="c", date="2026-02-02")]),
         "reading.no-trip",
     )
+
+
+def test_iec_rule_set_quotes_iec_60364_for_installation_rules() -> None:
+    nodes = [
+        rcd("r", "o", 30, rated_a=63),
+        node("m", "r", "mcb", rated_a=20.0),
+        circuit("c1", "m", "fixed-equipment", leakage_ma=10.0),
+    ]
+    # BS 7671 531.3.2(iii) under the UK rule set; IEC 60364-5-53 531.3.2 (clause from memory) under IEC
+    (uk,) = rules_of(run(nodes), "leakage.over-30pct")
+    (iec,) = rules_of(run(nodes, rules="iec-60364"), "leakage.over-30pct")
+    assert uk.source == "BS 7671 531.3.2(iii)"
+    assert iec.source.startswith("IEC 60364-5-53 531.3.2") and "from memory" in iec.source
