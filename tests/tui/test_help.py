@@ -32,3 +32,17 @@ async def test_f1_opens_help(oak_lane: Path) -> None:
         assert isinstance(app.screen, HelpScreen)
         await pilot.press("escape")
         assert not isinstance(app.screen, HelpScreen)
+
+
+async def test_key_bar_follows_the_focus(oak_lane: Path) -> None:
+    from tui.widgets.key_bar import KeyBar
+
+    app = make_app(oak_lane)
+    async with app.run_test(size=(160, 40)) as pilot:
+        await app.settle()
+        bar = app.main.query_one(KeyBar)
+        assert "Readings" in bar.render().plain  # type: ignore[attr-defined]
+        await pilot.press("f")
+        await pilot.pause()
+        text = bar.render().plain  # type: ignore[attr-defined]
+        assert "Severity filter" in text and "Readings" not in text

@@ -9,16 +9,15 @@ from textual.widgets import Static
 
 
 class KeyBar(Static):
-    """Follows the screen's active bindings; redrawn when focus or bindings change."""
+    """Follows the screen's active bindings; redrawn whenever the focus moves.
+
+    In this app the keys that apply change only with the focused widget.
+    """
 
     def on_mount(self) -> None:
-        self.screen.bindings_updated_signal.subscribe(self, self._bindings_changed)
-        self._show()
+        self.watch(self.screen, "focused", self._focus_moved)
 
-    def on_unmount(self) -> None:
-        self.screen.bindings_updated_signal.unsubscribe(self)
-
-    def _bindings_changed(self, _screen: Any) -> None:
+    def _focus_moved(self, _focused: Any) -> None:
         self._show()
 
     def _show(self) -> None:
