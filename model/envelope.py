@@ -8,7 +8,8 @@ so):
 * maximum break time at IΔ: the value of the largest tabulated current <= IΔ;
   below IΔn a trip is not guaranteed at all (infinite);
 * minimum non-actuating time at IΔ: the value of the smallest tabulated current
-  >= IΔ; below IΔn the value at IΔn (an assumption); at or below the
+  >= IΔ; below IΔn the value at IΔn (an assumption); where two columns fall at
+  one current (5 IΔn = 5 A for IΔn = 1 A) the shorter time; at or below the
   non-operating current 0.5 IΔn the device cannot trip (infinite).  A general
   device has no minimum (zero).
 
@@ -101,6 +102,14 @@ class DeviceArrays:
         tab = np.take_along_axis(tab, order, axis=1)
         tmax = np.take_along_axis(tmax, order, axis=1).reshape(p, t)
         tmin = np.take_along_axis(tmin, order, axis=1).reshape(p, t)
+        # Two columns at one current (5 IΔn = 5 A for IΔn = 1 A): read the
+        # conservative value, the shorter minimum and the longer maximum.
+        for j in range(t):
+            for k in range(t):
+                if j != k:
+                    tie = tab[:, j] == tab[:, k]
+                    tmin[:, j] = np.where(tie, np.minimum(tmin[:, j], tmin[:, k]), tmin[:, j])
+                    tmax[:, j] = np.where(tie, np.maximum(tmax[:, j], tmax[:, k]), tmax[:, j])
         return cls(idn_ma=idn, tab_ma=tab.reshape(p, t), tab_max_ms=tmax, tab_min_ms=tmin)
 
 

@@ -33,8 +33,8 @@ def scalar_max_break(idn: float, delay: str, i: float) -> float:
     ok = [c for c in cols(idn) if c[0] <= i]
     if not ok:
         return math.inf
-    c = ok[-1]
-    return c[2] if delay == "S" else c[1]
+    at = [c for c in ok if c[0] == ok[-1][0]]  # columns tied at one current: the longer time
+    return max(c[2] if delay == "S" else c[1] for c in at)
 
 
 def scalar_min_nonact(idn: float, delay: str, i: float) -> float:
@@ -42,9 +42,9 @@ def scalar_min_nonact(idn: float, delay: str, i: float) -> float:
         return math.inf
     if delay != "S":
         return 0.0
-    ge = [c for c in cols(idn) if c[0] >= i]
-    c = ge[0] if ge else cols(idn)[-1]
-    return c[3]
+    ge = [c for c in cols(idn) if c[0] >= i] or cols(idn)[-1:]
+    at = [c for c in ge if c[0] == ge[0][0]]  # columns tied at one current: the shorter time
+    return min(c[3] for c in at)
 
 
 IDN = st.sampled_from([10.0, 30.0, 100.0, 300.0, 500.0, 1000.0])
