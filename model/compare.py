@@ -15,7 +15,7 @@ from typing import Any, Literal
 from model.checks import analyse
 from model.findings import CAUTION, Finding
 from model.history import cut_at, find_visit, ordered_visits
-from model.readings import fmt_result
+from model.readings import fmt_value
 from model.site import DID_NOT_TRIP, TEST_NAMES, Reading, SiteFile, Visit
 from model.tree import SiteIndex
 
@@ -263,16 +263,6 @@ def compare_visits(
     )
 
 
-def _show(key: str, v: float | str | None) -> str:
-    if v is None:
-        return "—"
-    if key in TEST_NAMES:
-        return fmt_result(v)
-    if key == "ramp_ma" and not isinstance(v, str):
-        return f"{v:g} mA"
-    return str(v)
-
-
 def change_text(v: ValueChange) -> str:
     """The change of one value for people: '+11 ms (+55 %)', 'new', 'now did not trip'."""
     if v.change is not None:
@@ -309,7 +299,7 @@ def compare_text(cmp: VisitComparison, width: int = 100) -> str:
         lines.append(f"  {d.label} ({d.device}){tag}")
         for v in d.values:
             lines.append(
-                f"    {v.key:<10} {_show(v.key, v.old):>14} → {_show(v.key, v.new):<14} "
+                f"    {v.key:<10} {fmt_value(v.key, v.old):>14} → {fmt_value(v.key, v.new):<14} "
                 f"{change_text(v)}"
             )
     if cmp.untested:

@@ -243,6 +243,17 @@ def fmt_result(value: float | str | None) -> str:
     return f"{value:g} ms" if math.isfinite(value) else "—"
 
 
+def fmt_value(key: str, value: float | str | None) -> str:
+    """Any recorded value of a reading for people, by its key: '24 ms', 'did not trip', '23 mA'."""
+    if value is None:
+        return "—"
+    if key in TEST_NAMES:
+        return fmt_result(value)
+    if key == "ramp_ma" and not isinstance(value, str):
+        return f"{value:g} mA"
+    return str(value)
+
+
 def judge_reading(node: Any, reading: Any, rules: str) -> dict[str, Judgement]:
     """Every recorded value of one reading judged against its band (keys: test names, 'ramp_ma', 'button')."""
     out: dict[str, Judgement] = {}

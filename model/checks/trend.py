@@ -8,7 +8,7 @@ from typing import Any
 from model.checks.context import Context
 from model.findings import Finding
 from model.history import visits_before
-from model.readings import GROUP_TITLE, group_of, judge_reading, ramp_band, time_band
+from model.readings import GROUP_TITLE, fmt_value, group_of, judge_reading, ramp_band, time_band
 from model.site import DID_NOT_TRIP, TEST_NAMES, Reading, Visit
 
 #: The tests a device must trip on; a growing trip time there means something.
@@ -153,8 +153,8 @@ def _newly_failing(
         return
     label = ctx.index.label(dev)
     keys = [k for k, _ in failing]
-    then_vals = ", ".join(f"{k} {_show(prev, k)}" for k in keys)
-    now_vals = ", ".join(f"{k} {_show(reading, k)}" for k in keys)
+    then_vals = ", ".join(f"{k} {fmt_value(k, getattr(prev, k))}" for k in keys)
+    now_vals = ", ".join(f"{k} {fmt_value(k, getattr(reading, k))}" for k in keys)
     flags = sorted({str(j.flag) for _, j in failing})
     yield Finding(
         rule="reading.trend",
@@ -175,17 +175,6 @@ def _newly_failing(
         band="; ".join(_band_text(ctx, node, reading, k) for k in keys),
         visit=latest.id,
     )
-
-
-def _show(reading: Reading, key: str) -> str:
-    v = getattr(reading, key)
-    if v is None:
-        return "—"
-    if key == "ramp_ma":
-        return f"{v:g} mA"
-    if key == "button":
-        return str(v)
-    return DID_NOT_TRIP if v == DID_NOT_TRIP else f"{v:g} ms"
 
 
 def _band_text(ctx: Context, node: Any, reading: Reading, key: str) -> str:

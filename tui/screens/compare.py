@@ -13,18 +13,8 @@ from textual.widgets import DataTable, Static
 from model.compare import CompareError, VisitComparison, change_text, compare_visits
 from model.findings import CAUTION
 from model.history import visit_ids
-from model.readings import fmt_result
-from model.site import TEST_NAMES, SiteFile
-
-
-def _show(key: str, value: float | str | None) -> str:
-    if value is None:
-        return "—"
-    if key in TEST_NAMES:
-        return fmt_result(value)
-    if key == "ramp_ma" and not isinstance(value, str):
-        return f"{value:g} mA"
-    return str(value)
+from model.readings import fmt_value
+from model.site import SiteFile
 
 
 class CompareScreen(ModalScreen[None]):
@@ -102,8 +92,8 @@ class CompareScreen(ModalScreen[None]):
                 table.add_row(
                     Text(name),
                     Text(v.key),
-                    Text(_show(v.key, v.old)),
-                    Text(_show(v.key, v.new)),
+                    Text(fmt_value(v.key, v.old)),
+                    Text(fmt_value(v.key, v.new)),
                     Text(change_text(v)),
                     key=f"{d.device}:{v.key}",
                 )
