@@ -121,3 +121,18 @@ async def test_not_tested_with_a_reason(oak_lane_no_visits: Path) -> None:
         await pilot.press("ctrl+s")
     reading = load_site(oak_lane_no_visits).latest_visit().readings["rc3"]  # type: ignore[union-attr]
     assert reading.not_tested == "no access" and not reading.has_values()
+
+
+async def test_header_count_and_units_follow_the_entry(oak_lane: Path) -> None:
+    app = make_app(oak_lane)
+    async with app.run_test(size=(120, 40)) as pilot:
+        await app.settle()
+        await pilot.press("r")  # the one untested device of the sample, RCBO W2
+        screen = app.screen
+        assert isinstance(screen, ReadingScreen)
+        header = screen.query_one("#rd-device").render().plain  # type: ignore[attr-defined]
+        assert "1 untested" in header
+        await pilot.press("n", "n", "2", "4", "enter")
+        header = screen.query_one("#rd-device").render().plain  # type: ignore[attr-defined]
+        assert "0 untested" in header
+        assert "24 ms" in screen.pad.render().plain  # the unit beside a value once entered

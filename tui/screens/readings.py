@@ -256,8 +256,11 @@ class ReadingScreen(Screen[None]):
         """Enter (or a one-key value) on a field: record, then move on."""
         if name == "not_tested":
             return self._record_not_tested()
+        was_untested = is_untested(self._app.site.latest_visit(), self.device_id)
         if not self._commit(name):
             return False
+        if was_untested and not is_untested(self._app.site.latest_visit(), self.device_id):
+            self._show_header()  # the count of untested devices has just gone down
         i = FIELDS.index(name)
         if i + 1 < len(FIELDS):
             self.pad.go(FIELDS[i + 1])

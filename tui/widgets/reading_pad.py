@@ -101,7 +101,9 @@ class ReadingPad(Widget, can_focus=True):
                     f"[{v}]" if v == value else f"{k}:{v[:4]}" for k, v in self.choices[name]
                 )
             else:
-                shown = value + ("▏" if here else "")
+                unit = " ms" if kind == "time" else (" mA" if name == "ramp_ma" else "")
+                typed_number = value and value != DID_NOT_TRIP
+                shown = value + ("▏" if here else (unit if typed_number else ""))
             line.append(
                 shown[: value_w - 1].ljust(value_w), style="on #3a3220" if here else "on #1e2a32"
             )
