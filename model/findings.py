@@ -164,5 +164,13 @@ def fmt_ma(value_ma: float) -> str:
     return f"{value_ma:.3g} mA" if value_ma < 10 else f"{value_ma:.0f} mA"
 
 
+def device_text(node: Any) -> str:
+    """A residual-current device's rating for people: '30 mA, Type A, general'."""
+    delay = {"general": "general", "S": "type S", "set": "set delay"}[str(node.delay)]
+    if str(node.delay) == "set" and getattr(node, "delay_ms", None) is not None:
+        delay += f" {node.delay_ms:g} ms"
+    return f"{node.idn_ma:g} mA, Type {node.waveform}, {delay}"
+
+
 def fmt_ms(value_ms: float) -> str:
     return f"{value_ms:g} ms"

@@ -29,7 +29,7 @@ import numpy as np
 from model import __version__
 from model.checks import analyse
 from model.envelope import DeviceCurve, band_curve
-from model.findings import CAUTION, SEVERITIES, Analysis, CurrentRange, Finding
+from model.findings import CAUTION, SEVERITIES, Analysis, CurrentRange, Finding, device_text
 from model.limits import BREAK_TIMES, NON_OPERATING_FRACTION, rule_set
 from model.readings import (
     GROUP_TITLE,
@@ -267,13 +267,6 @@ class RemedialDoc:
         return [i for g in self.groups for i in g.items]
 
 
-def _device_text(node: Any) -> str:
-    delay = {"general": "general", "S": "type S", "set": "set delay"}[str(node.delay)]
-    if str(node.delay) == "set" and getattr(node, "delay_ms", None) is not None:
-        delay += f" {node.delay_ms:g} ms"
-    return f"{node.idn_ma:g} mA, Type {node.waveform}, {delay}"
-
-
 def _chart_pairs(analysis: Analysis) -> list[tuple[str, str]]:
     """Series pairs named by a ``cascade.*`` finding, in order of first mention."""
     out: list[tuple[str, str]] = []
@@ -346,8 +339,8 @@ def pair_chart(
         down_id=down,
         up_label=clean(idx.label(up)),
         down_label=clean(idx.label(down)),
-        up_text=_device_text(un),
-        down_text=_device_text(dn),
+        up_text=device_text(un),
+        down_text=device_text(dn),
         currents_ma=_tuple(grid),
         up_min_ms=_tuple(u_min),
         up_max_ms=_tuple(u_max),
@@ -557,7 +550,7 @@ def build_sheet(site: SiteFile, *, generated: dt.datetime | None = None) -> Shee
                 idn_ma=float(node.idn_ma),
                 waveform_type=str(node.waveform),
                 delay=str(node.delay),
-                type_text=_device_text(node),
+                type_text=device_text(node),
                 recorded=reading is not None,
                 not_tested=None
                 if reading is None or reading.not_tested is None

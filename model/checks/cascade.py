@@ -7,7 +7,14 @@ from typing import Any
 
 from model.checks.context import Context
 from model.envelope import DeviceCurve, pair_bands, unsafe_ranges
-from model.findings import CurrentRange, Finding, MeasuredMargin, PairAnalysis, fmt_ma
+from model.findings import (
+    CurrentRange,
+    Finding,
+    MeasuredMargin,
+    PairAnalysis,
+    device_text,
+    fmt_ma,
+)
 from model.limits import CASCADE_RATIO, DEFAULT_MAX_FAULT_A, IEC_61008_T1
 from model.site import DID_NOT_TRIP
 
@@ -184,11 +191,6 @@ def analyse_pairs(ctx: Context) -> list[PairAnalysis]:
     return out
 
 
-def _dtext(node: Any) -> str:
-    delay = {"general": "general", "S": "type S", "set": "set delay"}[str(node.delay)]
-    return f"{node.idn_ma:g} mA {node.waveform} {delay}"
-
-
 def check_cascade(ctx: Context) -> Iterator[Finding]:
     """Series pairs that cannot discriminate.
 
@@ -217,7 +219,7 @@ def check_cascade(ctx: Context) -> Iterator[Finding]:
             nodes=(u, *downs),
             board=idx.board_of[u],
             message=(
-                f"{idx.label(u)} ({_dtext(up)}) has residual-current devices downstream "
+                f"{idx.label(u)} ({device_text(up)}) has residual-current devices downstream "
                 f"({names}) but is not time-delayed: a fault below them may trip it too."
             ),
             action="Replace the upstream device with a time-delayed (type S) one of suitable IΔn, "
@@ -251,7 +253,7 @@ def check_cascade(ctx: Context) -> Iterator[Finding]:
                 nodes=(p.up, p.down),
                 board=idx.board_of[p.down],
                 message=(
-                    f"{idx.label(p.up)} ({_dtext(up)}) and {idx.label(p.down)} ({_dtext(down)}): "
+                    f"{idx.label(p.up)} ({device_text(up)}) and {idx.label(p.down)} ({device_text(down)}): "
                     f"time-current bands overlap from {ranges}; both may trip."
                 ),
                 action="Choose an upstream device whose band clears the downstream one "

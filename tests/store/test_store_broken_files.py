@@ -46,6 +46,7 @@ def _check_one(folder: Path, case: BrokenCase) -> None:
 
 
 def test_every_broken_file_gives_one_clear_line(tmp_path: Path) -> None:
+    assert len(CASES) >= 1000
     for case in CASES:
         _check_one(tmp_path, case)
 
