@@ -4,6 +4,8 @@ from __future__ import annotations
 
 import json
 import shutil
+import subprocess
+import sys
 from pathlib import Path
 from typing import Any
 
@@ -84,3 +86,20 @@ def copy_sample(name: str, dest: Path) -> Path:
 def write_doc(path: Path, doc: Any) -> Path:
     path.write_text(json.dumps(doc, ensure_ascii=False), encoding="utf-8")
     return path
+
+
+def tripwise(
+    *args: str, env: dict[str, str] | None = None, stdin: str | None = None
+) -> subprocess.CompletedProcess[str]:
+    """Run ``python -m tui ARGS`` from the repository root (this checkout's code)."""
+    return subprocess.run(
+        [sys.executable, "-m", "tui", *args],
+        cwd=ROOT,
+        capture_output=True,
+        text=True,
+        env=env,
+        input=stdin,
+        stdin=None if stdin is not None else subprocess.DEVNULL,
+        timeout=120,
+        check=False,
+    )

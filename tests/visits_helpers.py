@@ -65,18 +65,10 @@ def sample_copy(tmp_path: Path, name: str = "oak-lane-house", dest: str | None =
 
 
 def run_cli(*args: str, stdin: str | None = None) -> Any:
-    """Run ``python -m tui ARGS`` from the worktree root; the completed process."""
-    import subprocess
-    import sys
+    """Run ``python -m tui ARGS`` from the repository root; the completed process."""
+    from sitekit import tripwise
 
-    return subprocess.run(
-        [sys.executable, "-m", "tui", *args],
-        cwd=REPO,
-        capture_output=True,
-        text=True,
-        input=stdin,
-        timeout=120,
-    )
+    return tripwise(*args, stdin=stdin)
 
 
 #: The test-sheet CSV layout: value columns (the others are there to be ignored).

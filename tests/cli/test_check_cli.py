@@ -10,15 +10,9 @@ from pathlib import Path
 from typing import Any
 
 import pytest
-from sitekit import ROOT, SAMPLES, circuit, node, rcd, site_doc, write_doc
+from sitekit import ROOT, SAMPLES, circuit, node, rcd, site_doc, tripwise, write_doc
 
 from model.findings import CAUTION
-
-
-def tripwise(*args: str) -> subprocess.CompletedProcess[str]:
-    return subprocess.run(
-        [sys.executable, "-m", "tui", *args], cwd=ROOT, capture_output=True, text=True, timeout=120
-    )
 
 
 def test_findings_exit_1_grouped_by_board_with_caution() -> None:

@@ -3,25 +3,13 @@
 from __future__ import annotations
 
 import os
-import subprocess
-import sys
 from pathlib import Path
+
+from sitekit import tripwise
 
 from model.store import load_site
 
 ROOT = Path(__file__).resolve().parents[2]
-
-
-def tripwise(*args: str, env: dict[str, str] | None = None) -> subprocess.CompletedProcess[str]:
-    return subprocess.run(
-        [sys.executable, "-m", "tui", *args],
-        cwd=ROOT,
-        capture_output=True,
-        text=True,
-        timeout=60,
-        env=env,
-        stdin=subprocess.DEVNULL,
-    )
 
 
 def test_new_creates_an_empty_site_and_refuses_to_overwrite(tmp_path: Path) -> None:

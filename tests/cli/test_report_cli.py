@@ -4,29 +4,17 @@ from __future__ import annotations
 
 import os
 import shutil
-import subprocess
 import sys
 from pathlib import Path
 
 import pypdf
+from sitekit import tripwise as _run
 
 from model.report import STATEMENT
 from model.store import load_site
 from tests.model.report_sites import squash, write_awkward
 
 ROOT = Path(__file__).resolve().parents[2]
-
-
-def _run(*args: str, env: dict[str, str] | None = None) -> subprocess.CompletedProcess[str]:
-    return subprocess.run(
-        [sys.executable, "-m", "tui", *args],
-        cwd=ROOT,
-        capture_output=True,
-        text=True,
-        env=env,
-        timeout=120,
-        check=False,
-    )
 
 
 def _sample(tmp: Path, name: str = "oak lane (copy).json") -> Path:
