@@ -18,7 +18,7 @@ sys.path.insert(0, str(Path(__file__).resolve().parent))
 
 from gen_site import generate_site  # noqa: E402
 
-from model.checks import analyse  # noqa: E402
+from model.rules.checks import analyse  # noqa: E402
 
 
 def main() -> None:

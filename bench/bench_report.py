@@ -23,9 +23,9 @@ from typing import Any
 
 sys.path.insert(0, str(Path(__file__).resolve().parents[1]))
 
-from model.checks import analyse  # noqa: E402
-from model.report import build_remedial, build_sheet, render  # noqa: E402
-from model.site import SiteFile  # noqa: E402
+from model.reports.documents import build_remedial, build_sheet, render  # noqa: E402
+from model.rules.checks import analyse  # noqa: E402
+from model.site.models import SiteFile
 
 BOARDS, PER_BOARD, UNTESTED_FEEDS, SLOW = 50, 19, 5, 100
 

@@ -27,10 +27,11 @@ sys.path.insert(0, str(Path(__file__).resolve().parent))
 from textual.app import App, ComposeResult  # noqa: E402
 from textual.widgets import DataTable, Tree  # noqa: E402
 
-from model.site import RCD_KINDS, SiteFile  # noqa: E402
-from model.store import load_site, save_site  # noqa: E402
-from model.tree import SiteIndex  # noqa: E402
-from tui.app import make_app  # noqa: E402
+from model.site.models import SiteFile
+from model.site.terms import RCD_KINDS
+from model.site.tree import SiteIndex  # noqa: E402
+from model.storage.store import load_site, save_site  # noqa: E402
+from tui.app.shell import make_app  # noqa: E402
 from tui.screens.readings import ReadingScreen  # noqa: E402
 
 try:

@@ -15,13 +15,13 @@ from typing import Any
 
 sys.path.insert(0, str(Path(__file__).resolve().parents[1]))
 
-from model.checks import analyse  # noqa: E402
-from model.checks.context import Context  # noqa: E402
-from model.checks.trend import check_trend  # noqa: E402
-from model.compare import compare_visits  # noqa: E402
-from model.import_csv import VALUE_COLUMNS, plan_import  # noqa: E402
-from model.merge import merge_sites  # noqa: E402
-from model.site import SiteFile  # noqa: E402
+from model.rules.checks import analyse  # noqa: E402
+from model.rules.checks.context import Context  # noqa: E402
+from model.rules.checks.trend import check_trend  # noqa: E402
+from model.site.models import SiteFile
+from model.visits.compare import compare_visits  # noqa: E402
+from model.visits.import_csv import VALUE_COLUMNS, plan_import  # noqa: E402
+from model.visits.merge import merge_sites  # noqa: E402
 
 
 def big_site(boards: int, per_board: int, visits: int) -> dict[str, Any]:

@@ -1,6 +1,6 @@
 """A realistic, invented site of any size, for benchmarks and tests.
 
-``generate_site(n_nodes, seed)`` builds a valid :class:`~model.site.SiteFile`
+``generate_site(n_nodes, seed)`` builds a valid :class:`~model.site.models.SiteFile`
 with exactly ``n_nodes`` nodes: a supply, a cut-out fuse, a main board, and
 below it sub-boards and device groups with residual-current devices cascaded
 three to five deep (time-delayed 1000/300/100 mA devices above 30 mA RCCBs and
@@ -14,7 +14,8 @@ from __future__ import annotations
 import random
 from typing import Any
 
-from model.site import RCD_KINDS, SiteFile
+from model.site.models import SiteFile
+from model.site.terms import RCD_KINDS
 
 _USES = [
     ("sockets", 32.0),

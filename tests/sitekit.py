@@ -9,9 +9,9 @@ import sys
 from pathlib import Path
 from typing import Any
 
-from model.checks import analyse
-from model.findings import Analysis
-from model.site import SiteFile
+from model.rules.checks import analyse
+from model.rules.findings import Analysis
+from model.site.models import SiteFile
 
 ROOT = Path(__file__).resolve().parent.parent
 SAMPLES = ROOT / "sample_sites"

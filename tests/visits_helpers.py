@@ -11,7 +11,7 @@ import shutil
 from pathlib import Path
 from typing import Any
 
-from model.site import SiteFile
+from model.site.models import SiteFile
 
 REPO = Path(__file__).resolve().parents[1]
 SAMPLES = REPO / "sample_sites"

@@ -7,8 +7,10 @@ from __future__ import annotations
 
 from typing import Any
 
-from model.site import ALLOWED_CHILDREN, NODE_CLASSES, RCD_KINDS, SiteFile, Visit
-from model.tree import SiteIndex
+from model.site.models import SiteFile, Visit
+from model.site.nodes import ALLOWED_CHILDREN, NODE_CLASSES
+from model.site.terms import RCD_KINDS
+from model.site.tree import SiteIndex
 
 #: Starting values for a new node of each kind (the inspector changes them).
 NEW_NODE_DEFAULTS: dict[str, dict[str, Any]] = {

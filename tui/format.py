@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from typing import Any
 
-from model.findings import CAUTION
+from model.rules.findings import CAUTION
 
 #: Our marks for the worst severity on a node (glyph, style).
 SEVERITY_MARK: dict[str, tuple[str, str]] = {

@@ -15,6 +15,8 @@ from typing import Any, Literal, Union
 
 from pydantic import BaseModel, ValidationError
 
+from model.site.messages import error_text
+
 FieldKind = Literal["text", "number", "choice", "flag", "flags"]
 
 #: Fields the editor never shows (set by the tree, not typed).
@@ -121,24 +123,12 @@ def field_specs(cls: type[BaseModel]) -> list[FieldSpec]:
     return out
 
 
-def parse_number(text: str) -> float | None:
-    """A typed number: '' is None; anything else must be a plain decimal number."""
-    t = text.strip().replace(",", ".")
-    if not t:
-        return None
-    if not re.fullmatch(r"[0-9]*\.?[0-9]+|[0-9]+\.", t):
-        raise ValueError(f"{text!r} is not a number")
-    return float(t)
-
-
 def errors_by_field(exc: ValidationError) -> dict[str, str]:
     """Validation messages keyed by the first field name of their location ('' for the whole)."""
     out: dict[str, str] = {}
     for err in exc.errors():
         loc = err.get("loc", ())
         key = str(loc[0]) if loc else ""
-        msg = str(err.get("msg", "invalid"))
-        if msg.startswith("Value error, "):
-            msg = msg[len("Value error, ") :]
+        msg = error_text(err)
         out.setdefault(key, msg)
     return out

@@ -12,7 +12,7 @@ from typing import Any
 import pytest
 from sitekit import ROOT, SAMPLES, circuit, node, rcd, site_doc, tripwise, write_doc
 
-from model.findings import CAUTION
+from model.rules.findings import CAUTION
 
 
 def test_findings_exit_1_grouped_by_board_with_caution() -> None:

@@ -10,9 +10,9 @@ from pathlib import Path
 import pypdf
 from sitekit import tripwise as _run
 
-from model.report import STATEMENT
-from model.store import load_site
-from tests.model.report_sites import squash, write_awkward
+from model.reports.documents import STATEMENT
+from model.storage.store import load_site
+from tests.reports.report_sites import squash, write_awkward
 
 ROOT = Path(__file__).resolve().parents[2]
 

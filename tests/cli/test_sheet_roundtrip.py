@@ -9,9 +9,9 @@ from pathlib import Path
 import pytest
 from sitekit import ROOT, copy_sample
 
-from model.import_csv import plan_import
-from model.report import render
-from model.store import load_site
+from model.reports.documents import render
+from model.storage.store import load_site
+from model.visits.import_csv import plan_import
 
 
 @pytest.mark.parametrize("name", ["oak-lane-house", "hollowmere-farm", "kestrel-hill-school"])

@@ -7,8 +7,8 @@ from pathlib import Path
 
 import pytest
 
-from model.site import SiteFile
-from model.store import load_site, save_site
+from model.site.models import SiteFile
+from model.storage.store import load_site, save_site
 
 SAMPLES = Path(__file__).resolve().parents[2] / "sample_sites"
 

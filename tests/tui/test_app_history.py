@@ -4,8 +4,8 @@ from __future__ import annotations
 
 from pathlib import Path
 
-from model.store import load_site, save_site
-from tui.app import make_app
+from model.storage.store import load_site, save_site
+from tui.app.shell import make_app
 from tui.screens.compare import CompareScreen
 from tui.screens.merge import MergeScreen
 from tui.screens.path_prompt import PathPromptScreen

@@ -4,11 +4,11 @@ from __future__ import annotations
 
 from pathlib import Path
 
-from model.session import EditSession
-from model.site import SiteFile
-from model.store import load_site
-from tui.app import make_app
-from tui.commands.new import empty_site
+from model.site.models import SiteFile
+from model.storage.session import EditSession
+from model.storage.store import load_site
+from tui.app.shell import make_app
+from tui.cli.commands.new import empty_site
 from tui.screens.choice import ChoiceScreen
 from tui.screens.node_editor import NodeEditorScreen
 

@@ -6,10 +6,10 @@ from pathlib import Path
 
 import pytest
 
-from model.impact import trip_impact
-from model.session import LockHeld
-from model.store import load_site
-from tui.app import make_app
+from model.rules.impact import trip_impact
+from model.storage.session import LockHeld
+from model.storage.store import load_site
+from tui.app.shell import make_app
 from tui.screens.confirm import ConfirmScreen
 from tui.screens.node_editor import NodeEditorScreen
 from tui.screens.readings import ReadingScreen
@@ -26,7 +26,7 @@ async def test_refused_value_leaves_file_unchanged(oak_lane: Path) -> None:
         assert isinstance(editor, NodeEditorScreen)
         # label is focused first (the id of an existing node is fixed); Enter to IΔn
         await pilot.press("enter", "ctrl+u", *"0.03")
-        # the model refuses a rating given in amps (model.site _idn_sane)
+        # the model refuses a rating given in amps (model.site.models _idn_sane)
         assert "looks like amps" in editor.errors["idn_ma"]
         await pilot.press("ctrl+s")
         assert app.screen is editor  # refused: the form stays open
@@ -127,7 +127,7 @@ async def test_findings_update_after_edit(oak_lane: Path) -> None:
 
 
 async def test_lock_held_offers_read_only(oak_lane: Path, monkeypatch: pytest.MonkeyPatch) -> None:
-    from model import session as session_mod
+    from model.storage import session as session_mod
 
     holder = session_mod.EditSession.open(oak_lane)  # another editor holds the file
     try:
@@ -218,7 +218,7 @@ async def test_findings_filter_by_severity(oak_lane: Path) -> None:
 async def test_save_error_is_shown_and_recovered_lines_too(
     oak_lane: Path, monkeypatch: pytest.MonkeyPatch
 ) -> None:
-    from model import session as session_mod
+    from model.storage import session as session_mod
 
     real_open = session_mod.EditSession.open.__func__  # type: ignore[attr-defined]
 

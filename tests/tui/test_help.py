@@ -6,7 +6,7 @@ from pathlib import Path
 
 from textual.binding import Binding
 
-from tui.app import TripwiseApp, make_app
+from tui.app.shell import TripwiseApp, make_app
 from tui.screens.help import KEY_MAP, HelpScreen
 from tui.screens.readings import ReadingScreen
 from tui.widgets.findings_panel import FindingsTable

@@ -7,7 +7,7 @@ from pathlib import Path
 
 from sitekit import SAMPLES
 
-from tui.app import make_app
+from tui.app.shell import make_app
 from tui.screens.compare import CompareScreen
 from tui.screens.export import ExportScreen
 from tui.screens.help import HelpScreen

@@ -7,8 +7,8 @@ from typing import Any
 from textual.app import App
 from textual.widgets import Static
 
-from model.merge import merge_sites
-from model.site import SiteFile
+from model.site.models import SiteFile
+from model.visits.merge import merge_sites
 from tests.visits_helpers import make_site
 from tui.screens.merge import MergeScreen
 

@@ -5,9 +5,9 @@ from __future__ import annotations
 import datetime as dt
 from pathlib import Path
 
-from model.site import DID_NOT_TRIP
-from model.store import load_site
-from tui.app import TripwiseApp, make_app
+from model.site.terms import DID_NOT_TRIP
+from model.storage.store import load_site
+from tui.app.shell import TripwiseApp, make_app
 from tui.screens.readings import FIELDS, ReadingScreen
 from tui.screens.start_visit import StartVisitScreen
 from tui.widgets.reading_pad import DID_NOT_TRIP_KEY

@@ -11,8 +11,8 @@ from hosting import Host
 from textual.screen import Screen
 from textual.widgets import DataTable, Static
 
-from model.findings import CAUTION
-from model.site import SiteFile
+from model.rules.findings import CAUTION
+from model.site.models import SiteFile
 from tui.screens.impact import ImpactScreen
 
 

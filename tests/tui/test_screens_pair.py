@@ -15,9 +15,9 @@ from textual.screen import Screen
 from textual.widgets import Static
 from textual_plotext import PlotextPlot
 
-from model.checks import analyse
-from model.findings import CAUTION
-from model.site import SiteFile
+from model.rules.checks import analyse
+from model.rules.findings import CAUTION
+from model.site.models import SiteFile
 from tui.screens.pair import PairScreen
 from tui.widgets.bandchart import BandChart
 

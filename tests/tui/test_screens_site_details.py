@@ -12,7 +12,7 @@ from textual.pilot import Pilot
 from textual.screen import Screen
 from textual.widgets import Input, Select, Static
 
-from model.site import SiteFile, SiteInfo
+from model.site.models import SiteFile, SiteInfo
 from tui.screens.site_details import SiteDetailsScreen
 
 

@@ -7,7 +7,7 @@ import datetime as dt
 from hosting import Host
 from textual.widgets import DataTable, Input, Static
 
-from model.site import SiteFile, Visit
+from model.site.models import SiteFile, Visit
 from tui.screens.visits import VisitsScreen, new_visit_id
 
 INSPECTOR = "T. Brackenridge (invented)"  # the sample's latest visit

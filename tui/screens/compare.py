@@ -10,11 +10,11 @@ from textual.containers import Vertical
 from textual.screen import ModalScreen
 from textual.widgets import DataTable, Static
 
-from model.compare import CompareError, VisitComparison, change_text, compare_visits
-from model.findings import CAUTION
-from model.history import visit_ids
-from model.readings import fmt_value
-from model.site import SiteFile
+from model.rules.bands import fmt_value
+from model.rules.findings import CAUTION
+from model.site.history import visit_ids
+from model.site.models import SiteFile
+from model.visits.compare import CompareError, VisitComparison, change_text, compare_visits
 
 
 class CompareScreen(ModalScreen[None]):

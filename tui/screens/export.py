@@ -12,7 +12,7 @@ from textual.containers import Horizontal, Vertical
 from textual.screen import ModalScreen
 from textual.widgets import Button, Input, Label, RadioButton, RadioSet, Static
 
-from model.report import (
+from model.reports.documents import (
     FORMAT_TITLE,
     FORMATS,
     KIND_TITLE,
@@ -22,15 +22,15 @@ from model.report import (
     default_name,
     write_report,
 )
-from model.site import SiteFile
-from model.store import SiteLoadError, load_site
+from model.site.models import SiteFile
+from model.storage.store import SiteLoadError, load_site
 
 
 class ExportScreen(ModalScreen[Path | None]):
     """Choose a document and a format, see the file name, write it; dismiss with the path.
 
     An existing file is replaced only after a second press of Write.  The
-    document is written by :func:`model.report.write_report` in a worker, so a
+    document is written by :func:`model.reports.documents.write_report` in a worker, so a
     large site never blocks the screen.
     """
 

@@ -12,17 +12,18 @@ from textual.containers import Vertical
 from textual.screen import ModalScreen
 from textual.widgets import Button, DataTable, Static
 
-from model.findings import CAUTION
-from model.impact import TripImpact, trip_impact
-from model.site import OVERCURRENT_KINDS, RCD_KINDS, SiteFile
-from model.tree import SiteIndex
+from model.rules.findings import CAUTION, device_text
+from model.rules.impact import TripImpact, trip_impact
+from model.site.models import SiteFile
+from model.site.terms import OVERCURRENT_KINDS, RCD_KINDS
+from model.site.tree import SiteIndex
 
 
-def device_text(node: Any) -> str:
-    """'RCCB 30 mA Type A' for a residual-current device, the kind otherwise."""
+def device_line(node: Any) -> str:
+    """'RCCB 30 mA, Type A, general' for a residual-current device, the kind otherwise."""
     kind = str(node.kind)
     if hasattr(node, "idn_ma"):
-        return f"{kind.upper()} {node.idn_ma:g} mA Type {node.waveform}"
+        return f"{kind.upper()} {device_text(node)}"
     return kind
 
 
@@ -83,7 +84,7 @@ class ImpactScreen(ModalScreen[None]):
                 markup=False,
             )
             yield Static(
-                f"{self.device_id} · {device_text(node)} · on {idx.board_label(self.device_id)}",
+                f"{self.device_id} · {device_line(node)} · on {idx.board_label(self.device_id)}",
                 id="impact-where",
                 markup=False,
             )

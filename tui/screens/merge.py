@@ -13,8 +13,8 @@ from textual.containers import Vertical
 from textual.screen import ModalScreen
 from textual.widgets import DataTable, Static
 
-from model.merge import Choice, Conflict, MergeError, MergeResult
-from model.site import SiteFile
+from model.site.models import SiteFile
+from model.visits.merge import Choice, Conflict, MergeError, MergeResult
 
 
 def _short(v: Any) -> str:

@@ -14,9 +14,10 @@ from textual.screen import ModalScreen
 from textual.widget import Widget
 from textual.widgets import Button, Checkbox, Input, Label, Select, SelectionList, Static
 
-from model.site import NODE_CLASSES
+from model.site.nodes import NODE_CLASSES
+from model.site.numbers import parse_number
 from tui.editing import KIND_TITLES
-from tui.forms import FieldSpec, errors_by_field, field_specs, parse_number
+from tui.forms import FieldSpec, errors_by_field, field_specs
 
 #: Called with the validated node; returns None when the session accepted it, else why not.
 ApplyFn = Callable[[BaseModel], "str | None"]

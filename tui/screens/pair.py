@@ -2,8 +2,6 @@
 
 from __future__ import annotations
 
-from typing import Any
-
 from rich.text import Text
 from textual import on
 from textual.app import ComposeResult
@@ -12,12 +10,12 @@ from textual.containers import ScrollableContainer, Vertical
 from textual.screen import ModalScreen
 from textual.widgets import Button, Static
 
-from model.chartdata import CHART_SOURCE, MeasuredPoint, PairChart, pair_chart_data
-from model.findings import CAUTION, Analysis, PairAnalysis, fmt_ma
-from model.limits import CASCADE_RATIO
-from model.readings import GROUP_TITLE, fmt_result, group_of
-from model.site import SiteFile
-from model.tree import SiteIndex
+from model.reports.charts import CHART_SOURCE, MeasuredPoint, PairChart, pair_chart_data
+from model.rules.bands import GROUP_TITLE, fmt_result, group_of
+from model.rules.findings import CAUTION, Analysis, PairAnalysis, device_text, fmt_ma
+from model.rules.limits import CASCADE_RATIO
+from model.site.models import SiteFile
+from model.site.tree import SiteIndex
 from tui.widgets.bandchart import BandChart
 
 VERDICT_TITLE = {
@@ -25,16 +23,6 @@ VERDICT_TITLE = {
     "selective-in-practice": "SELECTIVE IN PRACTICE",
     "not-selective": "NOT SELECTIVE",
 }
-
-_DELAY = {"general": "general", "S": "type S", "set": "set delay"}
-
-
-def device_text(node: Any) -> str:
-    """'100 mA Type A, type S' for one residual-current device."""
-    text = f"{node.idn_ma:g} mA Type {node.waveform}, {_DELAY.get(str(node.delay), node.delay)}"
-    if getattr(node, "delay_ms", None) is not None:
-        text += f" {node.delay_ms:g} ms"
-    return text
 
 
 def points_text(points: list[MeasuredPoint]) -> str:

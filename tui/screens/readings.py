@@ -1,7 +1,7 @@
 """Reading entry, built for speed: digits and Enter, one key for "did not trip".
 
 Each value is judged against its band the moment it is typed (the band comes from
-``model.readings``), and recorded through the editing session when Enter moves on.
+``model.rules.bands``), and recorded through the editing session when Enter moves on.
 After the last field the form moves to the next untested residual-current device.
 All typing goes to one widget (:class:`ReadingPad`) so fast keys never land in the
 wrong field.
@@ -19,11 +19,13 @@ from textual.containers import Vertical
 from textual.screen import Screen
 from textual.widgets import Static
 
-from model.readings import Band, judge_ramp, judge_time, ramp_band, time_band
-from model.site import DID_NOT_TRIP, TEST_NAMES, Reading
+from model.rules.bands import Band, judge_ramp, judge_time, ramp_band, time_band
+from model.site.models import Reading
+from model.site.numbers import parse_number
+from model.site.terms import DID_NOT_TRIP, TEST_NAMES
 from tui.editing import is_untested
 from tui.format import LIVE_TEST_CAUTION, node_summary, node_title
-from tui.forms import errors_by_field, parse_number
+from tui.forms import errors_by_field
 from tui.widgets.caution_bar import CautionBar
 from tui.widgets.key_bar import KeyBar
 from tui.widgets.reading_pad import ReadingPad

@@ -2,7 +2,6 @@
 
 from __future__ import annotations
 
-import math
 from dataclasses import dataclass
 from typing import Any
 
@@ -15,8 +14,10 @@ from textual.screen import ModalScreen
 from textual.widget import Widget
 from textual.widgets import Button, Checkbox, Input, Label, Select, Static, TextArea
 
-from model.limits import RULE_SETS
-from model.site import SiteFile, SiteInfo, TrendSettings
+from model.rules.limits import RULE_SETS
+from model.site.messages import error_text
+from model.site.models import SiteFile, SiteInfo, TrendSettings
+from model.site.numbers import parse_number
 
 EARTHING_CHOICES = ("TN-S", "TN-C-S", "TT", "IT")
 
@@ -58,19 +59,14 @@ SHOWN_FOR: dict[str, frozenset[str]] = {
 TEXT_LABELS = {"name": "Name", "address": "Address", "client": "Client", "notes": "Notes"}
 
 
-def parse_number(field: NumberField, text: str) -> float | None:
+def field_number(field: NumberField, text: str) -> float | None:
     """The number typed in a field, or None when left empty.  ValueError in plain words."""
-    text = text.strip()
-    if not text:
-        if field.required:
-            raise ValueError(f"{field.label} is needed ({field.unit})")
-        return None
     try:
-        value = float(text)
-    except ValueError:
-        raise ValueError(f"{field.label}: {text!r} is not a number") from None
-    if not math.isfinite(value):
-        raise ValueError(f"{field.label}: {text!r} is not a finite number")
+        value = parse_number(text)
+    except ValueError as exc:
+        raise ValueError(f"{field.label}: {exc}") from None
+    if value is None and field.required:
+        raise ValueError(f"{field.label} is needed ({field.unit})")
     return value
 
 
@@ -92,9 +88,7 @@ def plain_message(err: Any, label: str, unit: str, given: Any) -> str:
         return f"{label} must not be empty"
     if kind == "string_too_long":
         return f"{label} is too long (at most {ctx['max_length']} characters)"
-    msg = str(err.get("msg", "is not valid"))
-    if msg.startswith("Value error, "):
-        msg = msg[len("Value error, ") :]
+    msg = error_text(err, "is not valid")
     return f"{label}: {msg}"
 
 
@@ -229,7 +223,7 @@ class SiteDetailsScreen(ModalScreen[SiteInfo | None]):
         numbers: dict[str, float | None] = {}
         for f in NUMBER_FIELDS:
             try:
-                numbers[f.key] = parse_number(f, self.query_one(f"#f-{f.key}", Input).value)
+                numbers[f.key] = field_number(f, self.query_one(f"#f-{f.key}", Input).value)
             except ValueError as exc:
                 errors[f.key] = str(exc)
         if errors:

@@ -12,7 +12,7 @@ from textual.containers import Horizontal, Vertical
 from textual.screen import ModalScreen
 from textual.widgets import Input, Label, Static
 
-from model.site import Visit
+from model.site.models import Visit
 from tui.forms import errors_by_field
 
 

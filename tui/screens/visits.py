@@ -14,7 +14,8 @@ from textual.containers import Horizontal, Vertical
 from textual.screen import ModalScreen
 from textual.widgets import Button, DataTable, Input, Label, Static
 
-from model.site import SiteFile, Visit
+from model.site.messages import error_text
+from model.site.models import SiteFile, Visit
 
 FIELD_LABELS = {"date": "Date", "inspector": "Inspector", "instrument": "Instrument"}
 
@@ -112,9 +113,7 @@ class VisitsScreen(ModalScreen[Visit | None]):
             for err in exc.errors():
                 key = str(err["loc"][0]) if err["loc"] else "date"
                 key = key if key in FIELD_LABELS else "date"
-                msg = str(err.get("msg", "is not valid"))
-                if msg.startswith("Value error, "):
-                    msg = msg[len("Value error, ") :]
+                msg = error_text(err, "is not valid")
                 errors.setdefault(key, f"{FIELD_LABELS[key]}: {msg}")
             return None, errors
 

@@ -26,9 +26,9 @@ from textual.widgets import Static
 from textual_plotext import PlotextPlot
 from textual_plotext.plot import Plot
 
-from model.chartdata import PairChart
-from model.findings import fmt_ma
-from model.site import DID_NOT_TRIP
+from model.reports.charts import PairChart
+from model.rules.findings import fmt_ma
+from model.site.terms import DID_NOT_TRIP
 
 UP_RGB = (232, 163, 61)
 DOWN_RGB = (86, 182, 226)

@@ -12,8 +12,8 @@ from textual.containers import Horizontal, Vertical
 from textual.message import Message
 from textual.widgets import DataTable, Static
 
-from model.findings import SEVERITIES, Analysis, Finding
-from model.tree import SiteIndex
+from model.rules.findings import SEVERITIES, Analysis, Finding
+from model.site.tree import SiteIndex
 from tui.format import SEVERITY_MARK
 
 ALL = "all"

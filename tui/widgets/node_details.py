@@ -7,11 +7,13 @@ from typing import Any
 from rich.text import Text
 from textual.widgets import Static
 
-from model.findings import Analysis, Finding
-from model.impact import trip_impact
-from model.readings import fmt_result, judge_reading
-from model.site import NODE_CLASSES, RCD_KINDS, TEST_NAMES, Visit
-from model.tree import SiteIndex
+from model.rules.bands import fmt_result, judge_reading
+from model.rules.findings import Analysis, Finding
+from model.rules.impact import trip_impact
+from model.site.models import Visit
+from model.site.nodes import NODE_CLASSES
+from model.site.terms import RCD_KINDS, TEST_NAMES
+from model.site.tree import SiteIndex
 from tui.format import SEVERITY_MARK, node_summary, node_title
 from tui.forms import field_specs
 
@@ -29,7 +31,7 @@ _IMPACT_KINDS = RCD_KINDS | {"board", "switch", "fuse", "mcb", "origin"}
 
 
 def impact_lines(idx: SiteIndex, node_id: str) -> list[str]:
-    """A short account of what a trip of this node cuts off (from ``model.impact``)."""
+    """A short account of what a trip of this node cuts off (from ``model.rules.impact``)."""
     imp = trip_impact(idx, node_id)
     if not imp.lost:
         return ["A trip here cuts off no circuits."]

@@ -15,7 +15,7 @@ from textual import events
 from textual.reactive import reactive
 from textual.widget import Widget
 
-from model.site import DID_NOT_TRIP
+from model.site.terms import DID_NOT_TRIP
 
 #: The key that records "did not trip" in a time field.
 DID_NOT_TRIP_KEY = "n"

@@ -8,7 +8,7 @@ from textual.binding import Binding
 from textual.widgets import Tree
 from textual.widgets.tree import TreeNode
 
-from model.tree import SiteIndex
+from model.site.tree import SiteIndex
 from tui.format import NO_MARK, SEVERITY_MARK, node_summary, node_title
 
 

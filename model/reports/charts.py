@@ -1,0 +1,194 @@
+"""Plain data for drawing the time-current bands of a series pair.
+
+Shared by the terminal chart and the printed report: numpy is used inside,
+plain lists and floats come out, so any drawing code can use the result
+without knowing how the bands are computed.
+
+The bands are the step-function reading of the product standard's table
+(see :mod:`model.rules.envelope`): the sample currents include every tabulated
+current of both devices and a point just either side of it, so a renderer
+that joins the samples with straight lines draws the steps as near-vertical
+edges at the right currents.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass, field
+
+import numpy as np
+
+from model.rules.bands import GROUP_MULTIPLE, group_of
+from model.rules.envelope import DeviceCurve, band_curve
+from model.rules.findings import Analysis
+from model.rules.limits import BREAK_TIMES, IEC_61008_T1, NON_OPERATING_FRACTION
+from model.site.models import SiteFile
+from model.site.terms import RCD_KINDS, TEST_NAMES
+from model.site.tree import SiteIndex
+
+#: A measured point: (test current [mA], trip time [ms] or "did not trip", test name).
+MeasuredPoint = tuple[float, float | str, str]
+
+#: Points of the plain log grid between the tabulated currents.
+GRID_POINTS = 96
+#: Relative offset of the samples placed just either side of a step.
+_EDGE = 1e-6
+
+CHART_SOURCE = IEC_61008_T1 + "; step-function reading between tabulated currents"
+
+
+@dataclass(frozen=True)
+class PairChart:
+    """Everything needed to draw one pair's bands and readings.
+
+    Band lists run parallel to ``currents_ma``; ``None`` is an infinite time:
+    in a minimum non-actuating curve it means the device cannot trip there
+    (at or below 0.5 IΔn), in a maximum break curve that a trip is not
+    guaranteed (below IΔn).  A minimum of 0 means no minimum (general type).
+    """
+
+    up_id: str
+    down_id: str
+    up_label: str
+    down_label: str
+    #: True when ``up`` is a protective RCD in the supply path of ``down``.
+    in_series: bool
+    #: Sample currents, ascending. [mA]
+    currents_ma: list[float]
+    up_min: list[float | None]
+    up_max: list[float | None]
+    down_min: list[float | None]
+    down_max: list[float | None]
+    #: Readings of the latest visit at ½, 1 and 5 × IΔn (AC test current only).
+    up_points: list[MeasuredPoint] = field(default_factory=list)
+    down_points: list[MeasuredPoint] = field(default_factory=list)
+    #: Current ranges (lo, hi) where selectivity is not guaranteed. [mA]
+    ranges: list[tuple[float, float]] = field(default_factory=list)
+    #: Largest prospective earth-fault current used by the analysis. [mA]
+    i_max_ma: float | None = None
+    #: Id of the visit the points come from.
+    visit: str | None = None
+    #: Suggested axis spans: currents [mA] and times [ms] (both for log axes).
+    current_span_ma: tuple[float, float] = (1.0, 10_000.0)
+    time_span_ms: tuple[float, float] = (5.0, 1000.0)
+    #: Remarks a reader needs (skipped readings, missing data).
+    notes: list[str] = field(default_factory=list)
+    source: str = CHART_SOURCE
+
+
+def _breakpoints_ma(idn_ma: float) -> list[float]:
+    """The currents at which a device's bands may step. [mA]"""
+    out = [NON_OPERATING_FRACTION * idn_ma]
+    out.extend(p.current_ma(idn_ma) for p in BREAK_TIMES)
+    return out
+
+
+def _plain(values: np.ndarray) -> list[float | None]:
+    return [None if math.isinf(v) else float(v) for v in values.tolist()]
+
+
+def _points(site: SiteFile, node: object, notes: list[str], label: str) -> list[MeasuredPoint]:
+    visit = site.latest_visit()
+    if visit is None:
+        return []
+    node_id = str(getattr(node, "id"))  # noqa: B009
+    reading = visit.readings.get(node_id)
+    if reading is None:
+        notes.append(f"{label}: no reading on visit {visit.id}")
+        return []
+    if reading.not_tested is not None:
+        notes.append(f"{label}: not tested on visit {visit.id} ({reading.not_tested})")
+        return []
+    if reading.waveform != "AC":
+        notes.append(
+            f"{label}: tested with {reading.waveform} current; the bands are for sinusoidal "
+            "current, so its readings are not plotted"
+        )
+        return []
+    idn = float(getattr(node, "idn_ma"))  # noqa: B009
+    out: list[MeasuredPoint] = []
+    for test in TEST_NAMES:
+        value = getattr(reading, test)
+        if value is None:
+            continue
+        current = GROUP_MULTIPLE[group_of(test)] * idn
+        out.append((current, value if isinstance(value, str) else float(value), test))
+    return out
+
+
+def pair_chart_data(site: SiteFile, analysis: Analysis, up_id: str, down_id: str) -> PairChart:
+    """The bands of two residual-current devices, their readings and the unsafe ranges.
+
+    Works for any two protective RCDs; ``in_series`` says whether they form a
+    series pair (only then are ``ranges`` filled, from ``analysis``).  Raises
+    ``KeyError`` for an unknown id and ``ValueError`` for a node that is not a
+    protective residual-current device.
+
+    References
+    ----------
+    IEC 61008-1 Ed.3 Table 1 (IEC 61009-1 same values), read as step functions;
+    IΔno = 0.5 IΔn.
+    """
+    idx = SiteIndex.build(site)
+    nodes = []
+    for nid in (up_id, down_id):
+        node = idx.by_id[nid]
+        if node.kind not in RCD_KINDS:
+            raise ValueError(f"{nid} is a {node.kind}, not a residual-current protective device")
+        nodes.append(node)
+    up, down = nodes
+    idn_up, idn_dn = float(up.idn_ma), float(down.idn_ma)
+    pair = analysis.pair(up_id, down_id)
+    in_series = up_id in idx.rcd_above.get(down_id, ())
+
+    # From a quarter of the smaller IΔn (below every non-operating current) to
+    # 20 × the larger one (4 × its last multiple column; nothing steps beyond
+    # that for devices up to 1 A).
+    small = min(idn_up, idn_dn)
+    big = max(idn_up, idn_dn)
+    lo = NON_OPERATING_FRACTION * small / 2.0
+    hi = 20.0 * big
+    grid = lo * (hi / lo) ** np.linspace(0.0, 1.0, GRID_POINTS)
+    steps = np.array(_breakpoints_ma(idn_up) + _breakpoints_ma(idn_dn))
+    steps = steps[(steps > lo) & (steps < hi)]
+    currents = np.unique(np.concatenate([grid, steps, steps * (1 - _EDGE), steps * (1 + _EDGE)]))
+    currents = currents[(currents >= lo) & (currents <= hi)]
+    u_min, u_max = band_curve(DeviceCurve.of(up), currents)
+    d_min, d_max = band_curve(DeviceCurve.of(down), currents)
+
+    notes: list[str] = []
+    up_label, down_label = idx.label(up_id), idx.label(down_id)
+    up_pts = _points(site, up, notes, up_label)
+    down_pts = _points(site, down, notes, down_label)
+    visit = site.latest_visit()
+    if visit is None:
+        notes.append("no visits recorded: no readings to plot")
+    if not in_series:
+        notes.append(f"{up_label} is not upstream of {down_label}: they are not a series pair")
+
+    finite = np.concatenate([a[np.isfinite(a) & (a > 0)] for a in (u_min, u_max, d_min, d_max)])
+    times = [float(v) for v in finite.tolist()]
+    times += [float(p[1]) for p in up_pts + down_pts if not isinstance(p[1], str)]
+    t_lo = min([5.0] + [t / 1.5 for t in times])
+    t_hi = max([1000.0] + [t * 1.5 for t in times])
+
+    return PairChart(
+        up_id=up_id,
+        down_id=down_id,
+        up_label=up_label,
+        down_label=down_label,
+        in_series=in_series,
+        currents_ma=[float(c) for c in currents.tolist()],
+        up_min=_plain(u_min),
+        up_max=_plain(u_max),
+        down_min=_plain(d_min),
+        down_max=_plain(d_max),
+        up_points=up_pts,
+        down_points=down_pts,
+        ranges=[] if pair is None else [(r.lo_ma, r.hi_ma) for r in pair.ranges],
+        i_max_ma=None if pair is None else pair.i_max_ma,
+        visit=None if visit is None else visit.id,
+        current_span_ma=(float(lo), float(hi)),
+        time_span_ms=(t_lo, t_hi),
+        notes=notes,
+    )

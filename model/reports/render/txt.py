@@ -1,0 +1,128 @@
+"""Plain-text renderings of the remedial-work list and the test sheet (UTF-8, 100 columns)."""
+
+from __future__ import annotations
+
+import textwrap
+
+from model.reports.documents import (
+    MARK_FAIL,
+    MARK_NOT_JUDGED,
+    MARK_OUT,
+    MARK_PASS,
+    Heading,
+    RemedialDoc,
+    SheetCell,
+    SheetDoc,
+    clean,
+)
+
+WIDTH = 100
+_IND = " " * 16
+MARK_TXT = {MARK_PASS: "ok", MARK_OUT: "OUT", MARK_NOT_JUDGED: "n/j", MARK_FAIL: "FAIL", "": ""}
+
+
+def _wrap(text: str, indent: str = "", first: str | None = None) -> list[str]:
+    w = textwrap.TextWrapper(
+        width=WIDTH,
+        initial_indent=indent if first is None else first,
+        subsequent_indent=indent,
+        break_on_hyphens=False,
+    )
+    return w.wrap(clean(text)) or [indent]
+
+
+def _top(h: Heading) -> list[str]:
+    rule = "=" * WIDTH
+    lines = [rule, *_wrap(h.statement), h.generated_line(), rule, "", h.title.upper(), ""]
+    width = max(len(k) for k, _ in h.facts())
+    for k, v in h.facts():
+        lines += _wrap(v, " " * (width + 2), f"{k:<{width}}  ")
+    return lines + [""]
+
+
+def _bottom(h: Heading, caution: str) -> list[str]:
+    rule = "=" * WIDTH
+    return [
+        "",
+        *_wrap("Caution: " + caution),
+        "",
+        rule,
+        *_wrap(h.statement),
+        h.generated_line(),
+        rule,
+    ]
+
+
+def remedial_txt(doc: RemedialDoc) -> bytes:
+    h = doc.heading
+    lines = _top(h)
+    total = sum(doc.counts.values())
+    lines.append(f"{total} item(s): " + ", ".join(f"{n} {s}" for s, n in doc.counts.items()))
+    if not total:
+        lines.append("No work arises from the checks made on this visit.")
+    for g in doc.groups:
+        title = g.label + (f" ({g.place})" if g.place else "")
+        lines += ["", *_wrap(title), "-" * min(WIDTH, len(title))]
+        for i in g.items:
+            lines += ["", f"[ ] {i.number}. {i.severity.upper()}  {i.rule}"]
+            for label, where in zip(i.node_labels, i.where, strict=True):
+                lines += _wrap(f"{label}: {where}", "      ")
+            lines += _wrap(i.message, _IND, "      Wrong:    ")
+            if i.measured or i.band:
+                lines += _wrap(
+                    f"{i.measured or '—'}; band {i.band or '—'}", _IND, "      Measured: "
+                )
+            lines += _wrap(i.action, _IND, "      To do:    ")
+            lines += _wrap(i.source_text(), _IND, "      Rests on: ")
+            if i.charts:
+                lines += _wrap(f"{i.charts_text()} in the PDF", _IND, "      Chart:    ")
+            lines.append("      Notes: " + "_" * 60)
+    if doc.charts:
+        lines += ["", "Series pairs", "------------"]
+        for c in doc.charts:
+            ranges = ", ".join(r.text() for r in c.ranges) or "none"
+            lines += _wrap(
+                f"Chart {c.number}: {c.up_label} ({c.up_text}) above {c.down_label} "
+                f"({c.down_text}): selectivity not guaranteed over {ranges}; {c.explanation}",
+                "  ",
+                "- ",
+            )
+    lines += _bottom(h, doc.caution)
+    return ("\n".join(lines) + "\n").encode("utf-8")
+
+
+def _cell(c: SheetCell, unit: str = "ms") -> str:
+    if c.value is None:
+        return "—"
+    return f"{c.value_text(unit)} {MARK_TXT[c.mark]}".strip()
+
+
+def sheet_txt(doc: SheetDoc) -> bytes:
+    h = doc.heading
+    lines = _top(h)
+    lines += _wrap(
+        "One block per residual-current device, in tree order. ok = within its band, "
+        "OUT = outside it, n/j = not judged (either outcome allowed). Required by the rule set: "
+        + ", ".join(doc.required_groups)
+        + f" ({doc.rules_source}); the other tests are "
+        "recorded as common practice."
+    )
+    for r in doc.rows:
+        lines += ["", f"{r.label} [{r.device_id}]  {r.board}  {r.type_text}"]
+        if not r.recorded:
+            lines.append("    no reading recorded on this visit")
+            continue
+        if r.not_tested is not None:
+            lines += _wrap("not tested: " + r.not_tested, "    ")
+        else:
+            lines.append(f"    test current {r.test_waveform}")
+            for c in r.tests:
+                req = " (required)" if c.required else ""
+                lines.append(f"    {c.title + req:<26}{_cell(c):<22}band {c.band}")
+            lines.append(f"    {'Ramp':<26}{_cell(r.ramp, 'mA'):<22}band {r.ramp.band}")
+            button = (r.button or "—") + (" FAIL" if r.button_mark == MARK_FAIL else "")
+            lines.append(f"    {'Test button':<26}{button}")
+        if r.note:
+            lines += _wrap(r.note, "          ", "    Note: ")
+    lines += _bottom(h, doc.caution)
+    return ("\n".join(lines) + "\n").encode("utf-8")

@@ -1,0 +1,269 @@
+"""Bands for the readings taken on site, and the judgement of each value against them.
+
+Used by the reading checks and by the app, which shows the band beside each
+field and flags a value the moment it is entered.
+"""
+
+from __future__ import annotations
+
+import math
+from dataclasses import dataclass
+from functools import lru_cache
+from typing import Any, Literal
+
+from model.rules.limits import (
+    IEC_61008_T1,
+    NON_OPERATING_SOURCE,
+    break_limits_ms,
+    operating_band,
+    rule_set,
+)
+from model.site.terms import DID_NOT_TRIP, TEST_NAMES
+
+TestGroup = Literal["half", "x1", "x5"]
+GROUPS: tuple[TestGroup, ...] = ("half", "x1", "x5")
+GROUP_MULTIPLE: dict[str, float] = {"half": 0.5, "x1": 1.0, "x5": 5.0}
+GROUP_TITLE: dict[str, str] = {"half": "½ × IΔn", "x1": "1 × IΔn", "x5": "5 × IΔn"}
+
+
+_GROUP_OF: dict[str, TestGroup] = {t: t.split("_", 1)[0] for t in TEST_NAMES}  # type: ignore[misc]
+
+
+def group_of(test: str) -> TestGroup:
+    """'x1_180' -> 'x1'."""
+    g = test.split("_", 1)[0]
+    if g not in GROUP_MULTIPLE:
+        raise ValueError(f"unknown test {test!r}")
+    return g  # type: ignore[return-value]
+
+
+@dataclass(frozen=True)
+class Band:
+    """What a timed test must show.
+
+    ``must_trip`` False with ``may_trip`` False means the device must not trip;
+    ``may_trip`` True means either outcome is within the product standard (so
+    the value is recorded but not judged).
+    """
+
+    group: TestGroup
+    must_trip: bool
+    may_trip: bool
+    min_ms: float | None
+    max_ms: float | None
+    text: str
+    source: str
+    basis: str
+    required: bool
+
+
+def time_band(node: Any, group: TestGroup, waveform: str, rules: str) -> Band:
+    """The band for a timed test on this device, with the test waveform used.
+
+    References
+    ----------
+    IEC 61008-1 Ed.3 Table 1 and IΔno = 0.5 IΔn; IEC 61009-1; BS 7671
+    Appendix 3 Table 3A; Type A half-wave band 0.35–1.4 IΔn (IEC 61008-1).
+    """
+    d = node.__dict__
+    return _time_band(
+        float(d["idn_ma"]),
+        str(d.get("delay", "general")),
+        d.get("delay_ms"),
+        d.get("max_break_ms"),
+        group,
+        waveform,
+        rules,
+    )
+
+
+@lru_cache(maxsize=4096)
+def _time_band(
+    idn: float,
+    delay: str,
+    dms: float | None,
+    bms: float | None,
+    group: TestGroup,
+    waveform: str,
+    rules: str,
+) -> Band:
+    rs = rule_set(rules)
+    required = group in rs.required_tests
+    if group == "half":
+        op = operating_band(waveform, idn)
+        if op.low >= 0.5:
+            return Band(
+                "half",
+                False,
+                False,
+                None,
+                None,
+                "must not trip",
+                NON_OPERATING_SOURCE,
+                "common-practice",
+                required,
+            )
+        return Band(
+            "half",
+            False,
+            True,
+            None,
+            None,
+            f"may trip ({waveform} band {op.low:g}–{op.high:g} × IΔn)",
+            op.source,
+            op.basis,
+            required,
+        )
+    mult = GROUP_MULTIPLE[group]
+    if delay == "set":
+        lo = float(dms) if (dms is not None and group == "x1") else None
+        hi = float(bms) if bms is not None else None
+        return Band(
+            group,
+            True,
+            False,
+            lo,
+            hi,
+            _range_text(lo, hi) + " (declared setting)",
+            "IEC 60947-2 Annex B (declared setting)",
+            "guidance",
+            required,
+        )
+    lo_ms, hi_ms = break_limits_ms(mult, delay)
+    source = IEC_61008_T1 + ("; " + rs.test_source if required else "")
+    return Band(
+        group, True, False, lo_ms, hi_ms, _range_text(lo_ms, hi_ms), source, "standard", required
+    )
+
+
+def _range_text(lo: float | None, hi: float | None) -> str:
+    if lo is not None and hi is not None:
+        return f"{lo:g}–{hi:g} ms"
+    if hi is not None:
+        return f"≤ {hi:g} ms"
+    if lo is not None:
+        return f"≥ {lo:g} ms"
+    return "trip (no declared limit)"
+
+
+@dataclass(frozen=True)
+class Judgement:
+    """The verdict on one recorded value: ``flag`` is None when it is within its band."""
+
+    flag: str | None
+    text: str
+
+
+def judge_time(band: Band, value: float | str | None) -> Judgement:
+    """Judge one timed result against its band.  ``value`` is ms or 'did not trip'."""
+    if value is None:
+        return Judgement(None, "not recorded")
+    if band.group == "half":
+        if band.may_trip:
+            return Judgement(None, "recorded (not judged for this waveform)")
+        if value == DID_NOT_TRIP:
+            return Judgement(None, "did not trip, as it must not")
+        return Judgement("reading.half-tripped", f"tripped in {value:g} ms; it must not trip")
+    if value == DID_NOT_TRIP:
+        return Judgement("reading.no-trip", f"did not trip; it must trip, {band.text}")
+    assert isinstance(value, float | int)
+    if band.max_ms is not None and value > band.max_ms:
+        return Judgement("reading.too-slow", f"{value:g} ms is slower than {band.text}")
+    if band.min_ms is not None and value < band.min_ms:
+        return Judgement("reading.too-fast", f"{value:g} ms is faster than {band.text}")
+    return Judgement(None, f"{value:g} ms within {band.text}")
+
+
+def worse(a: float | str | None, b: float | str | None, group: str = "x1") -> float | str | None:
+    """The worse of the 0° and 180° results.
+
+    For a test that must trip: 'did not trip' over any time, else the longer
+    time.  For the ½ IΔn test, which must not trip: any trip over 'did not
+    trip' (the shorter time, the more sensitive).
+    """
+    vals = [v for v in (a, b) if v is not None]
+    if not vals:
+        return None
+    times = [float(v) for v in vals if v != DID_NOT_TRIP]
+    if group == "half":
+        return min(times) if times else DID_NOT_TRIP
+    if DID_NOT_TRIP in vals:
+        return DID_NOT_TRIP
+    return max(times)
+
+
+def faster(a: float | str | None, b: float | str | None) -> float | None:
+    """The shorter recorded trip time of the two, ignoring 'did not trip'."""
+    vals = [float(v) for v in (a, b) if v is not None and v != DID_NOT_TRIP]
+    return min(vals) if vals else None
+
+
+@dataclass(frozen=True)
+class RampBand:
+    low_ma: float
+    high_ma: float
+    text: str
+    source: str
+    basis: str
+
+
+def ramp_band(node: Any, waveform: str) -> RampBand:
+    """The band a ramp test's trip current must fall in: (low, high] mA.
+
+    References
+    ----------
+    IEC 61008-1 Ed.3: sinusoidal 0.5–1.0 IΔn (IΔno = 0.5 IΔn); Type A half-wave
+    0.35–1.4 IΔn (0.35–2 IΔn for IΔn <= 10 mA); IEC 62423 smooth DC up to 2 IΔn.
+    """
+    idn = float(node.idn_ma)
+    op = operating_band(waveform, idn)
+    lo, hi = op.low * idn, op.high * idn
+    return RampBand(lo, hi, f"above {lo:g} and up to {hi:g} mA", op.source, op.basis)
+
+
+def judge_ramp(band: RampBand, ramp_ma: float | None) -> Judgement:
+    if ramp_ma is None:
+        return Judgement(None, "not recorded")
+    if ramp_ma > band.high_ma:
+        return Judgement("reading.ramp-out-of-band", f"{ramp_ma:g} mA is above {band.high_ma:g} mA")
+    if ramp_ma <= band.low_ma:
+        return Judgement(
+            "reading.ramp-out-of-band", f"{ramp_ma:g} mA is at or below {band.low_ma:g} mA"
+        )
+    return Judgement(None, f"{ramp_ma:g} mA within {band.text}")
+
+
+def fmt_result(value: float | str | None) -> str:
+    """A recorded timed result for people."""
+    if value is None:
+        return "—"
+    if value == DID_NOT_TRIP:
+        return DID_NOT_TRIP
+    assert isinstance(value, float | int)
+    return f"{value:g} ms" if math.isfinite(value) else "—"
+
+
+def fmt_value(key: str, value: float | str | None) -> str:
+    """Any recorded value of a reading for people, by its key: '24 ms', 'did not trip', '23 mA'."""
+    if value is None:
+        return "—"
+    if key in TEST_NAMES:
+        return fmt_result(value)
+    if key == "ramp_ma" and not isinstance(value, str):
+        return f"{value:g} mA"
+    return str(value)
+
+
+def judge_reading(node: Any, reading: Any, rules: str) -> dict[str, Judgement]:
+    """Every recorded value of one reading judged against its band (keys: test names, 'ramp_ma', 'button')."""
+    out: dict[str, Judgement] = {}
+    bands = {g: time_band(node, g, reading.waveform, rules) for g in GROUPS}
+    values = reading.__dict__
+    for t in TEST_NAMES:
+        out[t] = judge_time(bands[_GROUP_OF[t]], values[t])
+    out["ramp_ma"] = judge_ramp(ramp_band(node, reading.waveform), reading.ramp_ma)
+    if reading.button == "failed":
+        out["button"] = Judgement("reading.button-failed", "test button did not trip the device")
+    else:
+        out["button"] = Judgement(None, reading.button or "not recorded")
+    return out

@@ -1,0 +1,81 @@
+"""Every check of a site, run by :func:`analyse`.
+
+Each check is a pure function ``(Context) -> Iterable[Finding]`` listed in
+:data:`CHECKS`.  To add a rule: write the function in the module of its area,
+cite its source in the docstring, add it to ``CHECKS``, and give it a firing
+case and a near miss in ``tests/model``.
+"""
+
+from __future__ import annotations
+
+import dataclasses
+import gc
+from collections.abc import Callable, Iterable
+
+from model.rules.checks.cascade import analyse_pairs, check_cascade
+from model.rules.checks.context import Context
+from model.rules.checks.coverage import (
+    check_ac_unsuitable,
+    check_additional_protection,
+    check_dc_load,
+    check_leakage,
+    check_lighting,
+    check_no_overcurrent,
+)
+from model.rules.checks.earthing import check_earthing
+from model.rules.checks.readings import check_readings
+from model.rules.checks.trend import check_trend
+from model.rules.findings import Analysis, Finding
+from model.rules.limits import IEC_INSTALLATION_SOURCES
+from model.site.models import SiteFile
+
+Check = Callable[[Context], Iterable[Finding]]
+
+CHECKS: list[Check] = [
+    check_cascade,
+    check_ac_unsuitable,
+    check_dc_load,
+    check_additional_protection,
+    check_no_overcurrent,
+    check_earthing,
+    check_leakage,
+    check_lighting,
+    check_readings,
+    check_trend,
+]
+
+
+def analyse(site: SiteFile) -> Analysis:
+    """Run every check on a site; findings worst first, then by board.
+
+    The cyclic garbage collector is paused for the run: the analysis builds
+    many small acyclic objects, and on large sites repeated full collections
+    over the loaded site would make the time grow faster than the site.
+    """
+    paused = gc.isenabled()
+    gc.disable()
+    try:
+        ctx = Context.build(site)
+        ctx.pairs = analyse_pairs(ctx)
+        findings: list[Finding] = []
+        for check in CHECKS:
+            findings.extend(check(ctx))
+        if ctx.rules.name == "iec-60364":
+            findings = [_iec_source(f) for f in findings]
+        findings.sort(key=Finding.sort_key)
+        return Analysis(rules=site.site.rules, findings=findings, pairs=ctx.pairs)
+    finally:
+        if paused:
+            gc.enable()
+
+
+def _iec_source(f: Finding) -> Finding:
+    """The finding with the IEC 60364 source of its installation rule, where one is known."""
+    src = IEC_INSTALLATION_SOURCES.get(f.rule)
+    if src is None:
+        return f
+    basis = "guidance" if f.rule == "earthing.ra-unstable" else f.basis
+    return dataclasses.replace(f, source=src, basis=basis)
+
+
+__all__ = ["analyse", "CHECKS", "Context"]

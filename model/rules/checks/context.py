@@ -1,0 +1,28 @@
+"""What every check reads: the site, its tree index, the rule set and the pair analysis."""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+
+from model.rules.findings import PairAnalysis
+from model.rules.limits import RuleSet, rule_set
+from model.site.models import SiteFile, Visit
+from model.site.tree import SiteIndex
+
+
+@dataclass
+class Context:
+    site: SiteFile
+    index: SiteIndex
+    rules: RuleSet
+    latest: Visit | None
+    pairs: list[PairAnalysis] = field(default_factory=list)
+
+    @classmethod
+    def build(cls, site: SiteFile) -> Context:
+        return cls(
+            site=site,
+            index=SiteIndex.build(site),
+            rules=rule_set(site.site.rules),
+            latest=site.latest_visit(),
+        )

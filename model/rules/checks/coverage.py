@@ -1,0 +1,348 @@
+"""What the residual-current protection covers: types, additional protection, leakage, lighting."""
+
+from __future__ import annotations
+
+from collections.abc import Iterator
+from typing import Any
+
+from model.rules.checks.cascade import DC_BLINDING_SOURCE
+from model.rules.checks.context import Context
+from model.rules.findings import Finding, Severity
+from model.rules.limits import ADDITIONAL_IDN_MA, ADDITIONAL_MAX_A, LEAKAGE_FRACTION
+
+#: Loads that can put smooth DC on the residual current (need Type B or DC detection).
+SMOOTH_DC_LOADS = frozenset({"ev-no-dc-detect", "drive-3ph", "inverter"})
+#: Loads whose current has a DC component of some kind (Type AC unsuitable).
+DC_COMPONENT_LOADS = frozenset(
+    {"ev-no-dc-detect", "ev-dc-detect-6ma", "inverter", "drive-1ph", "drive-3ph", "it-equipment"}
+)
+
+
+def _is_general_30(node: Any) -> bool:
+    return str(node.delay) == "general" and float(node.idn_ma) <= ADDITIONAL_IDN_MA.value
+
+
+def check_ac_unsuitable(ctx: Context) -> Iterator[Finding]:
+    """``type.ac-unsuitable``: Type AC protecting anything but fixed equipment with no DC component.
+
+    Required where a circuit below has a load with a DC component, advisory
+    otherwise (an existing Type AC device on ordinary circuits).
+
+    References
+    ----------
+    BS 7671 531.3.3 (Type AC only for fixed equipment whose load current has no
+    DC component); AS/NZS 3000:2018 2.6.2.2.2 (no new Type AC after 2023-04-30).
+    """
+    idx = ctx.index
+    for dev in idx.rcds():
+        node = idx.by_id[dev]
+        if str(node.waveform) != "AC":
+            continue
+        unsuitable = []
+        with_dc = []
+        for c in idx.descendants(dev):
+            cn = idx.by_id[c]
+            if cn.kind != "circuit":
+                continue
+            if cn.use == "fixed-equipment" and not cn.loads:
+                continue
+            unsuitable.append(c)
+            if DC_COMPONENT_LOADS.intersection(cn.loads):
+                with_dc.append(c)
+        if not unsuitable:
+            continue
+        severity: Severity = "required" if with_dc else "advisory"
+        names = ", ".join(idx.label(c) for c in unsuitable[:6])
+        if len(unsuitable) > 6:
+            names += f" and {len(unsuitable) - 6} more"
+        dc_note = f" {len(with_dc)} of them feed loads with a DC component." if with_dc else ""
+        yield Finding(
+            rule="type.ac-unsuitable",
+            severity=severity,
+            nodes=(dev, *unsuitable),
+            board=idx.board_of[dev],
+            message=(
+                f"{idx.label(dev)} is Type AC but protects circuits other than fixed equipment "
+                f"with no DC component: {names}.{dc_note}"
+            ),
+            action="Replace with a Type A device (Type F or B where the loads need it).",
+            source=ctx.rules.type_ac_source,
+            basis="standard" if ctx.rules.name == "uk-bs7671-2022" else "common-practice",
+        )
+
+
+def check_dc_load(ctx: Context) -> Iterator[Finding]:
+    """Smooth-DC loads: ``type.dc-load`` and the blinding of the devices above them.
+
+    ``type.dc-load``: a load that can produce smooth DC residual current with
+    no Type B device in its path (DC detection in the equipment, flag
+    ``ev-dc-detect-6ma``, is not a smooth-DC load).  ``cascade.dc-blinding``
+    (load form): a non-Type-B device above such a load that also protects
+    other circuits, which it may then fail to protect.
+
+    References
+    ----------
+    BS 7671 531.3.3; BS 7671 722.531.3.101 (EV: Type B, or Type A with 6 mA DC
+    detection); manufacturers' guidance on DC blinding (medium confidence).
+    """
+    idx = ctx.index
+    circuits_below: dict[str, int] = {}
+    for c in idx.circuits():
+        for r in idx.rcd_above[c]:
+            circuits_below[r] = circuits_below.get(r, 0) + 1
+    blinded: dict[str, list[str]] = {}
+    for c in idx.circuits():
+        cn = idx.by_id[c]
+        dc = sorted(SMOOTH_DC_LOADS.intersection(cn.loads))
+        if not dc:
+            continue
+        path = idx.rcd_above[c]
+        if not any(str(idx.by_id[r].waveform) == "B" for r in path):
+            yield Finding(
+                rule="type.dc-load",
+                severity="required",
+                nodes=(c, *path),
+                board=idx.board_of[c],
+                message=(
+                    f"{idx.label(c)} feeds loads that can produce smooth DC residual current "
+                    f"({', '.join(dc)}) with no Type B device in its path."
+                ),
+                action="Protect the circuit with a Type B RCD, or use equipment with its own "
+                "6 mA DC detection feeding from a Type A device.",
+                source="BS 7671 531.3.3; BS 7671 722.531.3.101",
+                basis="standard",
+            )
+        for r in path:
+            if str(idx.by_id[r].waveform) == "B":
+                break  # the pair form of the finding covers devices above a Type B one
+            if circuits_below.get(r, 0) > 1:
+                blinded.setdefault(r, []).append(c)
+    for r, loads in blinded.items():
+        others = circuits_below[r] - len(loads)
+        if others <= 0:
+            continue
+        node = idx.by_id[r]
+        yield Finding(
+            rule="cascade.dc-blinding",
+            severity="advisory",
+            nodes=(r, *loads),
+            board=idx.board_of[r],
+            message=(
+                f"{idx.label(r)} (Type {node.waveform}) is upstream of smooth-DC loads on "
+                f"{', '.join(idx.label(c) for c in loads)}; DC may blind it and leave the other "
+                f"{others} circuit(s) it protects without effective protection."
+            ),
+            action="Feed the DC-producing loads through a Type B device that is not downstream "
+            "of this one, or make this device Type B.",
+            source=DC_BLINDING_SOURCE,
+            basis="guidance",
+        )
+
+
+def additional_reasons(ctx: Context, circuit: Any) -> list[tuple[str, str]]:
+    """Why a circuit needs 30 mA additional protection: (reason, source) pairs.
+
+    References
+    ----------
+    BS 7671 411.3.3 (sockets <= 32 A; mobile equipment outdoors <= 32 A);
+    411.3.4 (domestic lighting); 522.6.202/203 (concealed cables);
+    701.411.3.3 (bathrooms); 722.531.3.101 (EV charging).
+    """
+    uk = ctx.rules.name == "uk-bs7671-2022"
+
+    def src(uk_src: str, iec_src: str) -> str:
+        return uk_src if uk else iec_src + " (common practice)"
+
+    out: list[tuple[str, str]] = []
+    rated = circuit.rated_a
+    small = rated is None or rated <= ADDITIONAL_MAX_A.value
+    if circuit.use == "sockets" and small:
+        out.append(
+            ("socket-outlets up to 32 A", src("BS 7671 411.3.3(a)", "IEC 60364-4-41 411.3.3"))
+        )
+    outdoor = circuit.use == "outdoor" or (
+        "outdoor" in circuit.location and circuit.use not in ("fixed-equipment", "lighting")
+    )
+    if outdoor and small:
+        out.append(
+            ("mobile equipment used outdoors", src("BS 7671 411.3.3(b)", "IEC 60364-4-41 411.3.3"))
+        )
+    if circuit.use == "lighting" and ctx.site.site.domestic and ctx.rules.domestic_lighting:
+        out.append(("lighting in a dwelling", src("BS 7671 411.3.4", "IEC 60364-4-41 411.3.4")))
+    if circuit.concealed_shallow:
+        out.append(
+            (
+                "cables concealed less than 50 mm deep without protection",
+                src("BS 7671 522.6.202/522.6.203", "IEC 60364-5-52 522.6"),
+            )
+        )
+    if "bathroom" in circuit.location:
+        out.append(("serves a bathroom", src("BS 7671 701.411.3.3", "IEC 60364-7-701")))
+    if circuit.use == "ev-charger" or {"ev-no-dc-detect", "ev-dc-detect-6ma"} & set(circuit.loads):
+        out.append(("EV charging point", src("BS 7671 722.531.3.101", "IEC 60364-7-722")))
+    return out
+
+
+def check_additional_protection(ctx: Context) -> Iterator[Finding]:
+    """``coverage.additional-protection``: circuits that need a 30 mA general RCD and lack one.
+
+    Only a general-type (not time-delayed) protective device of IΔn <= 30 mA
+    in the circuit's path counts; an RCM never does.
+
+    References
+    ----------
+    BS 7671 411.3.3, 411.3.4, 522.6.202, 522.6.203, 701.411.3.3, 722.531.3.101.
+    """
+    idx = ctx.index
+    basis = ctx.rules.additional_basis
+    for c in idx.circuits():
+        cn = idx.by_id[c]
+        reasons = additional_reasons(ctx, cn)
+        if not reasons:
+            continue
+        if any(_is_general_30(idx.by_id[r]) for r in idx.rcd_above[c]):
+            continue
+        why = "; ".join(r for r, _ in reasons)
+        sources = "; ".join(dict.fromkeys(s for _, s in reasons))
+        path = idx.rcd_above[c]
+        have = (
+            "its only residual-current protection is "
+            + ", ".join(
+                f"{idx.label(r)} ({idx.by_id[r].idn_ma:g} mA {idx.by_id[r].delay})" for r in path
+            )
+            if path
+            else "it has no residual-current protection"
+        )
+        yield Finding(
+            rule="coverage.additional-protection",
+            severity="required",
+            nodes=(c, *path),
+            board=idx.board_of[c],
+            message=(
+                f"{idx.label(c)} needs additional protection by an RCD of 30 mA or less "
+                f"({why}); {have}."
+            ),
+            action="Provide a general-type RCD or RCBO of IΔn ≤ 30 mA for this circuit.",
+            source=sources,
+            basis=basis,
+        )
+
+
+def check_no_overcurrent(ctx: Context) -> Iterator[Finding]:
+    """``coverage.no-overcurrent``: an RCCB with no overcurrent device upstream or on every circuit.
+
+    References
+    ----------
+    IEC 61008-1 (an RCCB has no overcurrent protection and relies on a
+    fuse or circuit-breaker in its supply or in every circuit it feeds).
+    """
+    idx = ctx.index
+    for dev in idx.rcds():
+        if idx.kind(dev) != "rccb" or idx.ocpd_above[dev]:
+            continue
+        circuits = [c for c in idx.descendants(dev) if idx.kind(c) == "circuit"]
+        bare = [c for c in circuits if not idx.ocpd_above[c]]
+        if not bare:
+            continue
+        yield Finding(
+            rule="coverage.no-overcurrent",
+            severity="required",
+            nodes=(dev, *bare),
+            board=idx.board_of[dev],
+            message=(
+                f"{idx.label(dev)} is an RCCB with no fuse or circuit-breaker upstream, and "
+                f"{len(bare)} circuit(s) below it have none either: "
+                + ", ".join(idx.label(c) for c in bare[:6])
+                + "."
+            ),
+            action="Add overcurrent protection on the supply side of the RCCB or on each circuit "
+            "(and record the supply fuse in the tree if it exists).",
+            source="IEC 61008-1 (RCCB without integral overcurrent protection)",
+            basis="standard",
+        )
+
+
+def leakage_below(ctx: Context) -> dict[str, float]:
+    """Sum of the circuits' estimated standing leakage below each protective RCD. [mA]
+
+    Leakage below a downstream device passes through every device above it too.
+    """
+    idx = ctx.index
+    total: dict[str, float] = dict.fromkeys(idx.rcds(), 0.0)
+    for c in idx.circuits():
+        leak = idx.by_id[c].leakage_ma
+        if leak:
+            for r in idx.rcd_above[c]:
+                total[r] += float(leak)
+    return total
+
+
+def check_leakage(ctx: Context) -> Iterator[Finding]:
+    """``leakage.over-30pct``: standing leakage below a device over 30 % of its IΔn.
+
+    Exactly 30 % passes.
+
+    References
+    ----------
+    BS 7671 531.3.2(iii).
+    """
+    idx = ctx.index
+    total = leakage_below(ctx)
+    for dev in idx.rcds():
+        node = idx.by_id[dev]
+        limit = LEAKAGE_FRACTION.value * float(node.idn_ma)
+        got = total[dev]
+        if got > limit + 1e-9:
+            yield Finding(
+                rule="leakage.over-30pct",
+                severity="required",
+                nodes=(dev,),
+                board=idx.board_of[dev],
+                message=(
+                    f"Standing leakage below {idx.label(dev)} is about {got:.3g} mA, over 30 % of "
+                    f"its {node.idn_ma:g} mA rating ({limit:.3g} mA): nuisance trips are likely."
+                ),
+                action="Split the circuits over more devices so each carries no more than 30 % "
+                "of its IΔn in standing leakage.",
+                source=LEAKAGE_FRACTION.source,
+                basis="standard",
+                measured=f"{got:.3g} mA",
+                band=f"≤ {limit:.3g} mA",
+            )
+
+
+def check_lighting(ctx: Context) -> Iterator[Finding]:
+    """``resilience.lighting-single-rcd``: one device's trip puts out all the lighting.
+
+    Fires where the site has two or more lighting circuits and every one of
+    them has the same nearest residual-current device, which is the device a
+    fault on any of them trips first.
+
+    References
+    ----------
+    BS 7671 314.1 / 314.2; IEC 60364-3 (divide the installation to avoid
+    danger and inconvenience in the event of a fault).
+    """
+    idx = ctx.index
+    lights = [c for c in idx.circuits() if idx.by_id[c].use == "lighting"]
+    if len(lights) < 2:
+        return
+    nearest = {idx.rcd_above[c][0] if idx.rcd_above[c] else None for c in lights}
+    if len(nearest) != 1:
+        return
+    (dev,) = nearest
+    if dev is None:
+        return
+    yield Finding(
+        rule="resilience.lighting-single-rcd",
+        severity="advisory",
+        nodes=(dev, *lights),
+        board=idx.board_of[dev],
+        message=(
+            f"All {len(lights)} lighting circuits are on {idx.label(dev)}: one trip leaves the "
+            "whole site without lighting."
+        ),
+        action="Move a lighting circuit to a different RCD or RCBO so some lighting stays on.",
+        source="BS 7671 314.1/314.2; IEC 60364-3",
+        basis="standard",
+    )

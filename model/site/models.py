@@ -1,0 +1,247 @@
+"""The site file: the site's details, the tree of nodes and the visits' readings.
+
+This is the persisted form of a site file (format ``tripwise.site``, version 1).
+Tree-wide rules (one origin, known parents, no cycles, readings only for
+residual-current devices) are checked on the whole document in
+:class:`SiteFile`.  The nodes are in :mod:`model.site.nodes`, the vocabulary in
+:mod:`model.site.terms`.
+"""
+
+from __future__ import annotations
+
+import datetime as dt
+import re
+from typing import Annotated, Any, Literal
+
+from pydantic import (
+    Field,
+    StringConstraints,
+    field_validator,
+    model_validator,
+)
+
+from model.site.nodes import ALLOWED_CHILDREN, Node
+from model.site.terms import (
+    RCD_KINDS,
+    TEST_NAMES,
+    Earthing,
+    NodeId,
+    RuleSetName,
+    StrictModel,
+    TestWaveform,
+    TripResult,
+)
+
+
+class TrendSettings(StrictModel):
+    """Thresholds for flagging a trip time that has grown since the previous visit."""
+
+    growth_pct: Annotated[float, Field(gt=0, le=10_000)] = Field(
+        default=50.0, description="Growth that is flagged. [%]"
+    )
+    min_ms: Annotated[float, Field(ge=0, le=10_000)] = Field(
+        default=10.0, description="Smallest growth that is flagged. [ms]"
+    )
+
+
+class SiteInfo(StrictModel):
+    """Facts about the site and its supply."""
+
+    name: Annotated[str, StringConstraints(min_length=1, max_length=200)] = Field(
+        description="Site name."
+    )
+    address: Annotated[str, StringConstraints(max_length=500)] = Field(default="", description="")
+    client: Annotated[str, StringConstraints(max_length=200)] = Field(default="", description="")
+    earthing: Earthing = Field(description="Earthing system: TN-S, TN-C-S, TT or IT.")
+    u0_v: Annotated[float, Field(ge=50, le=1000)] = Field(
+        default=230.0, description="Nominal line-to-earth voltage U0. [V]"
+    )
+    ze_ohm: Annotated[float, Field(gt=0, le=100_000)] | None = Field(
+        default=None, description="Measured external earth fault loop impedance Ze. [Ω]"
+    )
+    ra_ohm: Annotated[float, Field(gt=0, le=100_000)] | None = Field(
+        default=None,
+        description="Measured resistance of the earth electrode and protective conductor RA (TT). [Ω]",
+    )
+    rules: RuleSetName = Field(default="uk-bs7671-2022", description="Rule set the checks apply.")
+    domestic: bool = Field(
+        default=True, description="A dwelling (the lighting rule of BS 7671 411.3.4 applies)."
+    )
+    trend: TrendSettings = Field(default_factory=TrendSettings, description="Trend thresholds.")
+    notes: Annotated[str, StringConstraints(max_length=20_000)] = Field(default="", description="")
+
+    @field_validator("rules", mode="before")
+    @classmethod
+    def _known_rules(cls, v: Any) -> Any:
+        if isinstance(v, str) and v not in ("uk-bs7671-2022", "iec-60364"):
+            raise ValueError(f"unknown rule set {v!r}; choose 'uk-bs7671-2022' or 'iec-60364'")
+        return v
+
+
+class Reading(StrictModel):
+    """One device's results on one visit."""
+
+    half_0: TripResult | None = Field(
+        default=None, description="½ IΔn at 0°. [ms] or 'did not trip'"
+    )
+    half_180: TripResult | None = Field(default=None, description="½ IΔn at 180°.")
+    x1_0: TripResult | None = Field(
+        default=None, description="1 × IΔn at 0°. [ms] or 'did not trip'"
+    )
+    x1_180: TripResult | None = Field(default=None, description="1 × IΔn at 180°.")
+    x5_0: TripResult | None = Field(
+        default=None, description="5 × IΔn at 0°. [ms] or 'did not trip'"
+    )
+    x5_180: TripResult | None = Field(default=None, description="5 × IΔn at 180°.")
+    ramp_ma: Annotated[float, Field(strict=True, gt=0, le=100_000)] | None = Field(
+        default=None, description="Ramp test trip current. [mA]"
+    )
+    button: Literal["worked", "failed"] | None = Field(
+        default=None, description="Integral test button."
+    )
+    waveform: TestWaveform = Field(default="AC", description="Test current waveform used.")
+    note: Annotated[str, StringConstraints(max_length=2000)] = Field(default="", description="")
+    not_tested: Annotated[str, StringConstraints(min_length=1, max_length=500)] | None = Field(
+        default=None, description="Reason the device was not tested (instead of readings)."
+    )
+
+    @model_validator(mode="after")
+    def _not_tested_excludes_values(self) -> Reading:
+        if self.not_tested is not None and self.has_values():
+            raise ValueError("a reading marked not_tested cannot also carry test values")
+        return self
+
+    def has_values(self) -> bool:
+        """True when any test value is recorded."""
+        return any(getattr(self, t) is not None for t in TEST_NAMES) or (
+            self.ramp_ma is not None or self.button is not None
+        )
+
+
+_DATE_RE = re.compile(r"^\d{4}-\d{2}-\d{2}$")
+
+
+class Visit(StrictModel):
+    """One inspection visit and the readings taken on it."""
+
+    id: NodeId = Field(description="Unique visit id (e.g. the date).")
+    date: str = Field(description="Visit date, YYYY-MM-DD.")
+    inspector: Annotated[str, StringConstraints(max_length=200)] = Field(default="", description="")
+    instrument: Annotated[str, StringConstraints(max_length=200)] = Field(
+        default="", description="Test instrument (free text)."
+    )
+    notes: Annotated[str, StringConstraints(max_length=20_000)] = Field(default="", description="")
+    readings: dict[NodeId, Reading] = Field(
+        default_factory=dict, description="Readings by residual-current device id."
+    )
+
+    @field_validator("date")
+    @classmethod
+    def _iso_date(cls, v: str) -> str:
+        if not _DATE_RE.match(v):
+            raise ValueError(f"date {v!r} must be YYYY-MM-DD")
+        try:
+            dt.date.fromisoformat(v)
+        except ValueError as exc:
+            raise ValueError(f"date {v!r} is not a real date") from exc
+        return v
+
+
+class SiteFile(StrictModel):
+    """A whole site file."""
+
+    format: Literal["tripwise.site"] = Field(description="Always 'tripwise.site'.")
+    version: Literal[1] = Field(description="Format version.")
+    site: SiteInfo
+    nodes: list[Node] = Field(description="The protection tree as a flat list.")
+    visits: list[Visit] = Field(default_factory=list, description="Visits, oldest first.")
+
+    @model_validator(mode="after")
+    def _tree_rules(self) -> SiteFile:
+        problems = tree_problems(self)
+        if problems:
+            raise ValueError("; ".join(problems))
+        return self
+
+    def node(self, node_id: str) -> Any:
+        """The node with this id (KeyError when absent)."""
+        for n in self.nodes:
+            if n.id == node_id:
+                return n
+        raise KeyError(node_id)
+
+    def latest_visit(self) -> Visit | None:
+        """The most recent visit by date (the later one in the list on a tie)."""
+        if not self.visits:
+            return None
+        best = self.visits[0]
+        for v in self.visits[1:]:
+            if v.date >= best.date:
+                best = v
+        return best
+
+
+def tree_problems(sf: SiteFile) -> list[str]:
+    """Every whole-document problem, each naming the node or visit it concerns."""
+    problems: list[str] = []
+    by_id: dict[str, Any] = {}
+    for i, n in enumerate(sf.nodes):
+        if n.id in by_id:
+            problems.append(f"nodes[{i}] ({n.id}): duplicate id {n.id!r}")
+        else:
+            by_id[n.id] = n
+    origins = [n for n in sf.nodes if n.kind == "origin"]
+    if len(origins) != 1:
+        problems.append(f"nodes: need exactly one origin, found {len(origins)}")
+    for i, n in enumerate(sf.nodes):
+        if n.kind == "origin":
+            if n.parent is not None:
+                problems.append(f"nodes[{i}] ({n.id}): the origin cannot have a parent")
+            continue
+        if n.parent is None:
+            problems.append(f"nodes[{i}] ({n.id}): parent is missing (only the origin has none)")
+        elif n.parent not in by_id:
+            problems.append(f"nodes[{i}] ({n.id}): unknown parent {n.parent!r}")
+        elif n.parent == n.id:
+            problems.append(f"nodes[{i}] ({n.id}): a node cannot be its own parent")
+        else:
+            parent_kind = by_id[n.parent].kind
+            if n.kind not in ALLOWED_CHILDREN[parent_kind]:
+                problems.append(
+                    f"nodes[{i}] ({n.id}): a {n.kind} cannot be fed by a {parent_kind} ({n.parent})"
+                )
+    if not problems:
+        problems.extend(_cycles(sf, by_id))
+    seen_visits: set[str] = set()
+    for vi, v in enumerate(sf.visits):
+        if v.id in seen_visits:
+            problems.append(f"visits[{vi}] ({v.id}): duplicate visit id")
+        seen_visits.add(v.id)
+        for dev in v.readings:
+            node = by_id.get(dev)
+            if node is None:
+                problems.append(f"visits[{vi}].readings.{dev}: no node with id {dev!r}")
+            elif node.kind not in RCD_KINDS:
+                problems.append(
+                    f"visits[{vi}].readings.{dev}: readings are for residual-current devices, "
+                    f"not a {node.kind}"
+                )
+    return problems
+
+
+def _cycles(sf: SiteFile, by_id: dict[str, Any]) -> list[str]:
+    state: dict[str, int] = {}
+    out: list[str] = []
+    for n in sf.nodes:
+        path: list[str] = []
+        cur: str | None = n.id
+        while cur is not None and state.get(cur, 0) == 0:
+            state[cur] = 1
+            path.append(cur)
+            cur = by_id[cur].parent
+        if cur is not None and state.get(cur) == 1:
+            loop = path[path.index(cur) :] if cur in path else [cur]
+            out.append(f"nodes ({cur}): cycle {' -> '.join(loop + [cur])}")
+        for p in path:
+            state[p] = 2
+    return out

@@ -1,0 +1,36 @@
+"""The one reading of a number typed by a person or found in a file.
+
+A value is recorded exactly as typed or refused with the reason, never
+guessed: digits with at most one decimal mark.  Either "." or "," is taken as
+the decimal mark (both are usual on site), but "1,000" is refused because it
+may mean one thousand.  Exponents ("1e3"), "inf", "nan" and thousands
+separators are refused.
+"""
+
+from __future__ import annotations
+
+import re
+
+_NUMBER = re.compile(r"[+-]?(?:[0-9]+(?:[.,][0-9]*)?|[.,][0-9]+)")
+_AMBIGUOUS = re.compile(r"[+-]?[0-9]{1,3},[0-9]{3}")
+
+#: What a number may look like, for messages.
+NUMBER_RULE = "digits with at most one decimal point, e.g. 0.5"
+
+
+def parse_number(text: str) -> float | None:
+    """The number in ``text``; None when it is empty.
+
+    Raises ValueError, in plain words, for anything that is not a plain
+    decimal number.
+    """
+    t = text.strip()
+    if not t:
+        return None
+    if _AMBIGUOUS.fullmatch(t):
+        raise ValueError(
+            f"{text.strip()!r} is ambiguous: write it without the comma, or with a point"
+        )
+    if not _NUMBER.fullmatch(t):
+        raise ValueError(f"{text.strip()!r} is not a number ({NUMBER_RULE})")
+    return float(t.replace(",", "."))

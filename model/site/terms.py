@@ -1,0 +1,88 @@
+"""The site file's vocabulary: format name, ids, choices and the kinds of node.
+
+Glossary of field names used across the project: ``idn_ma`` rated residual
+operating current [mA], ``rated_a`` rated current [A], ``trip_ms`` trip time
+[ms], ``zs_ohm`` earth fault loop impedance [Ω], ``ra_ohm`` earth electrode
+plus protective conductor resistance [Ω], ``ze_ohm`` external loop impedance
+[Ω], ``u0_v`` nominal line-to-earth voltage [V], ``leakage_ma`` standing
+protective-conductor current [mA].
+"""
+
+from __future__ import annotations
+
+import math
+from typing import Annotated, Literal
+
+from pydantic import (
+    BaseModel,
+    ConfigDict,
+    Field,
+    StringConstraints,
+)
+
+FORMAT_NAME = "tripwise.site"
+FORMAT_VERSION = 1
+
+#: What a node or visit id may be, as a pattern and in words.
+ID_PATTERN = r"^[A-Za-z0-9][A-Za-z0-9._-]{0,39}$"
+ID_RULE = "1 to 40 letters, digits, '.', '_' or '-', starting with a letter or digit"
+
+NodeId = Annotated[
+    str,
+    StringConstraints(pattern=ID_PATTERN),
+    Field(description="Short unique id chosen by the user (letters, digits, . _ -; max 40)."),
+]
+
+Earthing = Literal["TN-S", "TN-C-S", "TT", "IT"]
+RuleSetName = Literal["uk-bs7671-2022", "iec-60364"]
+Waveform = Literal["AC", "A", "F", "B"]
+Delay = Literal["general", "S", "set"]
+CircuitUse = Literal[
+    "sockets",
+    "lighting",
+    "cooker",
+    "shower",
+    "water-heater",
+    "heating",
+    "ev-charger",
+    "outdoor",
+    "fixed-equipment",
+    "other",
+]
+LoadFlag = Literal[
+    "ev-no-dc-detect",
+    "ev-dc-detect-6ma",
+    "inverter",
+    "drive-1ph",
+    "drive-3ph",
+    "it-equipment",
+]
+LocationFlag = Literal["bathroom", "outdoor", "agricultural", "swimming-pool", "sauna", "wet-area"]
+TestWaveform = Literal["AC", "half-wave", "smooth-dc"]
+TestName = Literal["half_0", "half_180", "x1_0", "x1_180", "x5_0", "x5_180"]
+
+#: The explicit "did not trip" state of a timed test.  Recorded as this string,
+#: never as a number: an instrument that stops at its maximum test time has not
+#: measured a trip time.
+DID_NOT_TRIP = "did not trip"
+
+TripResult = Annotated[float, Field(strict=True, gt=0, le=10_000)] | Literal["did not trip"]
+
+TEST_NAMES: tuple[TestName, ...] = ("half_0", "half_180", "x1_0", "x1_180", "x5_0", "x5_180")
+
+#: Kinds that are residual-current *protective* devices (an RCM is not).
+RCD_KINDS = frozenset({"rccb", "rcbo", "srcd", "prcd", "cbr"})
+#: Kinds that give overcurrent protection.
+OVERCURRENT_KINDS = frozenset({"fuse", "mcb", "rcbo", "cbr"})
+
+STRICT = ConfigDict(extra="forbid", strict=True, validate_default=True)
+
+
+def finite(value: float | None, name: str) -> float | None:
+    if value is not None and not math.isfinite(value):
+        raise ValueError(f"{name} must be a finite number")
+    return value
+
+
+class StrictModel(BaseModel):
+    model_config = STRICT

@@ -1,0 +1,414 @@
+"""Editing a site file: the one API the app uses to change a site on disk.
+
+An :class:`EditSession` holds the site open for editing (with the lock of
+:mod:`model.storage.lock`), records every accepted edit in the recovery journal of
+:mod:`model.storage.journal` before it returns, and writes the whole file with
+:func:`model.storage.store.save_site` on :meth:`EditSession.save`.  So an edit that has
+returned is on disk, whatever happens next; opening the site again replays the
+journal and lists what was recovered.
+
+Files beside ``site.json``: ``site.json.bak`` (the version before the last
+save), ``site.json.tripwise-journal`` (edits not yet in the file),
+``site.json.tripwise-lock`` (who is editing), and after opening an older
+format version, ``site.json.v<N>.bak`` (the file as it was before conversion).
+"""
+
+from __future__ import annotations
+
+import contextlib
+import json
+import os
+import re
+from pathlib import Path
+
+from pydantic import ValidationError
+
+from model.site.models import Reading, SiteFile, SiteInfo, Visit
+from model.site.nodes import Node
+from model.site.terms import FORMAT_VERSION, ID_PATTERN
+from model.storage.journal import (
+    COMPACT_BYTES,
+    JOURNAL_SUFFIX,
+    DeleteNodes,
+    InvalidEdit,
+    JournalContents,
+    JournalWriter,
+    Op,
+    ReplaceSite,
+    SetReading,
+    SetSiteInfo,
+    UpsertNode,
+    UpsertVisit,
+    apply_op,
+    describe_op,
+    journal_path,
+    move_aside,
+    read_journal,
+    validated_op,
+)
+from model.storage.lock import LockHeld, LockInfo, LockUnavailable, SiteLock
+from model.storage.store import (
+    SaveError,
+    SiteLoadError,
+    backup_path,
+    copy_aside,
+    describe_validation_error,
+    digest_bytes,
+    dumps_site,
+    plain_os_error,
+    read_site,
+    write_site_bytes,
+)
+
+_ID_RE = re.compile(ID_PATTERN)
+
+__all__ = ["EditSession", "LockHeld", "LockInfo", "SaveError", "SiteLoadError", "InvalidEdit"]
+
+
+def _digest_of(path: Path) -> str | None:
+    try:
+        return digest_bytes(path.read_bytes())
+    except OSError:
+        return None
+
+
+class EditSession:
+    """A site open in the editor.  See the module docstring.
+
+    ``site`` is replaced, never changed in place, by each edit (consecutive
+    sites share unchanged parts), so the caller may keep earlier ``site``
+    values, e.g. for undo, but must not mutate them.
+    """
+
+    path: Path
+    site: SiteFile
+    read_only: bool
+    #: One plain line per journal entry replayed on open.
+    recovered: list[str]
+    #: Things the user should know (torn journal line ignored, file converted, ...).
+    warnings: list[str]
+
+    def __init__(
+        self,
+        path: Path,
+        site: SiteFile,
+        *,
+        read_only: bool,
+        digest: str,
+        lock: SiteLock | None,
+        source_version: int = FORMAT_VERSION,
+    ) -> None:
+        self.path = path
+        self.site = site
+        self.read_only = read_only
+        self.recovered = []
+        self.warnings = []
+        self._digest = digest
+        self._lock = lock
+        self._source_version = source_version
+        self._journal: JournalWriter | None = None if read_only else JournalWriter(path, digest)
+        self._pending = 0
+
+    # --- opening ------------------------------------------------------------
+
+    @classmethod
+    def open(cls, path: str | os.PathLike[str], *, read_only: bool = False) -> EditSession:
+        """Open a site; replay its journal.  Raises ``SiteLoadError`` or ``LockHeld``."""
+        p = _canonical(path)
+        lock: SiteLock | None = None
+        if not read_only:
+            if not p.exists():
+                raise SiteLoadError(p, "no such file")
+            try:
+                lock = SiteLock.acquire(p)
+            except LockUnavailable as exc:
+                raise SiteLoadError(
+                    p,
+                    f"cannot open for editing: {plain_os_error(exc)} when making the lock file "
+                    f"{Path(exc.filename or '').name}; open it read-only instead",
+                ) from None
+        try:
+            loaded = read_site(p)
+            s = cls(
+                p,
+                loaded.site,
+                read_only=read_only,
+                digest=loaded.digest,
+                lock=lock,
+                source_version=loaded.source_version,
+            )
+            if lock is not None and lock.took_over is not None:
+                t = lock.took_over
+                if (t.host, t.pid) != (lock.info.host, lock.info.pid):
+                    s.warnings.append(
+                        f"took over the editing lock left by pid {t.pid} on host {t.host} "
+                        f"(since {t.since_text()}), which is no longer running"
+                    )
+            if loaded.source_version < FORMAT_VERSION:
+                s.warnings.append(
+                    f"{p.name} is in format version {loaded.source_version}; it was converted "
+                    f"in memory and will be written as version {FORMAT_VERSION} when you save "
+                    f"(the original will be kept as {s._version_backup().name})"
+                )
+            s._recover()
+            if not read_only:
+                s._remove_stray_temp_files()
+        except BaseException:
+            if lock is not None:
+                lock.release()
+            raise
+        return s
+
+    @classmethod
+    def create(cls, path: str | os.PathLike[str], site: SiteFile) -> EditSession:
+        """Write a new site file and open it; ``FileExistsError`` if the path exists."""
+        p = _canonical(path)
+        if p.exists():
+            raise FileExistsError(f"{p} already exists; tripwise will not overwrite it")
+        site = apply_op(
+            site, validated_op(ReplaceSite.model_construct(op="replace-site", site=site))
+        )
+        try:
+            lock = SiteLock.acquire(p)
+        except LockUnavailable as exc:
+            raise SaveError(p, "making the lock file", plain_os_error(exc)) from None
+        try:
+            data = dumps_site(site).encode("utf-8")
+            old = read_journal(journal_path(p))
+            write_site_bytes(data, p, exclusive=True)
+            s = cls(p, site, read_only=False, digest=digest_bytes(data), lock=lock)
+            if old is not None:
+                moved = move_aside(old.path, "unused")
+                s.warnings.append(
+                    "an old recovery journal for a file of this name was set aside"
+                    + (f" as {moved.name}" if moved else "")
+                )
+        except BaseException:
+            lock.release()
+            raise
+        return s
+
+    def _version_backup(self) -> Path:
+        return self.path.with_name(f"{self.path.name}.v{self._source_version}.bak")
+
+    def _recover(self) -> None:
+        jp = journal_path(self.path)
+        contents = read_journal(jp)
+        if contents is None:
+            return
+        self.warnings.extend(contents.warnings)
+        if contents.base == self._digest:
+            self._replay(contents)
+            return
+        if self._digest in contents.saving:
+            # The last save replaced the file but stopped before it could clear the
+            # journal: every entry is already in the file.
+            if not self.read_only:
+                self._discard_journal(jp)
+            return
+        if contents.base is None and not contents.ops:
+            if not self.read_only and not contents.warnings:
+                self._discard_journal(jp)
+            elif not self.read_only:
+                moved = move_aside(jp, "unreadable")
+                if moved:
+                    self.warnings.append(f"the unreadable journal was kept as {moved.name}")
+            return
+        n = len(contents.ops)
+        if n == 0 and not contents.warnings:
+            if not self.read_only:  # nothing in it but a header: nothing to keep
+                self._discard_journal(jp)
+            return
+        where = ""
+        if not self.read_only:
+            moved = move_aside(jp, "unapplied")
+            where = f"; they are kept in {moved.name}" if moved else ""
+        self.warnings.append(
+            f"{self.path.name} was changed outside tripwise after the recovery journal was "
+            f"written, so its {n} unsaved edit{'s were' if n != 1 else ' was'} not applied{where}"
+        )
+
+    def _replay(self, contents: JournalContents) -> None:
+        site = self.site
+        for op in contents.ops:
+            try:
+                site = apply_op(site, op)
+            except InvalidEdit as exc:
+                self.warnings.append(
+                    f"the recorded {describe_op(op)} could not be applied and was skipped: {exc}"
+                )
+                continue
+            self.recovered.append(f"recovered {describe_op(op)}")
+        self.site = site
+        self._pending = len(contents.ops)
+        if not self.read_only:
+            assert self._journal is not None
+            self._journal = JournalWriter(self.path, self._digest, existing_size=contents.good_size)
+
+    def _discard_journal(self, jp: Path) -> None:
+        with contextlib.suppress(OSError):
+            jp.unlink()
+
+    def _remove_stray_temp_files(self) -> None:
+        """Temporary files left by a save that was cut off (we hold the lock: nobody else saves)."""
+        pattern = re.compile(
+            r"^\."
+            + re.escape(self.path.name)
+            + r"(\.bak|\.v\d+\.bak|"
+            + re.escape(JOURNAL_SUFFIX)
+            + r")?\.(\d+)-[0-9a-f]{8}\.tmp$"
+        )
+        with contextlib.suppress(OSError):
+            for entry in os.scandir(self.path.parent):
+                m = pattern.match(entry.name)
+                if m and not _pid_alive(int(m.group(2))):
+                    with contextlib.suppress(OSError):
+                        os.unlink(entry.path)
+
+    # --- state --------------------------------------------------------------
+
+    @property
+    def dirty(self) -> bool:
+        """True when the journal holds edits not yet written to the site file."""
+        return self._pending > 0
+
+    def _check_writable(self) -> None:
+        if self.read_only:
+            raise PermissionError(f"{self.path.name} is open read-only; nothing can be changed")
+        if self._journal is None or (self._lock is not None and not self._lock.held):
+            raise PermissionError(f"{self.path.name} is closed; open it again to edit")
+
+    def _commit(self, op: Op, *, trusted: bool = False) -> None:
+        """Validate, journal (synced), then show: the order that makes edits survive crashes."""
+        self._check_writable()
+        if not trusted:
+            op = validated_op(op)
+        new_site = apply_op(self.site, op)
+        assert self._journal is not None
+        self._journal.append(op)
+        self.site = new_site
+        self._pending += 1
+        if self._journal.size > COMPACT_BYTES and self._pending > 1:
+            with contextlib.suppress(SaveError):
+                self._journal.compact(self.site)
+                self._pending = 1
+
+    # --- edits --------------------------------------------------------------
+
+    def set_reading(self, visit_id: str, device_id: str, reading: Reading | None) -> None:
+        """Record (or with None remove) one device's reading on one visit."""
+        self._check_writable()
+        if reading is not None:
+            # re-check the reading itself (it may have been built without validation)
+            raw = reading.model_dump(mode="json", exclude_defaults=True)
+            try:
+                reading = Reading.model_validate(json.loads(json.dumps(raw)))
+            except ValidationError as exc:
+                problem = describe_validation_error(exc, raw)
+                raise InvalidEdit(f"reading for {device_id}: {problem}") from None
+            except (TypeError, ValueError) as exc:
+                raise InvalidEdit(f"reading for {device_id}: {exc}") from None
+        op: Op = SetReading.model_construct(
+            op="set-reading", visit=visit_id, device=device_id, reading=reading
+        )
+        if not _is_id(visit_id) or not _is_id(device_id):
+            op = validated_op(op)
+        self._commit(op, trusted=True)
+
+    def upsert_node(self, node: Node) -> None:
+        """Add a node, or replace the node with the same id (the whole tree is checked)."""
+        self._commit(UpsertNode.model_construct(op="upsert-node", node=node))
+
+    def delete_nodes(self, ids: list[str]) -> None:
+        """Remove nodes and their readings; children not also removed make it fail."""
+        self._commit(DeleteNodes.model_construct(op="delete-nodes", ids=list(ids)))
+
+    def set_site_info(self, info: SiteInfo) -> None:
+        """Replace the site's details."""
+        self._commit(SetSiteInfo.model_construct(op="set-site-info", info=info))
+
+    def upsert_visit(self, visit: Visit) -> None:
+        """Add a visit, or replace the one with the same id (its readings included)."""
+        self._commit(UpsertVisit.model_construct(op="upsert-visit", visit=visit))
+
+    def replace_site(self, site: SiteFile) -> None:
+        """Any other edit (move, copy a subtree, undo): the whole new site."""
+        self._commit(ReplaceSite.model_construct(op="replace-site", site=site))
+
+    # --- saving -------------------------------------------------------------
+
+    def save(self) -> None:
+        """Write the whole file atomically (keeping the backup), then clear the journal."""
+        self._check_writable()
+        data = dumps_site(self.site).encode("utf-8")
+        on_disk = _digest_of(self.path)
+        if on_disk is not None and on_disk != self._digest:
+            self.warnings.append(
+                f"{self.path.name} was changed outside tripwise while it was open; that "
+                f"version is kept as {backup_path(self.path).name}"
+            )
+        if self._source_version < FORMAT_VERSION and self.path.exists():
+            vb = self._version_backup()
+            if not vb.exists():
+                try:
+                    copy_aside(self.path, vb)
+                except OSError as exc:
+                    raise SaveError(
+                        self.path, f"keeping the original as {vb.name}", plain_os_error(exc)
+                    ) from exc
+        new_digest = digest_bytes(data)
+        assert self._journal is not None
+        self._journal.mark_saving(new_digest)
+        write_site_bytes(data, self.path)
+        self._digest = new_digest
+        self._source_version = FORMAT_VERSION
+        self._pending = 0
+        try:
+            self._journal.clear(self._digest)
+        except OSError as exc:
+            # The file holds every edit; a journal left behind is recognised as saved.
+            self.warnings.append(
+                f"saved, but the recovery journal could not be cleared: {plain_os_error(exc)}"
+            )
+
+    def close(self) -> None:
+        """Release the lock (does not save; unsaved edits stay in the journal)."""
+        if self._journal is not None:
+            self._journal.close()
+        if self._lock is not None:
+            self._lock.release()
+
+    def __enter__(self) -> EditSession:
+        return self
+
+    def __exit__(self, *exc: object) -> None:
+        self.close()
+
+
+def _pid_alive(pid: int) -> bool:
+    """True when a process with this id is running on this machine (not this one)."""
+    if pid == os.getpid():
+        return False
+    try:
+        os.kill(pid, 0)
+    except ProcessLookupError:
+        return False
+    except OSError:
+        return True  # it exists but belongs to someone else
+    return True
+
+
+def _canonical(path: str | os.PathLike[str]) -> Path:
+    """The path as given, or its real path when symbolic links are involved.
+
+    Two editors reaching one file by different links must find the same lock
+    and journal.
+    """
+    given = Path(path)
+    real = Path(os.path.realpath(given))
+    return given if real == Path(os.path.abspath(given)) else real
+
+
+def _is_id(text: object) -> bool:
+    """True for a string that fits the id pattern of :data:`model.site.terms.NodeId`."""
+    return isinstance(text, str) and _ID_RE.match(text) is not None

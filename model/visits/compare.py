@@ -1,0 +1,323 @@
+"""Two visits of one site side by side: readings, devices tested, and findings.
+
+:func:`compare_visits` puts each device's readings on two visits next to each
+other with the change, lists the devices tested on only one of them (and those
+tested on neither), and runs every check on the site as it stood at each visit
+(its history cut to end there) to tell which findings are new, gone or
+unchanged.  Findings are matched by rule and the nodes they name.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass, field
+from typing import Any, Literal
+
+from model.rules.bands import fmt_value
+from model.rules.checks import analyse
+from model.rules.findings import CAUTION, Finding
+from model.site.history import cut_at, find_visit, ordered_visits
+from model.site.models import Reading, SiteFile, Visit
+from model.site.terms import DID_NOT_TRIP, TEST_NAMES
+from model.site.tree import SiteIndex
+
+#: The values compared, in the order shown.
+COMPARED_KEYS: tuple[str, ...] = (*TEST_NAMES, "ramp_ma", "button", "waveform", "not_tested")
+
+Presence = Literal["both", "added", "removed", "neither"]
+
+
+class CompareError(ValueError):
+    """The visits asked for cannot be compared; ``str()`` is one line for a user."""
+
+
+@dataclass(frozen=True, slots=True)
+class ValueChange:
+    """One value of one device on the two visits.
+
+    ``change`` is new minus old in the value's unit (ms for trip times, mA for
+    the ramp test), ``change_pct`` the same as a percentage of the old value;
+    both None unless both values are numbers.
+    """
+
+    key: str
+    old: float | str | None
+    new: float | str | None
+    change: float | None
+    change_pct: float | None
+    unit: str
+
+    @property
+    def differs(self) -> bool:
+        return self.old != self.new
+
+    def as_json(self) -> dict[str, Any]:
+        return {
+            "key": self.key,
+            "from": self.old,
+            "to": self.new,
+            "change": self.change,
+            "change_pct": self.change_pct,
+            "unit": self.unit,
+        }
+
+
+@dataclass(frozen=True, slots=True)
+class DeviceComparison:
+    """One residual-current device on the two visits."""
+
+    device: str
+    label: str
+    board: str
+    presence: Presence
+    values: tuple[ValueChange, ...]
+
+    @property
+    def changed(self) -> bool:
+        return any(v.differs for v in self.values)
+
+    def as_json(self) -> dict[str, Any]:
+        return {
+            "device": self.device,
+            "label": self.label,
+            "board": self.board,
+            "presence": self.presence,
+            "changed": self.changed,
+            "values": [v.as_json() for v in self.values],
+        }
+
+
+@dataclass
+class VisitComparison:
+    """Everything that differs between two visits of one site."""
+
+    site_name: str
+    from_id: str
+    from_date: str
+    to_id: str
+    to_date: str
+    devices: list[DeviceComparison] = field(default_factory=list)
+    findings_new: list[Finding] = field(default_factory=list)
+    findings_gone: list[Finding] = field(default_factory=list)
+    findings_unchanged: list[Finding] = field(default_factory=list)
+    caution: str = CAUTION
+
+    def _with(self, presence: Presence) -> list[str]:
+        return [d.device for d in self.devices if d.presence == presence]
+
+    @property
+    def added(self) -> list[str]:
+        """Devices with a reading on the later visit only."""
+        return self._with("added")
+
+    @property
+    def removed(self) -> list[str]:
+        """Devices with a reading on the earlier visit only."""
+        return self._with("removed")
+
+    @property
+    def untested(self) -> list[str]:
+        """Devices in the tree with a reading on neither visit."""
+        return self._with("neither")
+
+    def device(self, device_id: str) -> DeviceComparison:
+        for d in self.devices:
+            if d.device == device_id:
+                return d
+        raise KeyError(device_id)
+
+    def as_json(self) -> dict[str, Any]:
+        return {
+            "site": self.site_name,
+            "from": {"id": self.from_id, "date": self.from_date},
+            "to": {"id": self.to_id, "date": self.to_date},
+            "caution": self.caution,
+            "devices": [d.as_json() for d in self.devices],
+            "added": self.added,
+            "removed": self.removed,
+            "untested": self.untested,
+            "findings": {
+                "new": [f.as_json() for f in self.findings_new],
+                "gone": [f.as_json() for f in self.findings_gone],
+                "unchanged": [f.as_json() for f in self.findings_unchanged],
+            },
+        }
+
+
+def _pick(site: SiteFile, visit_id: str | None, default: Visit | None, which: str) -> Visit:
+    known = ", ".join(v.id for v in ordered_visits(site)) or "none"
+    if visit_id is None:
+        if default is None:
+            raise CompareError(
+                f"the site has fewer than two visits to compare (known visits: {known})"
+            )
+        return default
+    v = find_visit(site, visit_id)
+    if v is None:
+        raise CompareError(f"no visit {visit_id!r} for --{which}; known visits: {known}")
+    return v
+
+
+def _number(v: float | str | None) -> float | None:
+    if v is None or isinstance(v, str):
+        return None
+    return float(v)
+
+
+def _value_change(key: str, old: Reading | None, new: Reading | None) -> ValueChange:
+    a = None if old is None else getattr(old, key)
+    b = None if new is None else getattr(new, key)
+    unit = "mA" if key == "ramp_ma" else ("ms" if key in TEST_NAMES else "")
+    na, nb = _number(a), _number(b)
+    change = pct = None
+    if na is not None and nb is not None and unit:
+        change = nb - na
+        pct = 100.0 * change / na if na else None
+    return ValueChange(key, a, b, change, pct, unit)
+
+
+def _recorded(r: Reading | None, key: str) -> bool:
+    if r is None:
+        return False
+    v = getattr(r, key)
+    if key == "waveform":
+        return True
+    return v is not None
+
+
+def _match(
+    old: list[Finding], new: list[Finding]
+) -> tuple[list[Finding], list[Finding], list[Finding]]:
+    """(new, gone, unchanged): findings paired by (rule, nodes), in order within each key."""
+    pending: dict[tuple[str, tuple[str, ...]], list[Finding]] = {}
+    for f in old:
+        pending.setdefault((f.rule, f.nodes), []).append(f)
+    fresh: list[Finding] = []
+    same: list[Finding] = []
+    for f in new:
+        bucket = pending.get((f.rule, f.nodes))
+        if bucket:
+            bucket.pop(0)
+            same.append(f)
+        else:
+            fresh.append(f)
+    gone = [f for fs in pending.values() for f in fs]
+    return fresh, gone, same
+
+
+def compare_visits(
+    site: SiteFile, from_id: str | None = None, to_id: str | None = None
+) -> VisitComparison:
+    """Compare two visits of a site (default: the two latest, older first).
+
+    Raises :class:`CompareError` for an unknown visit id or a site with fewer
+    than two visits (when an id is not given).
+    """
+    order = ordered_visits(site)
+    v_to = _pick(site, to_id, order[-1] if order else None, "to")
+    if from_id is None:
+        before_to = order[: next(i for i, v in enumerate(order) if v is v_to)]
+        if not before_to:
+            known = ", ".join(v.id for v in order)
+            raise CompareError(
+                f"no visit earlier than {v_to.id!r} to compare with (known visits: {known})"
+            )
+        v_from = before_to[-1]
+    else:
+        v_from = _pick(site, from_id, None, "from")
+
+    idx = SiteIndex.build(site)
+    devices: list[DeviceComparison] = []
+    for dev in idx.rcds():
+        old = v_from.readings.get(dev)
+        new = v_to.readings.get(dev)
+        presence: Presence
+        if old is not None and new is not None:
+            presence = "both"
+        elif new is not None:
+            presence = "added"
+        elif old is not None:
+            presence = "removed"
+        else:
+            presence = "neither"
+        values = tuple(
+            _value_change(k, old, new)
+            for k in COMPARED_KEYS
+            if _recorded(old, k) or _recorded(new, k)
+        )
+        devices.append(
+            DeviceComparison(dev, idx.label(dev), idx.board_of.get(dev, idx.root), presence, values)
+        )
+
+    before = analyse(cut_at(site, v_from.id)).findings
+    after = analyse(cut_at(site, v_to.id)).findings
+    fresh, gone, same = _match(before, after)
+    return VisitComparison(
+        site_name=site.site.name,
+        from_id=v_from.id,
+        from_date=v_from.date,
+        to_id=v_to.id,
+        to_date=v_to.date,
+        devices=devices,
+        findings_new=fresh,
+        findings_gone=gone,
+        findings_unchanged=same,
+    )
+
+
+def change_text(v: ValueChange) -> str:
+    """The change of one value for people: '+11 ms (+55 %)', 'new', 'now did not trip'."""
+    if v.change is not None:
+        pct = "" if v.change_pct is None else f" ({v.change_pct:+.0f} %)"
+        return f"{v.change:+g} {v.unit}{pct}"
+    if not v.differs:
+        return "same"
+    if v.old is None:
+        return "new"
+    if v.new is None:
+        return "not recorded now"
+    if v.new == DID_NOT_TRIP:
+        return "now did not trip"
+    return "changed"
+
+
+def compare_text(cmp: VisitComparison, width: int = 100) -> str:
+    """The comparison as plain text, as ``tripwise compare`` prints it."""
+
+    def when(vid: str, date: str) -> str:
+        return f"visit {vid}" if vid == date else f"visit {vid} ({date})"
+
+    lines = [
+        f"{cmp.site_name}: {when(cmp.from_id, cmp.from_date)} → {when(cmp.to_id, cmp.to_date)}",
+        "",
+        "Readings",
+    ]
+    for d in cmp.devices:
+        if d.presence == "neither":
+            continue
+        tag = {"both": "", "added": "  [tested on the later visit only]"}.get(
+            d.presence, "  [tested on the earlier visit only]"
+        )
+        lines.append(f"  {d.label} ({d.device}){tag}")
+        for v in d.values:
+            lines.append(
+                f"    {v.key:<10} {fmt_value(v.key, v.old):>14} → {fmt_value(v.key, v.new):<14} "
+                f"{change_text(v)}"
+            )
+    if cmp.untested:
+        lines.append("")
+        lines.append("Not tested on either visit: " + ", ".join(cmp.untested))
+    for title, fs in (
+        ("New findings", cmp.findings_new),
+        ("Findings gone", cmp.findings_gone),
+        ("Findings unchanged", cmp.findings_unchanged),
+    ):
+        lines.append("")
+        lines.append(f"{title}: {len(fs)}")
+        for f in fs:
+            lines.append(f"  {f.severity.upper():<11} {f.rule}  {', '.join(f.nodes)}")
+            if title != "Findings unchanged":
+                msg = f.message
+                lines.append(f"    {msg[: width - 4]}" + ("…" if len(msg) > width - 4 else ""))
+    lines.append("")
+    lines.append("Caution: " + cmp.caution)
+    return "\n".join(lines) + "\n"

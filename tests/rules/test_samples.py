@@ -1,0 +1,118 @@
+"""The bundled (invented) sample sites: their expected findings, and every rule covered.
+
+The expectations were worked out by hand from the published rules named in
+tests/model/test_rules.py; the sample data itself is invented for the demo.
+"""
+
+from __future__ import annotations
+
+import pytest
+from sitekit import SAMPLES
+
+from model.rules.checks import analyse
+from model.storage.store import load_site
+
+EXPECTED: dict[str, set[tuple[str, tuple[str, ...]]]] = {
+    "oak-lane-house": {
+        ("reading.trend", ("rc2",)),  # 180 -> 312 ms at 1× 180°, and a pass turned to a fail
+        ("coverage.additional-protection", ("c-out",)),
+        ("reading.too-slow", ("rc2",)),
+        ("type.ac-unsuitable", ("rc2", "c-l2", "c-s2", "c-s3")),
+        ("type.dc-load", ("c-ev", "rb3", "rc3")),
+        ("cascade.dc-blinding", ("rc3", "c-ev")),
+        ("cascade.band-overlap", ("rc3", "rb2")),
+        ("reading.missing", ("rb2",)),
+    },
+    "hollowmere-farm": {
+        ("reading.trend", ("h1",)),  # 18 -> 31 ms at 1× 180°: +72 %, +13 ms
+        ("reading.trend", ("h2",)),  # passed in 2022, did not trip in 2026
+        ("earthing.tt-ra", ("dairy-rc", "c-ds", "c-mc")),
+        ("earthing.tt-no-rcd", ("c-yl",)),
+        ("reading.no-trip", ("h2",)),
+        ("coverage.additional-protection", ("c-ds", "dairy-rc")),
+        ("earthing.zs-limit", ("c-mc", "dairy-rc")),
+        ("reading.button-failed", ("prcd1",)),
+        ("reading.ramp-out-of-band", ("dairy-rc",)),
+        ("type.ac-unsuitable", ("dairy-rc", "c-ds", "c-pw", "c-mc")),
+        ("coverage.additional-protection", ("c-yl",)),
+        ("cascade.band-overlap", ("dairy-rc", "prcd1")),
+        ("cascade.upstream-not-delayed", ("dairy-rc", "prcd1")),
+        ("cascade.band-overlap", ("rc-main", "h2")),
+        ("earthing.ra-unstable", ("supply",)),
+        ("reading.half-tripped", ("h3",)),
+    },
+    "kestrel-hill-school": {
+        ("leakage.over-30pct", ("ict-rc",)),
+        ("coverage.no-overcurrent", ("m-rc", "c-m1", "c-m2")),
+        ("coverage.additional-protection", ("c-srv", "main-cbr")),
+        ("reading.too-fast", ("s-rc",)),
+        ("reading.too-fast", ("s-rc",)),
+        ("type.dc-load", ("c-pv", "pv-rc", "main-cbr")),
+        ("cascade.band-overlap", ("staff", "srcd1")),
+        ("cascade.ratio-below-3", ("staff", "srcd1")),
+        ("cascade.upstream-not-delayed", ("staff", "srcd1")),
+        ("resilience.lighting-single-rcd", ("lt-rc", "c-lt1", "c-lt2", "c-lt3")),
+        ("cascade.band-overlap", ("k-rc", "k1")),
+        ("cascade.band-overlap", ("k-rc", "k2")),
+        ("cascade.dc-blinding", ("k-rc", "k2")),
+        ("cascade.dc-blinding", ("main-cbr", "k2")),
+        ("cascade.upstream-not-delayed", ("k-rc", "k1", "k2")),
+        ("cascade.dc-blinding", ("pv-rc", "c-pv")),
+        ("cascade.dc-blinding", ("main-cbr", "c-pv")),
+        ("reading.missing", ("srcd1",)),
+        ("reading.ramp-out-of-band", ("m-rc",)),
+    },
+}
+
+ALL_RULES = {
+    "cascade.upstream-not-delayed",
+    "cascade.ratio-below-3",
+    "cascade.band-overlap",
+    "cascade.dc-blinding",
+    "type.ac-unsuitable",
+    "type.dc-load",
+    "coverage.additional-protection",
+    "coverage.no-overcurrent",
+    "earthing.tt-ra",
+    "earthing.zs-limit",
+    "earthing.ra-unstable",
+    "earthing.tt-no-rcd",
+    "leakage.over-30pct",
+    "resilience.lighting-single-rcd",
+    "reading.half-tripped",
+    "reading.no-trip",
+    "reading.too-slow",
+    "reading.too-fast",
+    "reading.ramp-out-of-band",
+    "reading.button-failed",
+    "reading.missing",
+    "reading.trend",
+}
+
+
+@pytest.mark.parametrize("name", sorted(EXPECTED))
+def test_sample_findings(name: str) -> None:
+    result = analyse(load_site(SAMPLES / f"{name}.json"))
+    got = {(f.rule, f.nodes) for f in result.findings}
+    assert got == EXPECTED[name]
+
+
+def test_samples_cover_every_rule() -> None:
+    fired = {rule for fs in EXPECTED.values() for rule, _ in fs}
+    assert fired >= ALL_RULES
+
+
+def test_samples_differ_in_earthing_and_size() -> None:
+    sites = [load_site(SAMPLES / f"{n}.json") for n in sorted(EXPECTED)]
+    assert {s.site.earthing for s in sites} == {"TN-C-S", "TT", "TN-S"}
+    assert len({len(s.nodes) for s in sites}) == 3
+    # one multi-board site with a sub-main to an outbuilding
+    assert any(sum(n.kind == "board" for n in s.nodes) >= 3 for s in sites)
+
+
+def test_a_correct_cascade_triggers_nothing() -> None:
+    # 300 mA set-delay CBR (150 ms) over 30 mA RCBOs: delayed, 10:1, bands clear
+    result = analyse(load_site(SAMPLES / "kestrel-hill-school.json"))
+    p = result.pair("main-cbr", "a1")
+    assert p is not None and p.verdict == "selective" and p.rule_ok
+    assert not [f for f in result.findings if set(f.nodes) >= {"main-cbr", "a1"}]

@@ -1,0 +1,51 @@
+"""``tripwise report SITE``: write the remedial-work list or the test sheet to a file."""
+
+from __future__ import annotations
+
+import argparse
+import sys
+from pathlib import Path
+
+from model.reports.documents import (
+    FORMATS,
+    KIND_TITLE,
+    KINDS,
+    ReportError,
+    default_name,
+    write_report,
+)
+from tui.cli.commands.common import load_or_report
+
+
+def register(sub: argparse._SubParsersAction) -> None:  # type: ignore[type-arg]
+    p = sub.add_parser(
+        "report",
+        help="write the remedial-work list or the test sheet (PDF, Markdown, CSV or text)",
+        description="Write a document of the latest visit. Without --out the file goes beside "
+        "the site file as <site>-<kind>-<visit date>.<format>. An existing file is never "
+        "replaced without --force. Exit codes: 0 written, 2 bad input or refused.",
+    )
+    p.add_argument("site", help="path to the site file (.json)")
+    p.add_argument(
+        "--kind", choices=KINDS, default="remedial", help="which document (default remedial)"
+    )
+    p.add_argument(
+        "--format", dest="fmt", choices=FORMATS, default="pdf", help="file format (default pdf)"
+    )
+    p.add_argument("--out", help="file to write (default: beside the site file)")
+    p.add_argument("--force", action="store_true", help="replace the file if it exists")
+    p.set_defaults(func=run)
+
+
+def run(args: argparse.Namespace) -> int:
+    site = load_or_report(args.site)
+    if site is None:
+        return 2
+    out = Path(args.out) if args.out else default_name(Path(args.site), site, args.kind, args.fmt)
+    try:
+        written = write_report(site, args.kind, args.fmt, out, force=args.force)
+    except ReportError as exc:
+        print(f"tripwise: {exc}", file=sys.stderr)
+        return 2
+    print(f"{KIND_TITLE[args.kind]} written to {written}")
+    return 0
