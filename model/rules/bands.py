@@ -192,12 +192,6 @@ def worse(a: float | str | None, b: float | str | None, group: str = "x1") -> fl
     return max(times)
 
 
-def faster(a: float | str | None, b: float | str | None) -> float | None:
-    """The shorter recorded trip time of the two, ignoring 'did not trip'."""
-    vals = [float(v) for v in (a, b) if v is not None and v != DID_NOT_TRIP]
-    return min(vals) if vals else None
-
-
 @dataclass(frozen=True)
 class RampBand:
     low_ma: float

@@ -170,7 +170,3 @@ def device_text(node: Any) -> str:
     if str(node.delay) == "set" and getattr(node, "delay_ms", None) is not None:
         delay += f" {node.delay_ms:g} ms"
     return f"{node.idn_ma:g} mA, Type {node.waveform}, {delay}"
-
-
-def fmt_ms(value_ms: float) -> str:
-    return f"{value_ms:g} ms"

@@ -7,7 +7,7 @@ file (the later one in the list is the later visit), which is the order
 
 from __future__ import annotations
 
-from model.site.models import Reading, SiteFile, Visit
+from model.site.models import SiteFile, Visit
 
 
 def ordered_visits(site: SiteFile) -> list[Visit]:
@@ -36,18 +36,6 @@ def visits_before(site: SiteFile, visit_id: str) -> list[Visit]:
         if v.id == visit_id:
             return list(reversed(order[:i]))
     raise KeyError(visit_id)
-
-
-def previous_reading(site: SiteFile, visit_id: str, device: str) -> tuple[Visit, Reading] | None:
-    """The latest visit before ``visit_id`` with a reading that carries values for ``device``.
-
-    A reading marked not tested carries no values and is passed over.
-    """
-    for v in visits_before(site, visit_id):
-        r = v.readings.get(device)
-        if r is not None and r.not_tested is None and r.has_values():
-            return v, r
-    return None
 
 
 def cut_at(site: SiteFile, visit_id: str) -> SiteFile:
