@@ -21,6 +21,11 @@ def visit_ids(site: SiteFile) -> list[str]:
     return [v.id for v in ordered_visits(site)]
 
 
+def known_visits_text(site: SiteFile) -> str:
+    """The site's visit ids for a message, oldest first: 'v1, v2', or 'none'."""
+    return ", ".join(visit_ids(site)) or "none"
+
+
 def find_visit(site: SiteFile, visit_id: str) -> Visit | None:
     """The visit with this id, or None."""
     for v in site.visits:

@@ -25,11 +25,20 @@ from typing import Any, Literal
 
 from pydantic import ValidationError
 
-from model.site.history import find_visit, visit_ids
+from model.site.history import find_visit, known_visits_text
 from model.site.messages import error_text
-from model.site.models import Reading, SiteFile
+from model.site.models import Reading, SiteFile, blank
 from model.site.numbers import parse_number
-from model.site.terms import DID_NOT_TRIP, RCD_KINDS, TEST_NAMES
+from model.site.terms import (
+    DID_NOT_TRIP,
+    RCD_KINDS,
+    TEST_NAMES,
+    TEST_VALUE_KEYS,
+    ButtonResult,
+    TestWaveform,
+    choices_of,
+    or_list,
+)
 from model.storage.store import SiteLoadError, dumps_site, parse_site
 
 DEVICE_COLUMN = "device"
@@ -46,8 +55,9 @@ KEY_COLUMN: dict[str, str] = {v: k for k, v in VALUE_COLUMNS.items()}
 IMPORT_KEYS: tuple[str, ...] = tuple(VALUE_COLUMNS.values())
 MAX_CSV_BYTES = 10 * 1024 * 1024
 
-_WAVEFORMS = {"ac": "AC", "half-wave": "half-wave", "smooth-dc": "smooth-dc"}
-_BUTTON = {"worked": "worked", "failed": "failed"}
+#: Cell text (any case) -> the choice it records.
+_WAVEFORMS: dict[str, str] = {w.lower(): w for w in choices_of(TestWaveform)}
+_BUTTON: dict[str, str] = {b.lower(): b for b in choices_of(ButtonResult)}
 
 
 class ImportTargetError(ValueError):
@@ -142,10 +152,10 @@ def _cell_value(key: str, text: str) -> tuple[Any, str | None]:
         return v, None
     if key == "button":
         b = _BUTTON.get(text.lower())
-        return (b, None) if b else (None, f"{text!r} is not 'worked' or 'failed'")
+        return (b, None) if b else (None, f"{text!r} is not {or_list(map(repr, _BUTTON.values()))}")
     if key == "waveform":
         w = _WAVEFORMS.get(text.lower())
-        return (w, None) if w else (None, f"{text!r} is not AC, half-wave or smooth-dc")
+        return (w, None) if w else (None, f"{text!r} is not {or_list(_WAVEFORMS.values())}")
     return text, None  # note, not_tested
 
 
@@ -182,8 +192,9 @@ def plan_import(site: SiteFile, data: bytes | str, visit_id: str | None = None) 
     else:
         visit = find_visit(site, visit_id)
         if visit is None:
-            known = ", ".join(visit_ids(site)) or "none"
-            raise ImportTargetError(f"no visit {visit_id!r}; known visits: {known}")
+            raise ImportTargetError(
+                f"no visit {visit_id!r}; known visits: {known_visits_text(site)}"
+            )
 
     text = _decode(data)
     try:
@@ -289,7 +300,7 @@ def plan_import(site: SiteFile, data: bytes | str, visit_id: str | None = None) 
             old is not None
             and old.not_tested is not None
             and "not_tested" not in values
-            and any(k in values for k in (*TEST_NAMES, "ramp_ma", "button"))
+            and any(k in values for k in TEST_VALUE_KEYS)
         )
         if cleared_not_tested:
             # tested after all: the values replace the earlier not-tested reason (shown)
@@ -317,11 +328,7 @@ def plan_import(site: SiteFile, data: bytes | str, visit_id: str | None = None) 
                 continue
             before = None if old is None else getattr(old, key)
             status: Status = (
-                "added"
-                if before is None or before == ""
-                else "unchanged"
-                if before == values[key]
-                else "changed"
+                "added" if blank(before) else "unchanged" if before == values[key] else "changed"
             )
             changes.append(KeyChange(dev, key, before, values[key], status))
     if errors:
