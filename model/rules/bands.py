@@ -260,6 +260,13 @@ def fmt_result(value: float | str | None) -> str:
     return f"{value:g} ms" if math.isfinite(value) else "—"
 
 
+def numeric_value(value: float | str | None) -> float | None:
+    """A recorded value as a number; None when absent or a text ('did not trip', 'worked')."""
+    if value is None or isinstance(value, str):
+        return None
+    return float(value)
+
+
 def value_unit(key: str) -> str:
     """The unit of a reading's value by its key: 'ms' (timed tests), 'mA' (ramp) or ''."""
     if key in TEST_NAMES:

@@ -12,7 +12,7 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 from typing import Any, Literal
 
-from model.rules.bands import fmt_value, value_unit
+from model.rules.bands import fmt_value, numeric_value, value_unit
 from model.rules.checks import analyse
 from model.rules.findings import CAUTION, Finding
 from model.site.history import (
@@ -174,17 +174,11 @@ def _pick(site: SiteFile, visit_id: str | None, default: Visit | None, which: st
     return v
 
 
-def _number(v: float | str | None) -> float | None:
-    if v is None or isinstance(v, str):
-        return None
-    return float(v)
-
-
 def _value_change(key: str, old: Reading | None, new: Reading | None) -> ValueChange:
     a = None if old is None else getattr(old, key)
     b = None if new is None else getattr(new, key)
     unit = value_unit(key)
-    na, nb = _number(a), _number(b)
+    na, nb = numeric_value(a), numeric_value(b)
     change = pct = None
     if na is not None and nb is not None and unit:
         change = nb - na
