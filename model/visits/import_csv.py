@@ -116,7 +116,7 @@ class ImportPlan:
         return any(c.status != "unchanged" for c in self.changes)
 
     def counts(self) -> dict[str, int]:
-        out = {"added": 0, "changed": 0, "unchanged": 0}
+        out: dict[str, int] = dict.fromkeys(choices_of(Status), 0)
         for c in self.changes:
             out[c.status] += 1
         return out

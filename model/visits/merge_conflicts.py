@@ -12,8 +12,10 @@ import json
 from dataclasses import dataclass
 from typing import Any, Literal
 
+from model.site.terms import choices_of
+
 Choice = Literal["ours", "theirs"]
-CHOICES: tuple[Choice, ...] = ("ours", "theirs")
+CHOICES: tuple[Choice, ...] = choices_of(Choice)
 ConflictKind = Literal["site", "node", "node-parent", "visit", "reading"]
 
 
