@@ -27,7 +27,7 @@ from pydantic import ValidationError
 
 from model.site.history import find_visit, known_visits_text
 from model.site.messages import error_text
-from model.site.models import Reading, SiteFile, blank
+from model.site.models import Reading, SiteFile, Visit, blank
 from model.site.numbers import parse_number
 from model.site.terms import (
     DID_NOT_TRIP,
@@ -178,24 +178,21 @@ def _decode(data: bytes | str) -> str:
         raise CsvImportError([RowError(0, None, f"not UTF-8 text (byte {exc.start})")]) from None
 
 
-def plan_import(site: SiteFile, data: bytes | str, visit_id: str | None = None) -> ImportPlan:
-    """Check a readings CSV against the site and work out what it changes.
-
-    Raises :class:`ImportTargetError` when the visit is unknown (or the site
-    has none) and :class:`CsvImportError` with every problem of the file.
-    The site passed in is not modified.
-    """
+def _target_visit(site: SiteFile, visit_id: str | None) -> Visit:
+    """The visit to import into: the one named, or the latest."""
     if visit_id is None:
         visit = site.latest_visit()
         if visit is None:
             raise ImportTargetError("the site has no visits; add a visit before importing readings")
-    else:
-        visit = find_visit(site, visit_id)
-        if visit is None:
-            raise ImportTargetError(
-                f"no visit {visit_id!r}; known visits: {known_visits_text(site)}"
-            )
+        return visit
+    found = find_visit(site, visit_id)
+    if found is None:
+        raise ImportTargetError(f"no visit {visit_id!r}; known visits: {known_visits_text(site)}")
+    return found
 
+
+def _records(data: bytes | str) -> list[list[str]]:
+    """The CSV's rows, the header first (which must not be empty)."""
     text = _decode(data)
     try:
         records = list(csv.reader(io.StringIO(text, newline="")))
@@ -203,8 +200,11 @@ def plan_import(site: SiteFile, data: bytes | str, visit_id: str | None = None) 
         raise CsvImportError([RowError(0, None, f"not readable as CSV: {exc}")]) from None
     if not records or not any(c.strip() for c in records[0]):
         raise CsvImportError([RowError(1, None, "no header row")])
+    return records
 
-    header = [_clean(c) for c in records[0]]
+
+def _columns(header: list[str]) -> tuple[int, dict[int, str]]:
+    """(the device column, {position: value column}) of a header; every problem raised."""
     errors: list[RowError] = []
     columns: dict[int, str] = {}
     device_col: int | None = None
@@ -233,8 +233,23 @@ def plan_import(site: SiteFile, data: bytes | str, visit_id: str | None = None) 
     if errors:
         raise CsvImportError(errors)
     assert device_col is not None
+    return device_col, columns
+
+
+def plan_import(site: SiteFile, data: bytes | str, visit_id: str | None = None) -> ImportPlan:
+    """Check a readings CSV against the site and work out what it changes.
+
+    Raises :class:`ImportTargetError` when the visit is unknown (or the site
+    has none) and :class:`CsvImportError` with every problem of the file.
+    The site passed in is not modified.
+    """
+    visit = _target_visit(site, visit_id)
+    records = _records(data)
+    header = [_clean(c) for c in records[0]]
+    device_col, columns = _columns(header)
     ignored = [h for i, h in enumerate(header) if i != device_col and i not in columns and h]
 
+    errors: list[RowError] = []
     by_id = {n.id: n for n in site.nodes}
     given_in: dict[str, int] = {}
     new_readings: dict[str, Reading] = {}
