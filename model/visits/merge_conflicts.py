@@ -3,7 +3,7 @@
 A :class:`Conflict` holds both versions as JSON values; the user settles it by
 choosing ``"ours"`` (the base copy) or ``"theirs"`` (the other copy).
 :class:`Accounted` says where one recorded value of one input went.
-:func:`value_text` writes a version short enough for one line.
+:func:`version_text` writes one version short enough for one line.
 """
 
 from __future__ import annotations
@@ -90,7 +90,7 @@ class Accounted:
         }
 
 
-def value_text(value: Any, width: int) -> str:
+def version_text(value: Any, width: int) -> str:
     """One version of a conflict for one line: its JSON, cut to ``width`` with '...'."""
     text = "(absent)" if value is None else json.dumps(value, ensure_ascii=False)
     return text if len(text) <= width else text[: width - 3] + "..."

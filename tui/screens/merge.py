@@ -11,7 +11,7 @@ from textual.screen import ModalScreen
 from textual.widgets import DataTable, Static
 
 from model.site.models import SiteFile
-from model.visits.merge_conflicts import Choice, Conflict, MergeError, value_text
+from model.visits.merge_conflicts import Choice, Conflict, MergeError, version_text
 from model.visits.merge_result import MergeResult
 
 
@@ -79,7 +79,7 @@ class MergeScreen(ModalScreen[SiteFile | None]):
             return
         lines = [f"{c.what}", f"where: {c.where}"]
         for name, a, b in c.differences():
-            lines.append(f"{name}:  ours {value_text(a, 60)}   |   theirs {value_text(b, 60)}")
+            lines.append(f"{name}:  ours {version_text(a, 60)}   |   theirs {version_text(b, 60)}")
         detail.update("\n".join(lines))
 
     def _update_status(self, message: str | None = None) -> None:
