@@ -18,10 +18,10 @@ from model.rules.limits import (
     operating_band,
     rule_set,
 )
-from model.site.terms import DID_NOT_TRIP, TEST_NAMES
+from model.site.terms import DID_NOT_TRIP, TEST_NAMES, choices_of
 
 TestGroup = Literal["half", "x1", "x5"]
-GROUPS: tuple[TestGroup, ...] = ("half", "x1", "x5")
+GROUPS: tuple[TestGroup, ...] = choices_of(TestGroup)
 GROUP_MULTIPLE: dict[str, float] = {"half": 0.5, "x1": 1.0, "x5": 5.0}
 GROUP_TITLE: dict[str, str] = {"half": "½ × IΔn", "x1": "1 × IΔn", "x5": "5 × IΔn"}
 
@@ -192,19 +192,37 @@ def worse(a: float | str | None, b: float | str | None, group: str = "x1") -> fl
     return max(times)
 
 
-def faster(a: float | str | None, b: float | str | None) -> float | None:
-    """The shorter recorded trip time of the two, ignoring 'did not trip'."""
-    vals = [float(v) for v in (a, b) if v is not None and v != DID_NOT_TRIP]
-    return min(vals) if vals else None
-
-
 @dataclass(frozen=True)
 class RampBand:
+    """Where a ramp test's trip current must fall: above ``low_ma`` and up to ``high_ma``."""
+
     low_ma: float
     high_ma: float
-    text: str
     source: str
     basis: str
+
+    @property
+    def text(self) -> str:
+        """The band in words, as findings and judgements give it."""
+        return ramp_band_text(self)
+
+
+RampTextForm = Literal["words", "inequality", "span"]
+
+
+def ramp_band_text(band: RampBand, form: RampTextForm = "words") -> str:
+    """The band of a ramp test for people, in one of three forms.
+
+    ``words``: 'above 15 and up to 30 mA' (findings, judgements, reports);
+    ``inequality``: '15 < I ≤ 30 mA' (where room is short, e.g. a test sheet cell);
+    ``span``: '15–30 mA' (beside a field while a value is typed).
+    """
+    lo, hi = band.low_ma, band.high_ma
+    if form == "inequality":
+        return f"{lo:g} < I ≤ {hi:g} mA"
+    if form == "span":
+        return f"{lo:g}–{hi:g} mA"
+    return f"above {lo:g} and up to {hi:g} mA"
 
 
 def ramp_band(node: Any, waveform: str) -> RampBand:
@@ -217,8 +235,7 @@ def ramp_band(node: Any, waveform: str) -> RampBand:
     """
     idn = float(node.idn_ma)
     op = operating_band(waveform, idn)
-    lo, hi = op.low * idn, op.high * idn
-    return RampBand(lo, hi, f"above {lo:g} and up to {hi:g} mA", op.source, op.basis)
+    return RampBand(op.low * idn, op.high * idn, op.source, op.basis)
 
 
 def judge_ramp(band: RampBand, ramp_ma: float | None) -> Judgement:
@@ -241,6 +258,20 @@ def fmt_result(value: float | str | None) -> str:
         return DID_NOT_TRIP
     assert isinstance(value, float | int)
     return f"{value:g} ms" if math.isfinite(value) else "—"
+
+
+def numeric_value(value: float | str | None) -> float | None:
+    """A recorded value as a number; None when absent or a text ('did not trip', 'worked')."""
+    if value is None or isinstance(value, str):
+        return None
+    return float(value)
+
+
+def value_unit(key: str) -> str:
+    """The unit of a reading's value by its key: 'ms' (timed tests), 'mA' (ramp) or ''."""
+    if key in TEST_NAMES:
+        return "ms"
+    return "mA" if key == "ramp_ma" else ""
 
 
 def fmt_value(key: str, value: float | str | None) -> str:

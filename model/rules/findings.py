@@ -20,8 +20,10 @@ from __future__ import annotations
 from dataclasses import asdict, dataclass, field
 from typing import Any, Literal
 
+from model.site.terms import choices_of
+
 Severity = Literal["urgent", "required", "advisory", "investigate"]
-SEVERITIES: tuple[Severity, ...] = ("urgent", "required", "advisory", "investigate")
+SEVERITIES: tuple[Severity, ...] = choices_of(Severity)
 SEVERITY_RANK: dict[str, int] = {s: i for i, s in enumerate(SEVERITIES)}
 
 #: Shown with every conclusion the tool prints, in every output.
@@ -170,7 +172,3 @@ def device_text(node: Any) -> str:
     if str(node.delay) == "set" and getattr(node, "delay_ms", None) is not None:
         delay += f" {node.delay_ms:g} ms"
     return f"{node.idn_ma:g} mA, Type {node.waveform}, {delay}"
-
-
-def fmt_ms(value_ms: float) -> str:
-    return f"{value_ms:g} ms"

@@ -11,6 +11,8 @@ from __future__ import annotations
 from dataclasses import dataclass
 from typing import Literal
 
+from model.site.terms import RuleSetName, TestWaveform
+
 Basis = Literal["standard", "common-practice", "guidance"]
 
 IEC_61008_T1 = "IEC 61008-1 Ed.3 Table 1 (same values IEC 61009-1)"
@@ -64,7 +66,7 @@ NON_OPERATING_SOURCE = "IEC 61008-1 Ed.3 (IΔno = 0.5 IΔn)"
 class OperatingBand:
     """Where a device must trip for a given test waveform, as fractions of IΔn."""
 
-    waveform: Literal["AC", "half-wave", "smooth-dc"]
+    waveform: TestWaveform
     idn_over_10ma: bool
     low: float
     high: float
@@ -122,6 +124,10 @@ class Rule:
     unit: str
     source: str
     basis: Basis
+
+    def text(self) -> str:
+        """The limit with its unit, as messages write it: '50 V', '200 Ω'."""
+        return f"{self.value:g} {self.unit}"
 
 
 #: Touch-voltage limit for RCD fault protection in TT: RA × IΔn <= 50 V.
@@ -192,7 +198,7 @@ def break_limits_ms(multiple: float, delay: str) -> tuple[float | None, float]:
 class RuleSet:
     """A selectable set of rules: which tests are required and how rules are presented."""
 
-    name: str
+    name: RuleSetName
     title: str
     required_tests: tuple[str, ...]
     additional_basis: Basis
@@ -202,6 +208,7 @@ class RuleSet:
     test_source: str
 
 
+#: One rule set for each choice of :data:`model.site.terms.RuleSetName`.
 RULE_SETS: dict[str, RuleSet] = {
     "uk-bs7671-2022": RuleSet(
         name="uk-bs7671-2022",

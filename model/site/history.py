@@ -7,7 +7,7 @@ file (the later one in the list is the later visit), which is the order
 
 from __future__ import annotations
 
-from model.site.models import Reading, SiteFile, Visit
+from model.site.models import SiteFile, Visit
 
 
 def ordered_visits(site: SiteFile) -> list[Visit]:
@@ -19,6 +19,11 @@ def ordered_visits(site: SiteFile) -> list[Visit]:
 def visit_ids(site: SiteFile) -> list[str]:
     """Visit ids, oldest first."""
     return [v.id for v in ordered_visits(site)]
+
+
+def known_visits_text(site: SiteFile) -> str:
+    """The site's visit ids for a message, oldest first: 'v1, v2', or 'none'."""
+    return ", ".join(visit_ids(site)) or "none"
 
 
 def find_visit(site: SiteFile, visit_id: str) -> Visit | None:
@@ -36,18 +41,6 @@ def visits_before(site: SiteFile, visit_id: str) -> list[Visit]:
         if v.id == visit_id:
             return list(reversed(order[:i]))
     raise KeyError(visit_id)
-
-
-def previous_reading(site: SiteFile, visit_id: str, device: str) -> tuple[Visit, Reading] | None:
-    """The latest visit before ``visit_id`` with a reading that carries values for ``device``.
-
-    A reading marked not tested carries no values and is passed over.
-    """
-    for v in visits_before(site, visit_id):
-        r = v.readings.get(device)
-        if r is not None and r.not_tested is None and r.has_values():
-            return v, r
-    return None
 
 
 def cut_at(site: SiteFile, visit_id: str) -> SiteFile:

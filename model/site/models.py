@@ -23,13 +23,16 @@ from pydantic import (
 from model.site.nodes import ALLOWED_CHILDREN, Node
 from model.site.terms import (
     RCD_KINDS,
-    TEST_NAMES,
+    TEST_VALUE_KEYS,
+    ButtonResult,
     Earthing,
     NodeId,
     RuleSetName,
     StrictModel,
     TestWaveform,
     TripResult,
+    choices_of,
+    or_list,
 )
 
 
@@ -73,8 +76,9 @@ class SiteInfo(StrictModel):
     @field_validator("rules", mode="before")
     @classmethod
     def _known_rules(cls, v: Any) -> Any:
-        if isinstance(v, str) and v not in ("uk-bs7671-2022", "iec-60364"):
-            raise ValueError(f"unknown rule set {v!r}; choose 'uk-bs7671-2022' or 'iec-60364'")
+        known = choices_of(RuleSetName)
+        if isinstance(v, str) and v not in known:
+            raise ValueError(f"unknown rule set {v!r}; choose {or_list(map(repr, known))}")
         return v
 
 
@@ -96,9 +100,7 @@ class Reading(StrictModel):
     ramp_ma: Annotated[float, Field(strict=True, gt=0, le=100_000)] | None = Field(
         default=None, description="Ramp test trip current. [mA]"
     )
-    button: Literal["worked", "failed"] | None = Field(
-        default=None, description="Integral test button."
-    )
+    button: ButtonResult | None = Field(default=None, description="Integral test button.")
     waveform: TestWaveform = Field(default="AC", description="Test current waveform used.")
     note: Annotated[str, StringConstraints(max_length=2000)] = Field(default="", description="")
     not_tested: Annotated[str, StringConstraints(min_length=1, max_length=500)] | None = Field(
@@ -113,9 +115,20 @@ class Reading(StrictModel):
 
     def has_values(self) -> bool:
         """True when any test value is recorded."""
-        return any(getattr(self, t) is not None for t in TEST_NAMES) or (
-            self.ramp_ma is not None or self.button is not None
-        )
+        return any(getattr(self, k) is not None for k in TEST_VALUE_KEYS)
+
+    def recorded(self, key: str) -> bool:
+        """True when this reading carries something under ``key``.
+
+        The test waveform is always there (it has a default); any other key
+        counts when it is set and not empty.
+        """
+        return key == "waveform" or not blank(getattr(self, key))
+
+
+def blank(value: object) -> bool:
+    """True for a value that records nothing: absent, or an empty text."""
+    return value is None or value == ""
 
 
 _DATE_RE = re.compile(r"^\d{4}-\d{2}-\d{2}$")

@@ -19,6 +19,7 @@ from pydantic import (
 
 from model.site.terms import (
     CircuitUse,
+    Curve,
     Delay,
     LoadFlag,
     LocationFlag,
@@ -78,7 +79,7 @@ class McbNode(_NodeBase):
 
     kind: Literal["mcb"]
     rated_a: Annotated[float, Field(gt=0, le=6300)] = Field(description="Rated current. [A]")
-    curve: Literal["B", "C", "D"] | None = Field(default=None, description="Tripping curve.")
+    curve: Curve | None = Field(default=None, description="Tripping curve.")
 
 
 class _ResidualBase(_NodeBase):
@@ -135,7 +136,7 @@ class RcboNode(_RcdBase):
     """Residual-current circuit-breaker with overcurrent protection (IEC 61009-1)."""
 
     kind: Literal["rcbo"]
-    curve: Literal["B", "C", "D"] | None = Field(default=None, description="Tripping curve.")
+    curve: Curve | None = Field(default=None, description="Tripping curve.")
 
 
 class SrcdNode(_RcdBase):
@@ -232,8 +233,6 @@ Node = Annotated[
     | CircuitNode,
     Field(discriminator="kind"),
 ]
-
-RcdNode = RccbNode | RcboNode | SrcdNode | PrcdNode | CbrNode
 
 NODE_CLASSES: dict[str, type[BaseModel]] = {
     "origin": OriginNode,

@@ -11,7 +11,8 @@ protective-conductor current [mA].
 from __future__ import annotations
 
 import math
-from typing import Annotated, Literal
+from collections.abc import Iterable
+from typing import Annotated, Any, Literal, get_args, get_origin
 
 from pydantic import (
     BaseModel,
@@ -37,6 +38,7 @@ Earthing = Literal["TN-S", "TN-C-S", "TT", "IT"]
 RuleSetName = Literal["uk-bs7671-2022", "iec-60364"]
 Waveform = Literal["AC", "A", "F", "B"]
 Delay = Literal["general", "S", "set"]
+Curve = Literal["B", "C", "D"]
 CircuitUse = Literal[
     "sockets",
     "lighting",
@@ -60,6 +62,30 @@ LoadFlag = Literal[
 LocationFlag = Literal["bathroom", "outdoor", "agricultural", "swimming-pool", "sauna", "wet-area"]
 TestWaveform = Literal["AC", "half-wave", "smooth-dc"]
 TestName = Literal["half_0", "half_180", "x1_0", "x1_180", "x5_0", "x5_180"]
+ButtonResult = Literal["worked", "failed"]
+#: Kinds that are residual-current *protective* devices (an RCM is not).
+RcdKind = Literal["rccb", "rcbo", "srcd", "prcd", "cbr"]
+
+
+def choices_of(literal: Any) -> tuple[Any, ...]:
+    """The choices of a ``Literal`` type, in order: ``choices_of(Waveform)`` is
+    ``("AC", "A", "F", "B")``.
+
+    The one way to turn the vocabulary's choices into a list, so a list is
+    never written out a second time.
+    """
+    if get_origin(literal) is not Literal:
+        raise TypeError(f"{literal!r} is not a Literal type")
+    return get_args(literal)
+
+
+def or_list(items: Iterable[str]) -> str:
+    """Items joined for a message: 'a', 'a or b', 'a, b or c'."""
+    words = list(items)
+    if len(words) < 2:
+        return "".join(words)
+    return ", ".join(words[:-1]) + " or " + words[-1]
+
 
 #: The explicit "did not trip" state of a timed test.  Recorded as this string,
 #: never as a number: an instrument that stops at its maximum test time has not
@@ -68,10 +94,11 @@ DID_NOT_TRIP = "did not trip"
 
 TripResult = Annotated[float, Field(strict=True, gt=0, le=10_000)] | Literal["did not trip"]
 
-TEST_NAMES: tuple[TestName, ...] = ("half_0", "half_180", "x1_0", "x1_180", "x5_0", "x5_180")
+TEST_NAMES: tuple[TestName, ...] = choices_of(TestName)
+#: The keys of a reading that hold a test value (as against its waveform or notes).
+TEST_VALUE_KEYS: tuple[str, ...] = (*TEST_NAMES, "ramp_ma", "button")
 
-#: Kinds that are residual-current *protective* devices (an RCM is not).
-RCD_KINDS = frozenset({"rccb", "rcbo", "srcd", "prcd", "cbr"})
+RCD_KINDS: frozenset[str] = frozenset(choices_of(RcdKind))
 #: Kinds that give overcurrent protection.
 OVERCURRENT_KINDS = frozenset({"fuse", "mcb", "rcbo", "cbr"})
 

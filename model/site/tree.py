@@ -84,15 +84,6 @@ class SiteIndex:
         p = self.by_id[node_id].parent
         return None if p is None else str(p)
 
-    def ancestors(self, node_id: str) -> list[str]:
-        """Ids above this node, nearest first."""
-        out: list[str] = []
-        cur = self.parent(node_id)
-        while cur is not None:
-            out.append(cur)
-            cur = self.parent(cur)
-        return out
-
     def descendants(self, node_id: str) -> list[str]:
         """Ids below this node in tree order (the node itself excluded)."""
         out: list[str] = []
@@ -110,13 +101,6 @@ class SiteIndex:
     def circuits(self) -> list[str]:
         """Circuits in tree order (do not modify the list)."""
         return self._circuits
-
-    def rcds_protecting(self, node_id: str) -> tuple[str, ...]:
-        """Protective RCDs in the path of this node, nearest first, including itself."""
-        above = self.rcd_above.get(node_id, ())
-        if self.by_id[node_id].kind in RCD_KINDS:
-            return (node_id, *above)
-        return above
 
     def label(self, node_id: str) -> str:
         """The node's label, or its id where it has none."""

@@ -12,16 +12,22 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 from typing import Any, Literal
 
-from model.rules.bands import fmt_value
+from model.rules.bands import fmt_value, numeric_value, value_unit
 from model.rules.checks import analyse
 from model.rules.findings import CAUTION, Finding
-from model.site.history import cut_at, find_visit, ordered_visits
+from model.site.history import (
+    cut_at,
+    find_visit,
+    known_visits_text,
+    ordered_visits,
+    visits_before,
+)
 from model.site.models import Reading, SiteFile, Visit
-from model.site.terms import DID_NOT_TRIP, TEST_NAMES
+from model.site.terms import DID_NOT_TRIP, TEST_VALUE_KEYS
 from model.site.tree import SiteIndex
 
 #: The values compared, in the order shown.
-COMPARED_KEYS: tuple[str, ...] = (*TEST_NAMES, "ramp_ma", "button", "waveform", "not_tested")
+COMPARED_KEYS: tuple[str, ...] = (*TEST_VALUE_KEYS, "waveform", "not_tested")
 
 Presence = Literal["both", "added", "removed", "neither"]
 
@@ -119,6 +125,17 @@ class VisitComparison:
         """Devices in the tree with a reading on neither visit."""
         return self._with("neither")
 
+    def title(self) -> str:
+        """'Site: visit a (date) → visit b (date)'; a visit named by its date shows it once."""
+
+        def when(vid: str, date: str) -> str:
+            return f"visit {vid}" if vid == date else f"visit {vid} ({date})"
+
+        return (
+            f"{self.site_name}: {when(self.from_id, self.from_date)} → "
+            f"{when(self.to_id, self.to_date)}"
+        )
+
     def device(self, device_id: str) -> DeviceComparison:
         for d in self.devices:
             if d.device == device_id:
@@ -144,7 +161,7 @@ class VisitComparison:
 
 
 def _pick(site: SiteFile, visit_id: str | None, default: Visit | None, which: str) -> Visit:
-    known = ", ".join(v.id for v in ordered_visits(site)) or "none"
+    known = known_visits_text(site)
     if visit_id is None:
         if default is None:
             raise CompareError(
@@ -157,31 +174,16 @@ def _pick(site: SiteFile, visit_id: str | None, default: Visit | None, which: st
     return v
 
 
-def _number(v: float | str | None) -> float | None:
-    if v is None or isinstance(v, str):
-        return None
-    return float(v)
-
-
 def _value_change(key: str, old: Reading | None, new: Reading | None) -> ValueChange:
     a = None if old is None else getattr(old, key)
     b = None if new is None else getattr(new, key)
-    unit = "mA" if key == "ramp_ma" else ("ms" if key in TEST_NAMES else "")
-    na, nb = _number(a), _number(b)
+    unit = value_unit(key)
+    na, nb = numeric_value(a), numeric_value(b)
     change = pct = None
     if na is not None and nb is not None and unit:
         change = nb - na
         pct = 100.0 * change / na if na else None
     return ValueChange(key, a, b, change, pct, unit)
-
-
-def _recorded(r: Reading | None, key: str) -> bool:
-    if r is None:
-        return False
-    v = getattr(r, key)
-    if key == "waveform":
-        return True
-    return v is not None
 
 
 def _match(
@@ -215,13 +217,13 @@ def compare_visits(
     order = ordered_visits(site)
     v_to = _pick(site, to_id, order[-1] if order else None, "to")
     if from_id is None:
-        before_to = order[: next(i for i, v in enumerate(order) if v is v_to)]
+        before_to = visits_before(site, v_to.id)
         if not before_to:
-            known = ", ".join(v.id for v in order)
             raise CompareError(
-                f"no visit earlier than {v_to.id!r} to compare with (known visits: {known})"
+                f"no visit earlier than {v_to.id!r} to compare with "
+                f"(known visits: {known_visits_text(site)})"
             )
-        v_from = before_to[-1]
+        v_from = before_to[0]
     else:
         v_from = _pick(site, from_id, None, "from")
 
@@ -242,7 +244,7 @@ def compare_visits(
         values = tuple(
             _value_change(k, old, new)
             for k in COMPARED_KEYS
-            if _recorded(old, k) or _recorded(new, k)
+            if (old is not None and old.recorded(k)) or (new is not None and new.recorded(k))
         )
         devices.append(
             DeviceComparison(dev, idx.label(dev), idx.board_of.get(dev, idx.root), presence, values)
@@ -282,12 +284,8 @@ def change_text(v: ValueChange) -> str:
 
 def compare_text(cmp: VisitComparison, width: int = 100) -> str:
     """The comparison as plain text, as ``tripwise compare`` prints it."""
-
-    def when(vid: str, date: str) -> str:
-        return f"visit {vid}" if vid == date else f"visit {vid} ({date})"
-
     lines = [
-        f"{cmp.site_name}: {when(cmp.from_id, cmp.from_date)} → {when(cmp.to_id, cmp.to_date)}",
+        cmp.title(),
         "",
         "Readings",
     ]

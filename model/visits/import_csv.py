@@ -25,11 +25,20 @@ from typing import Any, Literal
 
 from pydantic import ValidationError
 
-from model.site.history import find_visit, visit_ids
+from model.site.history import find_visit, known_visits_text
 from model.site.messages import error_text
-from model.site.models import Reading, SiteFile
+from model.site.models import Reading, SiteFile, Visit, blank
 from model.site.numbers import parse_number
-from model.site.terms import DID_NOT_TRIP, RCD_KINDS, TEST_NAMES
+from model.site.terms import (
+    DID_NOT_TRIP,
+    RCD_KINDS,
+    TEST_NAMES,
+    TEST_VALUE_KEYS,
+    ButtonResult,
+    TestWaveform,
+    choices_of,
+    or_list,
+)
 from model.storage.store import SiteLoadError, dumps_site, parse_site
 
 DEVICE_COLUMN = "device"
@@ -46,8 +55,9 @@ KEY_COLUMN: dict[str, str] = {v: k for k, v in VALUE_COLUMNS.items()}
 IMPORT_KEYS: tuple[str, ...] = tuple(VALUE_COLUMNS.values())
 MAX_CSV_BYTES = 10 * 1024 * 1024
 
-_WAVEFORMS = {"ac": "AC", "half-wave": "half-wave", "smooth-dc": "smooth-dc"}
-_BUTTON = {"worked": "worked", "failed": "failed"}
+#: Cell text (any case) -> the choice it records.
+_WAVEFORMS: dict[str, str] = {w.lower(): w for w in choices_of(TestWaveform)}
+_BUTTON: dict[str, str] = {b.lower(): b for b in choices_of(ButtonResult)}
 
 
 class ImportTargetError(ValueError):
@@ -106,7 +116,7 @@ class ImportPlan:
         return any(c.status != "unchanged" for c in self.changes)
 
     def counts(self) -> dict[str, int]:
-        out = {"added": 0, "changed": 0, "unchanged": 0}
+        out: dict[str, int] = dict.fromkeys(choices_of(Status), 0)
         for c in self.changes:
             out[c.status] += 1
         return out
@@ -142,10 +152,10 @@ def _cell_value(key: str, text: str) -> tuple[Any, str | None]:
         return v, None
     if key == "button":
         b = _BUTTON.get(text.lower())
-        return (b, None) if b else (None, f"{text!r} is not 'worked' or 'failed'")
+        return (b, None) if b else (None, f"{text!r} is not {or_list(map(repr, _BUTTON.values()))}")
     if key == "waveform":
         w = _WAVEFORMS.get(text.lower())
-        return (w, None) if w else (None, f"{text!r} is not AC, half-wave or smooth-dc")
+        return (w, None) if w else (None, f"{text!r} is not {or_list(_WAVEFORMS.values())}")
     return text, None  # note, not_tested
 
 
@@ -168,23 +178,21 @@ def _decode(data: bytes | str) -> str:
         raise CsvImportError([RowError(0, None, f"not UTF-8 text (byte {exc.start})")]) from None
 
 
-def plan_import(site: SiteFile, data: bytes | str, visit_id: str | None = None) -> ImportPlan:
-    """Check a readings CSV against the site and work out what it changes.
-
-    Raises :class:`ImportTargetError` when the visit is unknown (or the site
-    has none) and :class:`CsvImportError` with every problem of the file.
-    The site passed in is not modified.
-    """
+def _target_visit(site: SiteFile, visit_id: str | None) -> Visit:
+    """The visit to import into: the one named, or the latest."""
     if visit_id is None:
         visit = site.latest_visit()
         if visit is None:
             raise ImportTargetError("the site has no visits; add a visit before importing readings")
-    else:
-        visit = find_visit(site, visit_id)
-        if visit is None:
-            known = ", ".join(visit_ids(site)) or "none"
-            raise ImportTargetError(f"no visit {visit_id!r}; known visits: {known}")
+        return visit
+    found = find_visit(site, visit_id)
+    if found is None:
+        raise ImportTargetError(f"no visit {visit_id!r}; known visits: {known_visits_text(site)}")
+    return found
 
+
+def _records(data: bytes | str) -> list[list[str]]:
+    """The CSV's rows, the header first (which must not be empty)."""
     text = _decode(data)
     try:
         records = list(csv.reader(io.StringIO(text, newline="")))
@@ -192,8 +200,11 @@ def plan_import(site: SiteFile, data: bytes | str, visit_id: str | None = None) 
         raise CsvImportError([RowError(0, None, f"not readable as CSV: {exc}")]) from None
     if not records or not any(c.strip() for c in records[0]):
         raise CsvImportError([RowError(1, None, "no header row")])
+    return records
 
-    header = [_clean(c) for c in records[0]]
+
+def _columns(header: list[str]) -> tuple[int, dict[int, str]]:
+    """(the device column, {position: value column}) of a header; every problem raised."""
     errors: list[RowError] = []
     columns: dict[int, str] = {}
     device_col: int | None = None
@@ -222,8 +233,23 @@ def plan_import(site: SiteFile, data: bytes | str, visit_id: str | None = None) 
     if errors:
         raise CsvImportError(errors)
     assert device_col is not None
+    return device_col, columns
+
+
+def plan_import(site: SiteFile, data: bytes | str, visit_id: str | None = None) -> ImportPlan:
+    """Check a readings CSV against the site and work out what it changes.
+
+    Raises :class:`ImportTargetError` when the visit is unknown (or the site
+    has none) and :class:`CsvImportError` with every problem of the file.
+    The site passed in is not modified.
+    """
+    visit = _target_visit(site, visit_id)
+    records = _records(data)
+    header = [_clean(c) for c in records[0]]
+    device_col, columns = _columns(header)
     ignored = [h for i, h in enumerate(header) if i != device_col and i not in columns and h]
 
+    errors: list[RowError] = []
     by_id = {n.id: n for n in site.nodes}
     given_in: dict[str, int] = {}
     new_readings: dict[str, Reading] = {}
@@ -289,7 +315,7 @@ def plan_import(site: SiteFile, data: bytes | str, visit_id: str | None = None) 
             old is not None
             and old.not_tested is not None
             and "not_tested" not in values
-            and any(k in values for k in (*TEST_NAMES, "ramp_ma", "button"))
+            and any(k in values for k in TEST_VALUE_KEYS)
         )
         if cleared_not_tested:
             # tested after all: the values replace the earlier not-tested reason (shown)
@@ -317,11 +343,7 @@ def plan_import(site: SiteFile, data: bytes | str, visit_id: str | None = None) 
                 continue
             before = None if old is None else getattr(old, key)
             status: Status = (
-                "added"
-                if before is None or before == ""
-                else "unchanged"
-                if before == values[key]
-                else "changed"
+                "added" if blank(before) else "unchanged" if before == values[key] else "changed"
             )
             changes.append(KeyChange(dev, key, before, values[key], status))
     if errors:

@@ -17,7 +17,9 @@ from model.site.models import SiteFile
 from model.site.nodes import RccbNode
 from model.site.terms import RCD_KINDS
 from model.storage.store import dumps_site, load_site
-from model.visits.merge import MergeError, merge_sites, recorded_keys
+from model.visits.merge import merge_sites
+from model.visits.merge_conflicts import MergeError
+from model.visits.merge_result import recorded_keys
 from tests.visits_helpers import SAMPLES, make_site
 
 TIMES = st.one_of(

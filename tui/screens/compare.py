@@ -69,13 +69,7 @@ class CompareScreen(ModalScreen[None]):
 
     def _show(self, cmp: VisitComparison) -> None:
         self.comparison = cmp
-
-        def when(vid: str, date: str) -> str:
-            return f"visit {vid}" if vid == date else f"visit {vid} ({date})"
-
-        self.query_one("#compare-title", Static).update(
-            f"{cmp.site_name}: {when(cmp.from_id, cmp.from_date)} → {when(cmp.to_id, cmp.to_date)}"
-        )
+        self.query_one("#compare-title", Static).update(cmp.title())
         table = self.query_one("#compare-readings", DataTable)
         table.clear()
         for d in cmp.devices:

@@ -2,9 +2,6 @@
 
 from __future__ import annotations
 
-import json
-from typing import Any
-
 from rich.text import Text
 from textual import on
 from textual.app import ComposeResult
@@ -14,12 +11,8 @@ from textual.screen import ModalScreen
 from textual.widgets import DataTable, Static
 
 from model.site.models import SiteFile
-from model.visits.merge import Choice, Conflict, MergeError, MergeResult
-
-
-def _short(v: Any) -> str:
-    text = "(absent)" if v is None else json.dumps(v, ensure_ascii=False)
-    return text if len(text) <= 60 else text[:57] + "..."
+from model.visits.merge_conflicts import Choice, Conflict, MergeError, version_text
+from model.visits.merge_result import MergeResult
 
 
 class MergeScreen(ModalScreen[SiteFile | None]):
@@ -86,7 +79,7 @@ class MergeScreen(ModalScreen[SiteFile | None]):
             return
         lines = [f"{c.what}", f"where: {c.where}"]
         for name, a, b in c.differences():
-            lines.append(f"{name}:  ours {_short(a)}   |   theirs {_short(b)}")
+            lines.append(f"{name}:  ours {version_text(a, 60)}   |   theirs {version_text(b, 60)}")
         detail.update("\n".join(lines))
 
     def _update_status(self, message: str | None = None) -> None:

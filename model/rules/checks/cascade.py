@@ -18,6 +18,9 @@ from model.rules.findings import (
 from model.rules.limits import CASCADE_RATIO, DEFAULT_MAX_FAULT_A, IEC_61008_T1
 from model.site.terms import DID_NOT_TRIP
 
+#: The series-RCD ratio as messages write it: '3:1'.
+_RATIO = f"{CASCADE_RATIO.value:g}:1"
+
 DC_BLINDING_SOURCE = (
     "manufacturers' guidance derived from BS 7671 531.3.3; no regulation states it "
     "(medium confidence)"
@@ -157,7 +160,7 @@ def analyse_pairs(ctx: Context) -> list[PairAnalysis]:
         if not delayed:
             notes.append("upstream is not time-delayed")
         if ratio < CASCADE_RATIO.value:
-            notes.append(f"IΔn ratio {ratio:.3g}:1 is below 3:1")
+            notes.append(f"IΔn ratio {ratio:.3g}:1 is below {_RATIO}")
         ranges = unsafe_ranges(bands, row)
         margin = measured_margin(ctx, up, down, ranges)
         if not ranges:
@@ -237,13 +240,13 @@ def check_cascade(ctx: Context) -> Iterator[Finding]:
                 board=idx.board_of[p.down],
                 message=(
                     f"{idx.label(p.up)} ({up.idn_ma:g} mA) is upstream of {idx.label(p.down)} "
-                    f"({down.idn_ma:g} mA): ratio {p.ratio:.3g}:1, below 3:1."
+                    f"({down.idn_ma:g} mA): ratio {p.ratio:.3g}:1, below {_RATIO}."
                 ),
                 action="Use an upstream device of at least three times the downstream IΔn.",
                 source=CASCADE_RATIO.source,
                 basis="common-practice",
                 measured=f"{p.ratio:.3g}:1",
-                band="≥ 3:1",
+                band=f"≥ {_RATIO}",
             )
         if p.verdict == "not-selective":
             ranges = ", ".join(r.text() for r in p.ranges)

@@ -16,6 +16,8 @@ SMOOTH_DC_LOADS = frozenset({"ev-no-dc-detect", "drive-3ph", "inverter"})
 DC_COMPONENT_LOADS = frozenset(
     {"ev-no-dc-detect", "ev-dc-detect-6ma", "inverter", "drive-1ph", "drive-3ph", "it-equipment"}
 )
+#: The leakage limit as messages write it: '30 %' (of IΔn).
+_LEAKAGE_PCT = f"{100 * LEAKAGE_FRACTION.value:g} %"
 
 
 def _is_general_30(node: Any) -> bool:
@@ -158,7 +160,10 @@ def additional_reasons(ctx: Context, circuit: Any) -> list[tuple[str, str]]:
     small = rated is None or rated <= ADDITIONAL_MAX_A.value
     if circuit.use == "sockets" and small:
         out.append(
-            ("socket-outlets up to 32 A", src("BS 7671 411.3.3(a)", "IEC 60364-4-41 411.3.3"))
+            (
+                f"socket-outlets up to {ADDITIONAL_MAX_A.text()}",
+                src("BS 7671 411.3.3(a)", "IEC 60364-4-41 411.3.3"),
+            )
         )
     outdoor = circuit.use == "outdoor" or (
         "outdoor" in circuit.location and circuit.use not in ("fixed-equipment", "lighting")
@@ -219,10 +224,12 @@ def check_additional_protection(ctx: Context) -> Iterator[Finding]:
             nodes=(c, *path),
             board=idx.board_of[c],
             message=(
-                f"{idx.label(c)} needs additional protection by an RCD of 30 mA or less "
+                f"{idx.label(c)} needs additional protection by an RCD of "
+                f"{ADDITIONAL_IDN_MA.text()} or less "
                 f"({why}); {have}."
             ),
-            action="Provide a general-type RCD or RCBO of IΔn ≤ 30 mA for this circuit.",
+            action=f"Provide a general-type RCD or RCBO of IΔn ≤ {ADDITIONAL_IDN_MA.text()} "
+            "for this circuit.",
             source=sources,
             basis=basis,
         )
@@ -299,11 +306,12 @@ def check_leakage(ctx: Context) -> Iterator[Finding]:
                 nodes=(dev,),
                 board=idx.board_of[dev],
                 message=(
-                    f"Standing leakage below {idx.label(dev)} is about {got:.3g} mA, over 30 % of "
+                    f"Standing leakage below {idx.label(dev)} is about {got:.3g} mA, "
+                    f"over {_LEAKAGE_PCT} of "
                     f"its {node.idn_ma:g} mA rating ({limit:.3g} mA): nuisance trips are likely."
                 ),
-                action="Split the circuits over more devices so each carries no more than 30 % "
-                "of its IΔn in standing leakage.",
+                action="Split the circuits over more devices so each carries no more than "
+                f"{_LEAKAGE_PCT} of its IΔn in standing leakage.",
                 source=LEAKAGE_FRACTION.source,
                 basis="standard",
                 measured=f"{got:.3g} mA",

@@ -47,8 +47,8 @@ def check_earthing(ctx: Context) -> Iterator[Finding]:
             severity="investigate",
             nodes=(root,),
             board=root,
-            message="TT site with no earth electrode resistance RA recorded: the 50 V limit "
-            "cannot be checked.",
+            message="TT site with no earth electrode resistance RA recorded: the "
+            f"{TT_TOUCH_V.text()} limit cannot be checked.",
             action="Measure RA and record it in the site details.",
             source=TT_TOUCH_V.source,
         )
@@ -58,12 +58,12 @@ def check_earthing(ctx: Context) -> Iterator[Finding]:
             severity="advisory",
             nodes=(root,),
             board=root,
-            message=f"Earth electrode resistance RA {info.ra_ohm:g} Ω is above 200 Ω and may "
-            "not be stable (soil drying or freezing).",
+            message=f"Earth electrode resistance RA {info.ra_ohm:g} Ω is above "
+            f"{RA_STABLE_OHM.text()} and may not be stable (soil drying or freezing).",
             action="Improve the electrode (deeper or additional rods) and re-measure.",
             source=RA_STABLE_OHM.source,
             measured=f"{info.ra_ohm:g} Ω",
-            band="≤ 200 Ω",
+            band=f"≤ {RA_STABLE_OHM.text()}",
         )
     ra_fail: dict[str, list[str]] = {}
     for c in idx.circuits():
@@ -99,7 +99,8 @@ def check_earthing(ctx: Context) -> Iterator[Finding]:
                     severity="required",
                     nodes=(c, best),
                     board=idx.board_of[c],
-                    message=f"{idx.label(c)}: measured Zs {cn.zs_ohm:g} Ω exceeds 50 V / IΔn "
+                    message=f"{idx.label(c)}: measured Zs {cn.zs_ohm:g} Ω exceeds "
+                    f"{ZS_RCD_V.text()} / IΔn "
                     f"= {limit:.4g} Ω for {idx.label(best)} ({idn:g} mA).",
                     action="Find and reduce the high loop impedance (connections, protective "
                     "conductor, electrode) and re-test.",
@@ -117,12 +118,13 @@ def check_earthing(ctx: Context) -> Iterator[Finding]:
             nodes=(dev_id, *circuits),
             board=idx.board_of[dev_id],
             message=(
-                f"RA × IΔn = {info.ra_ohm:g} Ω × {dev.idn_ma:g} mA = {volts:.3g} V, over 50 V, "
+                f"RA × IΔn = {info.ra_ohm:g} Ω × {dev.idn_ma:g} mA = {volts:.3g} V, "
+                f"over {TT_TOUCH_V.text()}, "
                 f"for {idx.label(dev_id)}, which gives fault protection to {len(circuits)} circuit(s)."
             ),
             action="Lower RA or protect these circuits with a more sensitive RCD so that "
-            "RA × IΔn ≤ 50 V.",
+            f"RA × IΔn ≤ {TT_TOUCH_V.text()}.",
             source=TT_TOUCH_V.source,
             measured=f"{volts:.3g} V",
-            band="≤ 50 V",
+            band=f"≤ {TT_TOUCH_V.text()}",
         )

@@ -5,12 +5,20 @@ from __future__ import annotations
 from collections.abc import Iterator
 from typing import Any
 
-from model.rules.bands import GROUP_TITLE, fmt_value, group_of, judge_reading, ramp_band, time_band
+from model.rules.bands import (
+    GROUP_TITLE,
+    fmt_value,
+    group_of,
+    judge_reading,
+    numeric_value,
+    ramp_band,
+    time_band,
+)
 from model.rules.checks.context import Context
 from model.rules.findings import Finding
 from model.site.history import visits_before
 from model.site.models import Reading, Visit
-from model.site.terms import DID_NOT_TRIP, TEST_NAMES
+from model.site.terms import TEST_NAMES
 
 #: The tests a device must trip on; a growing trip time there means something.
 #: The ½ IΔn tests are left out: the device must not trip there at all.
@@ -21,12 +29,6 @@ _SOURCE = (
     "visits, or a device that passed and now fails, points to a deteriorating mechanism; "
     "the thresholds are this site's own settings, not a published limit)"
 )
-
-
-def _timed(value: float | str | None) -> float | None:
-    if value is None or value == DID_NOT_TRIP:
-        return None
-    return float(value)
 
 
 def check_trend(ctx: Context) -> Iterator[Finding]:
@@ -79,14 +81,14 @@ def _growth(
 ) -> Iterator[Finding]:
     grown: list[tuple[str, Visit, float, float]] = []
     for key in TREND_TESTS:
-        now = _timed(getattr(reading, key))
+        now = numeric_value(getattr(reading, key))
         if now is None:
             continue
         for prev_visit in earlier:
             prev = prev_visit.readings.get(dev)
             if prev is None or prev.waveform != reading.waveform:
                 continue
-            then = _timed(getattr(prev, key))
+            then = numeric_value(getattr(prev, key))
             if then is None:
                 continue
             grown_ms = now - then

@@ -18,7 +18,9 @@ from typing import Any
 
 from model.rules.findings import CAUTION
 from model.storage.store import save_site
-from model.visits.merge import Conflict, MergeError, MergeResult, merge_sites
+from model.visits.merge import merge_sites
+from model.visits.merge_conflicts import Conflict, MergeError
+from model.visits.merge_result import MergeResult
 from tui.cli.commands.common import load_or_report
 
 

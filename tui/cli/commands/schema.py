@@ -3,10 +3,9 @@
 from __future__ import annotations
 
 import argparse
-import json
 import sys
 
-from model.site.schema import site_schema
+from model.site.schema import schema_text
 
 
 def register(sub: argparse._SubParsersAction) -> None:  # type: ignore[type-arg]
@@ -15,6 +14,5 @@ def register(sub: argparse._SubParsersAction) -> None:  # type: ignore[type-arg]
 
 
 def run(args: argparse.Namespace) -> int:
-    json.dump(site_schema(), sys.stdout, ensure_ascii=False, indent=2)
-    sys.stdout.write("\n")
+    sys.stdout.write(schema_text())
     return 0
