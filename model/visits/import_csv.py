@@ -30,7 +30,7 @@ from model.site.messages import error_text
 from model.site.models import Reading, SiteFile
 from model.site.numbers import parse_number
 from model.site.terms import DID_NOT_TRIP, RCD_KINDS, TEST_NAMES
-from model.storage.store import SiteLoadError, dumps_site, parse_site
+from model.storage.codec import SiteLoadError, dumps_site, parse_site
 
 DEVICE_COLUMN = "device"
 #: Value columns of the test-sheet layout -> reading keys.

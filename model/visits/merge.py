@@ -31,9 +31,9 @@ from typing import Any, Literal
 
 from pydantic import ValidationError
 
+from model.site.messages import describe_validation_error
 from model.site.models import Reading, SiteFile, Visit
 from model.site.terms import TEST_NAMES
-from model.storage.store import describe_validation_error
 
 Choice = Literal["ours", "theirs"]
 CHOICES: tuple[Choice, ...] = ("ours", "theirs")

@@ -5,7 +5,7 @@ from __future__ import annotations
 import json
 from pathlib import Path
 
-from model.storage.store import load_site
+from model.storage.sites import load_site
 from tests.visits_helpers import run_cli, sample_copy, sheet_csv
 
 

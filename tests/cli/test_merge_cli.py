@@ -6,7 +6,7 @@ import json
 from pathlib import Path
 from typing import Any
 
-from model.storage.store import load_site
+from model.storage.sites import load_site
 from tests.visits_helpers import run_cli, sample_copy
 
 

@@ -16,7 +16,8 @@ from hypothesis import strategies as st
 from model.site.models import SiteFile
 from model.site.nodes import RccbNode
 from model.site.terms import RCD_KINDS
-from model.storage.store import dumps_site, load_site
+from model.storage.codec import dumps_site
+from model.storage.sites import load_site
 from model.visits.merge import MergeError, merge_sites, recorded_keys
 from tests.visits_helpers import SAMPLES, make_site
 

@@ -5,8 +5,9 @@ from __future__ import annotations
 import sys
 
 from model.site.models import SiteFile
+from model.storage.codec import SiteLoadError
 from model.storage.journal import journal_path
-from model.storage.store import SiteLoadError, load_site
+from model.storage.sites import load_site
 
 
 def load_or_report(path: str) -> SiteFile | None:

@@ -16,7 +16,7 @@ import argparse
 import sys
 from pathlib import Path
 
-from model.storage.store import save_site
+from model.storage.sites import save_site
 from model.visits.import_csv import CsvImportError, ImportTargetError, plan_import, preview_text
 from tui.cli.commands.common import load_or_report
 

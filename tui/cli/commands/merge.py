@@ -17,7 +17,7 @@ from pathlib import Path
 from typing import Any
 
 from model.rules.findings import CAUTION
-from model.storage.store import save_site
+from model.storage.sites import save_site
 from model.visits.merge import Conflict, MergeError, MergeResult, merge_sites
 from tui.cli.commands.common import load_or_report
 
