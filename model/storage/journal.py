@@ -63,7 +63,6 @@ class JournalContents:
     warnings: list[str] = field(default_factory=list)
     #: Bytes up to the end of the last whole line (a torn tail starts here).
     good_size: int = 0
-    size: int = 0
 
 
 def _header(base: str) -> bytes:
@@ -99,7 +98,7 @@ def read_journal(path: str | os.PathLike[str]) -> JournalContents | None:
             f"the recovery journal {jp.name} could not be read: {plain_os_error(exc)}"
         )
         return out
-    out = JournalContents(jp, None, size=len(data))
+    out = JournalContents(jp, None)
     if len(data) > MAX_JOURNAL_BYTES:
         out.warnings.append(f"the recovery journal {jp.name} is too large to read")
         return out
