@@ -2,8 +2,9 @@
 
 Merges two copies of one site edited apart (two laptops on one site).  Both
 inputs are only read.  The result is written to ``--out`` (default
-``<base stem>-merged.json`` beside BASE) with an atomic save, never over an
-existing file unless ``--force`` is given, and never over either input.
+``<base stem>-merged.json`` beside BASE) as the app saves a site (editing
+lock, atomic save), never over an existing file unless ``--force`` is given,
+never over either input, and never over a site open in the app.
 Exit codes: 0 merged (clean, or every conflict settled by ``--take``),
 1 conflicts listed and nothing written, 2 bad input.
 """
@@ -17,9 +18,9 @@ from pathlib import Path
 from typing import Any
 
 from model.rules.findings import CAUTION
-from model.storage.sites import save_site
+from model.storage.lock import LockHeld
 from model.visits.merge import Conflict, MergeError, MergeResult, merge_sites
-from tui.cli.commands.common import load_or_report
+from tui.cli.commands.common import load_or_report, report_held, write_site
 
 
 def register(sub: argparse._SubParsersAction) -> None:  # type: ignore[type-arg]
@@ -127,7 +128,9 @@ def run(args: argparse.Namespace) -> int:
             print(f"tripwise: {exc}; nothing written", file=sys.stderr)
         return 1
     try:
-        save_site(merged, out)
+        write_site(out, merged, replace=args.force)
+    except LockHeld as exc:
+        return report_held(out, exc)
     except OSError as exc:
         print(f"tripwise: cannot write {out}: {exc.strerror or exc}", file=sys.stderr)
         return 2
