@@ -26,7 +26,7 @@ from bench.gen_site import generate_site  # noqa: E402
 from model.site.models import Reading
 from model.site.terms import RCD_KINDS
 from model.storage.session import EditSession  # noqa: E402
-from model.storage.store import load_site, save_site  # noqa: E402
+from model.storage.sites import load_site, save_site  # noqa: E402
 
 
 def _median_ms(fn: Callable[[int], object], repeat: int) -> float:

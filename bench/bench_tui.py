@@ -30,7 +30,7 @@ from textual.widgets import DataTable, Tree  # noqa: E402
 from model.site.models import SiteFile
 from model.site.terms import RCD_KINDS
 from model.site.tree import SiteIndex  # noqa: E402
-from model.storage.store import load_site, save_site  # noqa: E402
+from model.storage.sites import load_site, save_site  # noqa: E402
 from tui.app.shell import make_app  # noqa: E402
 from tui.screens.readings import ReadingScreen  # noqa: E402
 

@@ -1,14 +1,108 @@
-"""Validation messages in the user's words: the one place that unwraps pydantic's text."""
+"""Validation messages in the user's words: the one place that unwraps pydantic's text.
+
+:func:`error_text` is the text of one pydantic error; :func:`describe_validation_error`
+turns a whole ``ValidationError`` into one line naming where each problem is
+(``nodes[3] (rcd1).idn_ma: ...``); :func:`one_line` makes any message print as
+one line.
+"""
 
 from __future__ import annotations
 
 from collections.abc import Mapping
 from typing import Any
 
+from pydantic import ValidationError
+
+from model.site.terms import ID_RULE
+
 #: pydantic puts this before the text of a ValueError raised in a validator.
 _VALUE_ERROR_PREFIX = "Value error, "
+
+_CONTROL = {c: f"\\x{c:02x}" for c in range(32)} | {10: "\\n", 13: "\\r", 9: " "}
 
 
 def error_text(err: Mapping[str, Any], default: str = "invalid") -> str:
     """The message of one pydantic error detail, without pydantic's own prefix."""
     return str(err.get("msg", default)).removeprefix(_VALUE_ERROR_PREFIX)
+
+
+def one_line(text: str) -> str:
+    """``text`` with line breaks and control characters escaped, so it prints as one line."""
+    return text.translate(_CONTROL)
+
+
+def _shown_key(key: str) -> str:
+    return key if key.isprintable() and len(key) <= 40 else repr(key[:40])
+
+
+def _walk(loc: tuple[Any, ...], raw: Any) -> str:
+    """A JSON path like ``nodes[3] (rcd1).idn_ma`` for a pydantic error location.
+
+    Elements of ``loc`` that name no real place in the data (pydantic's labels
+    of union members, which users never typed) are left out.
+    """
+    parts: list[str] = []
+    cur = raw
+    i = 0
+    while i < len(loc):
+        key = loc[i]
+        if isinstance(key, int) and isinstance(cur, list):
+            parts.append(f"[{key}]")
+            nxt = cur[key] if 0 <= key < len(cur) else None
+            if isinstance(nxt, dict) and isinstance(nxt.get("id"), str):
+                parts.append(f" ({_shown_key(nxt['id'])})")
+                # pydantic adds the union tag after a list index of a discriminated union
+                if i + 1 < len(loc) and loc[i + 1] == nxt.get("kind"):
+                    i += 1
+            cur = nxt
+        elif isinstance(cur, dict) and isinstance(key, str) and key in cur:
+            parts.append(f".{_shown_key(key)}" if parts else _shown_key(key))
+            cur = cur[key]
+        elif isinstance(cur, dict) and isinstance(key, str) and i == len(loc) - 1:
+            # a missing or extra field
+            parts.append(f".{_shown_key(key)}" if parts else _shown_key(key))
+            cur = None
+        elif (
+            isinstance(cur, dict)
+            and i + 1 < len(loc)
+            and isinstance(loc[i + 1], str)
+            and loc[i + 1] in cur
+        ):
+            i += 1  # a tagged-union label in the middle of the path
+            continue
+        else:
+            break
+        i += 1
+    return "".join(parts)
+
+
+def describe_validation_error(exc: ValidationError, raw: Any) -> str:
+    """One clause per problem, each with its JSON path in ``raw``; joined by '; '.
+
+    Errors from the members of one union (a time or 'did not trip') are merged
+    into one clause.
+    """
+    merged: dict[str, list[str]] = {}
+    for err in exc.errors():
+        loc = tuple(err.get("loc", ()))
+        msg = error_text(err)
+        if err.get("type") == "extra_forbidden":
+            field = loc[-1] if loc else "?"
+            msg = f"field {str(field)[:60]!r} is not allowed here"
+            loc = loc[:-1]
+        elif err.get("type") == "union_tag_invalid":
+            msg = "unknown kind; " + msg
+        elif err.get("type") == "string_pattern_mismatch" and loc and loc[-1] in ("id", "parent"):
+            msg = f"an id is {ID_RULE}"
+        elif err.get("type") == "missing":
+            msg = "required field is missing"
+        msgs = merged.setdefault(_walk(loc, raw), [])
+        if msg not in msgs:
+            msgs.append(msg)
+    out: list[str] = []
+    for where, msgs in merged.items():
+        text = " or ".join(msgs)
+        out.append(f"{where}: {text}" if where else text)
+    if len(out) > 5:
+        out = [*out[:5], f"and {len(out) - 5} more"]
+    return "; ".join(out)

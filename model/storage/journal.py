@@ -6,24 +6,14 @@ the edits apply to::
 
     {"journal": "tripwise.journal", "version": 1, "base": "sha256:…"}
 
-and each further line is one small edit (an *op*), appended and synced to
-disk before the edit is reported as saved::
-
-    {"op": "set-reading", "visit": "2026-11-14", "device": "rc1", "reading": {"x1_0": 22.0}}
-    {"op": "upsert-node", "node": {"id": "c9", "parent": "m3", "kind": "circuit", …}}
-    {"op": "delete-nodes", "ids": ["m3", "c9"]}
-    {"op": "set-site-info", "info": {…}}
-    {"op": "upsert-visit", "visit": {…}}
-    {"op": "replace-site", "site": {…whole site file…}}
+and each further line is one edit (an op of :mod:`model.site.ops`), appended
+and synced to disk before the edit is reported as saved.
 
 A full save first appends ``{"saving": "sha256:…"}`` (the digest the file is
 about to have), then replaces the file, then removes the journal; a journal
 found with a ``saving`` digest equal to the file's is already in the file.
-
-:func:`apply_op` is the pure function that turns a site and an op into the
-next site, validating the result; live edits and replay on open use the same
-function, so a journal replays to exactly what the editor showed.  A last line
-cut off by a crash is ignored with a warning; so is a damaged line.
+A last line cut off by a crash is ignored with a warning; so is a damaged line.
+A journal grown large is compacted into one whole-site entry.
 """
 
 from __future__ import annotations
@@ -36,23 +26,13 @@ import os
 from collections.abc import Iterator
 from dataclasses import dataclass, field
 from pathlib import Path
-from typing import Annotated, Any, Literal
 
-from pydantic import BaseModel, ConfigDict, Field, TypeAdapter, ValidationError
+from pydantic import ValidationError
 
-from model.site.models import Reading, SiteFile, SiteInfo, Visit
-from model.site.nodes import Node
-from model.site.terms import RCD_KINDS, NodeId
-from model.storage.store import (
-    SaveError,
-    describe_validation_error,
-    fsync_dir,
-    one_line,
-    plain_os_error,
-    site_to_dict,
-    temp_name,
-    write_new_file,
-)
+from model.site.messages import describe_validation_error
+from model.site.models import SiteFile
+from model.site.ops import Op, ReplaceSite, op_from_dict, op_to_dict
+from model.storage.files import SaveError, fsync_dir, plain_os_error, write_atomic
 
 #: Suffix of the journal beside a site file (``site.json.tripwise-journal``).
 JOURNAL_SUFFIX = ".tripwise-journal"
@@ -70,217 +50,6 @@ def journal_path(site_path: str | os.PathLike[str]) -> Path:
     return p.with_name(p.name + JOURNAL_SUFFIX)
 
 
-class InvalidEdit(ValueError):
-    """An edit that would make the site invalid; nothing was changed.  ``str()`` is one line."""
-
-    def __init__(self, message: str) -> None:
-        super().__init__(one_line(message))
-
-
-_OP_CONFIG = ConfigDict(extra="forbid", strict=True)
-
-
-class SetReading(BaseModel):
-    """Set (or, with ``reading`` null, remove) one device's reading on one visit."""
-
-    model_config = _OP_CONFIG
-    op: Literal["set-reading"] = "set-reading"
-    visit: NodeId = Field(description="Visit id.")
-    device: NodeId = Field(description="Residual-current device id.")
-    reading: Reading | None = Field(default=None, description="The reading; null removes it.")
-
-
-class UpsertNode(BaseModel):
-    """Add a node, or replace the node with the same id (keeping its place in the list)."""
-
-    model_config = _OP_CONFIG
-    op: Literal["upsert-node"] = "upsert-node"
-    node: Node = Field(description="The node.")
-
-
-class DeleteNodes(BaseModel):
-    """Remove nodes (and their readings on every visit)."""
-
-    model_config = _OP_CONFIG
-    op: Literal["delete-nodes"] = "delete-nodes"
-    ids: list[NodeId] = Field(min_length=1, description="Ids of the nodes to remove.")
-
-
-class SetSiteInfo(BaseModel):
-    """Replace the site's details."""
-
-    model_config = _OP_CONFIG
-    op: Literal["set-site-info"] = "set-site-info"
-    info: SiteInfo = Field(description="The new details.")
-
-
-class UpsertVisit(BaseModel):
-    """Add a visit, or replace the visit with the same id (readings included)."""
-
-    model_config = _OP_CONFIG
-    op: Literal["upsert-visit"] = "upsert-visit"
-    visit: Visit = Field(description="The visit.")
-
-
-class ReplaceSite(BaseModel):
-    """Replace the whole site (moves, copies, undo: any other edit)."""
-
-    model_config = _OP_CONFIG
-    op: Literal["replace-site"] = "replace-site"
-    site: SiteFile = Field(description="The whole new site.")
-
-
-Op = Annotated[
-    SetReading | UpsertNode | DeleteNodes | SetSiteInfo | UpsertVisit | ReplaceSite,
-    Field(discriminator="op"),
-]
-_OP_ADAPTER: TypeAdapter[Op] = TypeAdapter(Op)
-
-
-def op_to_dict(op: Op) -> dict[str, Any]:
-    """The JSON-ready form of an op (defaults left out, like the site file)."""
-    if isinstance(op, SetReading):
-        reading = None if op.reading is None else op.reading.model_dump(exclude_defaults=True)
-        return {"op": op.op, "visit": op.visit, "device": op.device, "reading": reading}
-    if isinstance(op, ReplaceSite):
-        return {"op": op.op, "site": site_to_dict(op.site)}
-    return op.model_dump(mode="json", exclude_defaults=True) | {"op": op.op}
-
-
-def op_from_dict(data: Any) -> Op:
-    """Validate an op read from a journal line (``ValidationError`` when it is not one)."""
-    return _OP_ADAPTER.validate_python(data)
-
-
-def validated_op(op: Op) -> Op:
-    """The op re-read from its JSON form: checks models that were built without validation."""
-    try:
-        return op_from_dict(json.loads(json.dumps(op_to_dict(op))))
-    except ValidationError as exc:
-        raise InvalidEdit(describe_validation_error(exc, op_to_dict(op))) from None
-    except (TypeError, ValueError) as exc:
-        raise InvalidEdit(f"not a valid edit: {exc}") from None
-
-
-def describe_op(op: Op) -> str:
-    """One plain line saying what an op did ("reading for rc1 on visit 2026-11-14")."""
-    if isinstance(op, SetReading):
-        if op.reading is None:
-            return f"removal of the reading for {op.device} on visit {op.visit}"
-        return f"reading for {op.device} on visit {op.visit}"
-    if isinstance(op, UpsertNode):
-        return f"{op.node.kind} {op.node.id}"
-    if isinstance(op, DeleteNodes):
-        shown = ", ".join(op.ids[:5]) + (f" and {len(op.ids) - 5} more" if len(op.ids) > 5 else "")
-        return f"deletion of {shown}"
-    if isinstance(op, SetSiteInfo):
-        return "site details"
-    if isinstance(op, UpsertVisit):
-        return f"visit {op.visit.id}"
-    return "whole-site edit"
-
-
-def _revalidate(site: SiteFile, **changes: Any) -> SiteFile:
-    """A new site with ``changes``, checked as a whole (the parts are already valid models)."""
-    doc: dict[str, Any] = {
-        "format": site.format,
-        "version": site.version,
-        "site": site.site,
-        "nodes": site.nodes,
-        "visits": site.visits,
-    }
-    doc.update(changes)
-    try:
-        return SiteFile.model_validate(doc)
-    except ValidationError as exc:
-        raise InvalidEdit(describe_validation_error(exc, site_to_dict(site))) from None
-
-
-def apply_op(site: SiteFile, op: Op) -> SiteFile:
-    """The site after ``op``; ``site`` itself is never changed.
-
-    Raises :class:`InvalidEdit` (a ``ValueError``) with a one-line message
-    when the result would not be a valid site.
-    """
-    if isinstance(op, SetReading):
-        return _set_reading(site, op)
-    if isinstance(op, UpsertNode):
-        nodes = list(site.nodes)
-        for i, n in enumerate(nodes):
-            if n.id == op.node.id:
-                nodes[i] = op.node
-                break
-        else:
-            nodes.append(op.node)
-        return _revalidate(site, nodes=nodes)
-    if isinstance(op, DeleteNodes):
-        gone = set(op.ids)
-        known = {n.id for n in site.nodes}
-        missing = [i for i in op.ids if i not in known]
-        if missing:
-            raise InvalidEdit(f"cannot delete {', '.join(missing[:5])}: no such node")
-        nodes = [n for n in site.nodes if n.id not in gone]
-        orphans = [n.id for n in nodes if n.parent in gone]
-        if orphans:
-            raise InvalidEdit(
-                f"cannot delete {', '.join(sorted(gone & {n.parent for n in nodes if n.parent}))}: "
-                f"{', '.join(orphans[:5])} would be left without a parent (delete them too, "
-                "or move them first)"
-            )
-        visits = [
-            v
-            if not gone & v.readings.keys()
-            else v.model_copy(
-                update={"readings": {k: r for k, r in v.readings.items() if k not in gone}}
-            )
-            for v in site.visits
-        ]
-        return _revalidate(site, nodes=nodes, visits=visits)
-    if isinstance(op, SetSiteInfo):
-        return site.model_copy(update={"site": op.info})
-    if isinstance(op, UpsertVisit):
-        visits = list(site.visits)
-        for i, v in enumerate(visits):
-            if v.id == op.visit.id:
-                visits[i] = op.visit
-                break
-        else:
-            visits.append(op.visit)
-        return _revalidate(site, visits=visits)
-    return op.site
-
-
-def _set_reading(site: SiteFile, op: SetReading) -> SiteFile:
-    """Fast path: only what a reading can break is checked (visit and device exist, device is an RCD)."""
-    vi = next((i for i, v in enumerate(site.visits) if v.id == op.visit), -1)
-    if vi < 0:
-        raise InvalidEdit(f"no visit {op.visit!r} in this site")
-    visit = site.visits[vi]
-    if op.reading is not None:
-        for n in site.nodes:
-            if n.id == op.device:
-                if n.kind not in RCD_KINDS:
-                    raise InvalidEdit(
-                        f"{op.device} is a {n.kind}; readings are for residual-current devices"
-                    )
-                break
-        else:
-            raise InvalidEdit(f"no device {op.device!r} in this site")
-    readings = dict(visit.readings)
-    if op.reading is None:
-        if op.device not in readings:
-            return site
-        del readings[op.device]
-    else:
-        readings[op.device] = op.reading
-    visits = list(site.visits)
-    visits[vi] = visit.model_copy(update={"readings": readings})
-    return site.model_copy(update={"visits": visits})
-
-
-# --- the journal file -------------------------------------------------------
-
-
 @dataclass
 class JournalContents:
     """What a journal file holds, read without changing it."""
@@ -294,7 +63,6 @@ class JournalContents:
     warnings: list[str] = field(default_factory=list)
     #: Bytes up to the end of the last whole line (a torn tail starts here).
     good_size: int = 0
-    size: int = 0
 
 
 def _header(base: str) -> bytes:
@@ -330,7 +98,7 @@ def read_journal(path: str | os.PathLike[str]) -> JournalContents | None:
             f"the recovery journal {jp.name} could not be read: {plain_os_error(exc)}"
         )
         return out
-    out = JournalContents(jp, None, size=len(data))
+    out = JournalContents(jp, None)
     if len(data) > MAX_JOURNAL_BYTES:
         out.warnings.append(f"the recovery journal {jp.name} is too large to read")
         return out
@@ -410,15 +178,14 @@ class JournalWriter:
         self._size = good_size
 
     def _start(self, first_lines: bytes = b"") -> None:
-        """Put a fresh journal (header and ``first_lines``) in place atomically."""
-        tmp = temp_name(self.path)
-        write_new_file(tmp, _header(self.base) + first_lines, None)
+        """Put a fresh journal (header and ``first_lines``) in place atomically.
+
+        Raises the ``OSError`` behind a failure: the callers say what they were doing.
+        """
         try:
-            os.replace(tmp, self.path)
-        except BaseException:
-            tmp.unlink(missing_ok=True)
-            raise
-        fsync_dir(self.path.parent)
+            write_atomic(self.path, _header(self.base) + first_lines, replace=True, backup=False)
+        except SaveError as exc:
+            raise exc.os_error or OSError(exc.reason) from None
         fd = os.open(self.path, os.O_WRONLY | getattr(os, "O_CLOEXEC", 0))
         self._close_fd()
         self._fd = fd

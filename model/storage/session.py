@@ -1,11 +1,12 @@
-"""Editing a site file: the one API the app uses to change a site on disk.
+"""Editing a site file: the one API the app and the commands use to change a site on disk.
 
 An :class:`EditSession` holds the site open for editing (with the lock of
-:mod:`model.storage.lock`), records every accepted edit in the recovery journal of
-:mod:`model.storage.journal` before it returns, and writes the whole file with
-:func:`model.storage.store.save_site` on :meth:`EditSession.save`.  So an edit that has
+:mod:`model.storage.lock`), records every accepted edit (an op of
+:mod:`model.site.ops`) in the recovery journal of :mod:`model.storage.journal`
+before it returns, and writes the whole file with the atomic writer of
+:mod:`model.storage.files` on :meth:`EditSession.save`.  So an edit that has
 returned is on disk, whatever happens next; opening the site again replays the
-journal and lists what was recovered.
+journal (:mod:`model.storage.recovery`) and lists what was recovered.
 
 Files beside ``site.json``: ``site.json.bak`` (the version before the last
 save), ``site.json.tripwise-journal`` (edits not yet in the file),
@@ -23,16 +24,12 @@ from pathlib import Path
 
 from pydantic import ValidationError
 
+from model.site.messages import describe_validation_error
 from model.site.models import Reading, SiteFile, SiteInfo, Visit
 from model.site.nodes import Node
-from model.site.terms import FORMAT_VERSION, ID_PATTERN
-from model.storage.journal import (
-    COMPACT_BYTES,
-    JOURNAL_SUFFIX,
+from model.site.ops import (
     DeleteNodes,
     InvalidEdit,
-    JournalContents,
-    JournalWriter,
     Op,
     ReplaceSite,
     SetReading,
@@ -40,25 +37,22 @@ from model.storage.journal import (
     UpsertNode,
     UpsertVisit,
     apply_op,
-    describe_op,
-    journal_path,
-    move_aside,
-    read_journal,
     validated_op,
 )
-from model.storage.lock import LockHeld, LockInfo, LockUnavailable, SiteLock
-from model.storage.store import (
+from model.site.terms import FORMAT_VERSION, ID_PATTERN
+from model.storage.codec import SiteLoadError, digest_bytes, dumps_site
+from model.storage.files import (
     SaveError,
-    SiteLoadError,
     backup_path,
+    canonical_path,
     copy_aside,
-    describe_validation_error,
-    digest_bytes,
-    dumps_site,
     plain_os_error,
-    read_site,
-    write_site_bytes,
+    write_atomic,
 )
+from model.storage.journal import COMPACT_BYTES, JournalWriter
+from model.storage.lock import LockHeld, LockInfo, LockUnavailable, SiteLock
+from model.storage.recovery import recover, remove_stray_temp_files, set_aside_old_journal
+from model.storage.sites import read_site
 
 _ID_RE = re.compile(ID_PATTERN)
 
@@ -114,7 +108,7 @@ class EditSession:
     @classmethod
     def open(cls, path: str | os.PathLike[str], *, read_only: bool = False) -> EditSession:
         """Open a site; replay its journal.  Raises ``SiteLoadError`` or ``LockHeld``."""
-        p = _canonical(path)
+        p = canonical_path(path)
         lock: SiteLock | None = None
         if not read_only:
             if not p.exists():
@@ -152,7 +146,7 @@ class EditSession:
                 )
             s._recover()
             if not read_only:
-                s._remove_stray_temp_files()
+                remove_stray_temp_files(p)
         except BaseException:
             if lock is not None:
                 lock.release()
@@ -160,10 +154,17 @@ class EditSession:
         return s
 
     @classmethod
-    def create(cls, path: str | os.PathLike[str], site: SiteFile) -> EditSession:
-        """Write a new site file and open it; ``FileExistsError`` if the path exists."""
-        p = _canonical(path)
-        if p.exists():
+    def create(
+        cls, path: str | os.PathLike[str], site: SiteFile, *, replace: bool = False
+    ) -> EditSession:
+        """Write a new site file and open it.
+
+        Without ``replace`` the path must not exist (``FileExistsError``); with
+        it, a file there is replaced and kept as ``<name>.bak``.  ``LockHeld``
+        when another editor has the file open.
+        """
+        p = canonical_path(path)
+        if not replace and p.exists():
             raise FileExistsError(f"{p} already exists; tripwise will not overwrite it")
         site = apply_op(
             site, validated_op(ReplaceSite.model_construct(op="replace-site", site=site))
@@ -174,15 +175,11 @@ class EditSession:
             raise SaveError(p, "making the lock file", plain_os_error(exc)) from None
         try:
             data = dumps_site(site).encode("utf-8")
-            old = read_journal(journal_path(p))
-            write_site_bytes(data, p, exclusive=True)
+            write_atomic(p, data, replace=replace, backup=True)
             s = cls(p, site, read_only=False, digest=digest_bytes(data), lock=lock)
-            if old is not None:
-                moved = move_aside(old.path, "unused")
-                s.warnings.append(
-                    "an old recovery journal for a file of this name was set aside"
-                    + (f" as {moved.name}" if moved else "")
-                )
+            warning = set_aside_old_journal(p)
+            if warning:
+                s.warnings.append(warning)
         except BaseException:
             lock.release()
             raise
@@ -192,78 +189,13 @@ class EditSession:
         return self.path.with_name(f"{self.path.name}.v{self._source_version}.bak")
 
     def _recover(self) -> None:
-        jp = journal_path(self.path)
-        contents = read_journal(jp)
-        if contents is None:
-            return
-        self.warnings.extend(contents.warnings)
-        if contents.base == self._digest:
-            self._replay(contents)
-            return
-        if self._digest in contents.saving:
-            # The last save replaced the file but stopped before it could clear the
-            # journal: every entry is already in the file.
-            if not self.read_only:
-                self._discard_journal(jp)
-            return
-        if contents.base is None and not contents.ops:
-            if not self.read_only and not contents.warnings:
-                self._discard_journal(jp)
-            elif not self.read_only:
-                moved = move_aside(jp, "unreadable")
-                if moved:
-                    self.warnings.append(f"the unreadable journal was kept as {moved.name}")
-            return
-        n = len(contents.ops)
-        if n == 0 and not contents.warnings:
-            if not self.read_only:  # nothing in it but a header: nothing to keep
-                self._discard_journal(jp)
-            return
-        where = ""
-        if not self.read_only:
-            moved = move_aside(jp, "unapplied")
-            where = f"; they are kept in {moved.name}" if moved else ""
-        self.warnings.append(
-            f"{self.path.name} was changed outside tripwise after the recovery journal was "
-            f"written, so its {n} unsaved edit{'s were' if n != 1 else ' was'} not applied{where}"
-        )
-
-    def _replay(self, contents: JournalContents) -> None:
-        site = self.site
-        for op in contents.ops:
-            try:
-                site = apply_op(site, op)
-            except InvalidEdit as exc:
-                self.warnings.append(
-                    f"the recorded {describe_op(op)} could not be applied and was skipped: {exc}"
-                )
-                continue
-            self.recovered.append(f"recovered {describe_op(op)}")
-        self.site = site
-        self._pending = len(contents.ops)
-        if not self.read_only:
-            assert self._journal is not None
-            self._journal = JournalWriter(self.path, self._digest, existing_size=contents.good_size)
-
-    def _discard_journal(self, jp: Path) -> None:
-        with contextlib.suppress(OSError):
-            jp.unlink()
-
-    def _remove_stray_temp_files(self) -> None:
-        """Temporary files left by a save that was cut off (we hold the lock: nobody else saves)."""
-        pattern = re.compile(
-            r"^\."
-            + re.escape(self.path.name)
-            + r"(\.bak|\.v\d+\.bak|"
-            + re.escape(JOURNAL_SUFFIX)
-            + r")?\.(\d+)-[0-9a-f]{8}\.tmp$"
-        )
-        with contextlib.suppress(OSError):
-            for entry in os.scandir(self.path.parent):
-                m = pattern.match(entry.name)
-                if m and not _pid_alive(int(m.group(2))):
-                    with contextlib.suppress(OSError):
-                        os.unlink(entry.path)
+        r = recover(self.path, self.site, self._digest, read_only=self.read_only)
+        self.site = r.site
+        self.recovered.extend(r.recovered)
+        self.warnings.extend(r.warnings)
+        self._pending = r.pending
+        if r.resume_at is not None and not self.read_only:
+            self._journal = JournalWriter(self.path, self._digest, existing_size=r.resume_at)
 
     # --- state --------------------------------------------------------------
 
@@ -359,7 +291,7 @@ class EditSession:
         new_digest = digest_bytes(data)
         assert self._journal is not None
         self._journal.mark_saving(new_digest)
-        write_site_bytes(data, self.path)
+        write_atomic(self.path, data, replace=True, backup=True)
         self._digest = new_digest
         self._source_version = FORMAT_VERSION
         self._pending = 0
@@ -383,30 +315,6 @@ class EditSession:
 
     def __exit__(self, *exc: object) -> None:
         self.close()
-
-
-def _pid_alive(pid: int) -> bool:
-    """True when a process with this id is running on this machine (not this one)."""
-    if pid == os.getpid():
-        return False
-    try:
-        os.kill(pid, 0)
-    except ProcessLookupError:
-        return False
-    except OSError:
-        return True  # it exists but belongs to someone else
-    return True
-
-
-def _canonical(path: str | os.PathLike[str]) -> Path:
-    """The path as given, or its real path when symbolic links are involved.
-
-    Two editors reaching one file by different links must find the same lock
-    and journal.
-    """
-    given = Path(path)
-    real = Path(os.path.realpath(given))
-    return given if real == Path(os.path.abspath(given)) else real
 
 
 def _is_id(text: object) -> bool:

@@ -39,7 +39,7 @@ from model.site.terms import (
     choices_of,
     or_list,
 )
-from model.storage.store import SiteLoadError, dumps_site, parse_site
+from model.storage.codec import SiteLoadError, dumps_site, parse_site
 
 DEVICE_COLUMN = "device"
 #: Value columns of the test-sheet layout -> reading keys.

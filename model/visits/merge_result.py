@@ -16,9 +16,9 @@ from typing import Any, Literal
 
 from pydantic import ValidationError
 
+from model.site.messages import describe_validation_error
 from model.site.models import Reading, SiteFile, blank
 from model.site.terms import FORMAT_NAME, FORMAT_VERSION, TEST_VALUE_KEYS
-from model.storage.store import describe_validation_error
 from model.visits.merge_conflicts import CHOICES, Accounted, Choice, Conflict, MergeError
 
 #: The values of a reading, each merged on its own.

@@ -3,9 +3,13 @@
 from __future__ import annotations
 
 import json
+import os
 from pathlib import Path
 
-from model.storage.store import load_site
+from model.site.models import Reading
+from model.storage.journal import journal_path
+from model.storage.session import EditSession
+from model.storage.sites import load_site
 from tests.visits_helpers import run_cli, sample_copy, sheet_csv
 
 
@@ -77,3 +81,48 @@ def test_missing_csv_and_nothing_to_change(tmp_path: Path) -> None:
     p = run_cli("import-readings", str(site), str(csv_path), "--yes")
     assert p.returncode == 0 and "Nothing to change" in p.stdout
     assert site.read_bytes() == before
+
+
+def test_site_open_in_the_app_is_not_written(tmp_path: Path) -> None:
+    site, csv_path, before = setup(tmp_path, [{"device": "rb2", "x1_0": 19.0}])
+    holder = EditSession.open(site)  # the app has the site open
+    try:
+        p = run_cli("import-readings", str(site), str(csv_path), "--yes")
+    finally:
+        holder.close()
+    assert p.returncode == 2
+    (line,) = p.stderr.strip().splitlines()
+    assert f"cannot write {site}" in line and f"open for editing by pid {os.getpid()}" in line
+    assert "nothing written" in line
+    assert site.read_bytes() == before
+    assert sorted(x.name for x in tmp_path.iterdir()) == ["oak-lane-house.json", "sheet.csv"]
+
+
+def test_written_as_the_app_saves_it(tmp_path: Path) -> None:
+    site, csv_path, before = setup(tmp_path, [{"device": "rb2", "x1_0": 19.0}])
+    p = run_cli("import-readings", str(site), str(csv_path), "--yes")
+    assert p.returncode == 0, p.stderr
+    # the previous version kept as the backup; no lock or journal left behind
+    assert sorted(x.name for x in tmp_path.iterdir()) == [
+        "oak-lane-house.json",
+        "oak-lane-house.json.bak",
+        "sheet.csv",
+    ]
+    assert (tmp_path / "oak-lane-house.json.bak").read_bytes() == before
+
+
+def test_unsaved_app_edits_are_left_for_the_app(tmp_path: Path) -> None:
+    site, csv_path, _ = setup(tmp_path, [{"device": "rb2", "x1_0": 19.0}])
+    s = EditSession.open(site)  # an app session that ended without saving
+    s.set_reading(s.site.visits[-1].id, "rc1", Reading(x1_0=41.0))
+    s.close()
+    journal = journal_path(site).read_bytes()
+    p = run_cli("import-readings", str(site), str(csv_path), "--yes")
+    assert p.returncode == 0, p.stderr
+    assert "has edits not yet saved" in p.stderr
+    r = load_site(site).visits[-1].readings
+    assert r["rb2"].x1_0 == 19.0 and r["rc1"].x1_0 == 22.0  # the file as imported
+    assert journal_path(site).read_bytes() == journal  # the app sets those edits aside
+    again = EditSession.open(site)
+    assert any("1 unsaved edit was not applied" in w for w in again.warnings)
+    again.close()

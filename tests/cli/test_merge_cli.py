@@ -3,10 +3,12 @@
 from __future__ import annotations
 
 import json
+import os
 from pathlib import Path
 from typing import Any
 
-from model.storage.store import load_site
+from model.storage.session import EditSession
+from model.storage.sites import load_site
 from tests.visits_helpers import run_cli, sample_copy
 
 
@@ -102,3 +104,30 @@ def test_bad_input_exit_2(tmp_path: Path) -> None:
     p = run_cli("merge", str(base), str(tmp_path / "missing.json"))
     assert p.returncode == 2 and "no such file" in p.stderr
     assert not (tmp_path / "base-merged.json").exists()
+
+
+def test_out_open_in_the_app_is_not_replaced(tmp_path: Path) -> None:
+    base, other, b0, o0 = pair(tmp_path, conflict=False)
+    out = sample_copy(tmp_path, dest="m.json")
+    held = out.read_bytes()
+    holder = EditSession.open(out)  # the app has the --out site open
+    try:
+        p = run_cli("merge", str(base), str(other), "--out", str(out), "--force")
+    finally:
+        holder.close()
+    assert p.returncode == 2
+    (line,) = p.stderr.strip().splitlines()
+    assert f"cannot write {out}" in line and f"open for editing by pid {os.getpid()}" in line
+    assert out.read_bytes() == held
+    assert base.read_bytes() == b0 and other.read_bytes() == o0
+
+
+def test_new_out_is_created_as_the_app_creates_a_site(tmp_path: Path) -> None:
+    base, other, _, _ = pair(tmp_path, conflict=False)
+    out = tmp_path / "m.json"
+    p = run_cli("merge", str(base), str(other), "--out", str(out))
+    assert p.returncode == 0, p.stderr
+    assert sorted(x.name for x in tmp_path.iterdir()) == ["base.json", "m.json", "other.json"]
+    p = run_cli("merge", str(base), str(other), "--out", str(out), "--force")
+    assert p.returncode == 0, p.stderr  # same content: nothing to replace, nothing kept aside
+    assert sorted(x.name for x in tmp_path.iterdir()) == ["base.json", "m.json", "other.json"]

@@ -7,7 +7,7 @@ from pathlib import Path
 
 from sitekit import tripwise
 
-from model.storage.store import load_site
+from model.storage.sites import load_site
 
 ROOT = Path(__file__).resolve().parents[2]
 

@@ -11,7 +11,7 @@ import pypdf
 from sitekit import tripwise as _run
 
 from model.reports.documents import STATEMENT
-from model.storage.store import load_site
+from model.storage.sites import load_site
 from tests.reports.report_sites import squash, write_awkward
 
 ROOT = Path(__file__).resolve().parents[2]

@@ -10,7 +10,7 @@ import pytest
 from sitekit import ROOT, copy_sample
 
 from model.reports.documents import render
-from model.storage.store import load_site
+from model.storage.sites import load_site
 from model.visits.import_csv import plan_import
 
 

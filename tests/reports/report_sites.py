@@ -16,7 +16,7 @@ from pathlib import Path
 from typing import Any
 
 from model.site.models import SiteFile
-from model.storage.store import parse_site
+from model.storage.codec import parse_site
 
 ROOT = Path(__file__).resolve().parents[2]
 SAMPLES = sorted((ROOT / "sample_sites").glob("*.json"))

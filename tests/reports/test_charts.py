@@ -18,7 +18,8 @@ import pytest
 from model.reports.charts import PairChart, pair_chart_data
 from model.rules.checks import analyse
 from model.site.terms import DID_NOT_TRIP
-from model.storage.store import load_site, parse_site
+from model.storage.codec import parse_site
+from model.storage.sites import load_site
 
 ROOT = Path(__file__).resolve().parents[2]
 SAMPLE = ROOT / "sample_sites" / "oak-lane-house.json"

@@ -13,7 +13,7 @@ from model.reports.render.csv import REMEDIAL_COLUMNS, SHEET_COLUMNS
 from model.site.models import SiteFile
 from model.site.terms import DID_NOT_TRIP, TEST_NAMES
 from model.site.tree import SiteIndex
-from model.storage.store import load_site
+from model.storage.sites import load_site
 from tests.reports.report_sites import (
     FORMULA_LABEL,
     MARKUP_LABEL,

@@ -12,7 +12,7 @@ from markdown_it import MarkdownIt
 
 from model.reports.documents import STATEMENT, build_remedial, render
 from model.rules.checks import analyse
-from model.storage.store import load_site
+from model.storage.sites import load_site
 from tests.reports.report_sites import MARKUP_LABEL, SAMPLES, awkward_site, squash
 
 

@@ -14,7 +14,8 @@ from model import __version__
 from model.reports.documents import STATEMENT, build_remedial, render, write_report
 from model.rules.checks import analyse
 from model.site.tree import SiteIndex
-from model.storage.store import load_site, parse_site
+from model.storage.codec import parse_site
+from model.storage.sites import load_site
 from tests.reports.report_sites import (
     FORMULA_LABEL,
     MARKUP_LABEL,

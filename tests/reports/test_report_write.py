@@ -10,7 +10,7 @@ import pytest
 
 from model.reports.documents import ReportError, ReportExists, default_name, write_report
 from model.reports.render import pdf as render_pdf
-from model.storage.store import load_site
+from model.storage.sites import load_site
 from tests.reports.report_sites import awkward_site, copy_samples
 
 
@@ -76,7 +76,7 @@ def test_every_document_renders_for_bare_sites(tmp_path: Path) -> None:
     import json
 
     from model.reports.documents import FORMATS, KINDS, STATEMENT
-    from model.storage.store import parse_site
+    from model.storage.codec import parse_site
     from tests.reports.report_sites import awkward_raw, squash
 
     bare = {

@@ -10,7 +10,7 @@ import pytest
 from sitekit import SAMPLES
 
 from model.rules.checks import analyse
-from model.storage.store import load_site
+from model.storage.sites import load_site
 
 EXPECTED: dict[str, set[tuple[str, tuple[str, ...]]]] = {
     "oak-lane-house": {

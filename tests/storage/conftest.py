@@ -7,7 +7,7 @@ from pathlib import Path
 import pytest
 
 from bench.gen_site import generate_site
-from model.storage.store import save_site
+from model.storage.sites import save_site
 
 
 @pytest.fixture

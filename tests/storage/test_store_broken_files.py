@@ -10,7 +10,9 @@ from pathlib import Path
 
 import pytest
 
-from model.storage.store import MAX_FILE_BYTES, SiteLoadError, load_site
+from model.storage.codec import SiteLoadError
+from model.storage.files import MAX_FILE_BYTES
+from model.storage.sites import load_site
 from tests.storage.broken_corpus import BrokenCase, broken_cases
 
 ROOT = Path(__file__).resolve().parents[2]

@@ -11,7 +11,7 @@ from pathlib import Path
 import pytest
 
 from bench.gen_site import generate_site
-from model.storage.store import save_site
+from model.storage.sites import save_site
 
 ROOT = Path(__file__).resolve().parents[2]
 

@@ -20,9 +20,10 @@ import pytest
 import model.storage.session as session_mod
 from bench.gen_site import generate_site
 from model.site.models import Reading
+from model.storage.files import backup_path
 from model.storage.journal import journal_path
 from model.storage.session import EditSession
-from model.storage.store import backup_path, load_site, save_site
+from model.storage.sites import load_site, save_site
 from tests.storage.helpers import rcd_ids
 
 MIN_KILLS = 200

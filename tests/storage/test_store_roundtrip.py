@@ -12,8 +12,9 @@ from hypothesis import strategies as st
 from bench.gen_site import generate_site
 from model.site.models import Reading
 from model.site.terms import DID_NOT_TRIP
+from model.storage.codec import dumps_site
 from model.storage.session import EditSession
-from model.storage.store import dumps_site, load_site, save_site
+from model.storage.sites import load_site, save_site
 from tests.storage.helpers import rcd_ids
 
 SIZES = [4, 5, 9, 17, 40, 120, 333, 1000]

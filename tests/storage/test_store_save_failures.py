@@ -18,9 +18,11 @@ import pytest
 
 from bench.gen_site import generate_site
 from model.site.models import Reading
-from model.storage import store
+from model.storage import files
+from model.storage.codec import SiteLoadError
+from model.storage.files import SaveError, backup_path
 from model.storage.session import EditSession
-from model.storage.store import SaveError, SiteLoadError, backup_path, load_site, save_site
+from model.storage.sites import load_site, save_site
 from tests.storage.helpers import file_digest, rcd_ids
 
 
@@ -168,7 +170,7 @@ def test_injected_os_errors_leave_original_identical(
     monkeypatch.setattr(os, call, failing)
     if call == "link":
         # a failed hard link falls back to a copy; make that copy fail too
-        real_write_new = store.write_new_file
+        real_write_new = files.write_new_file
         writes: list[Path] = []
 
         def second_fails(tmp: Path, data: bytes, mode: int | None) -> None:
@@ -177,7 +179,7 @@ def test_injected_os_errors_leave_original_identical(
                 raise OSError(code, os.strerror(code))
             real_write_new(tmp, data, mode)
 
-        monkeypatch.setattr(store, "write_new_file", second_fails)
+        monkeypatch.setattr(files, "write_new_file", second_fails)
     with pytest.raises(SaveError) as err:
         save_site(_edited(site_file), site_file)
     monkeypatch.undo()

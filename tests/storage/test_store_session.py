@@ -12,13 +12,17 @@ from typing import Any
 import pytest
 
 from bench.gen_site import generate_site
+from model.site.jsonform import site_to_dict
 from model.site.models import Reading, SiteFile, SiteInfo, Visit
+from model.site.ops import InvalidEdit
 from model.site.terms import DID_NOT_TRIP
+from model.storage import codec
 from model.storage import journal as journal_mod
-from model.storage import store
-from model.storage.journal import InvalidEdit, journal_path
+from model.storage.codec import SiteLoadError
+from model.storage.files import backup_path
+from model.storage.journal import journal_path
 from model.storage.session import EditSession
-from model.storage.store import SiteLoadError, backup_path, load_site, save_site, site_to_dict
+from model.storage.sites import load_site, save_site
 from tests.storage.helpers import rcd_ids
 
 
@@ -416,7 +420,7 @@ def test_unknown_old_version_is_refused(tmp_path: Path) -> None:
 def test_version_0_is_migrated_in_memory_and_written_on_next_save(
     tmp_path: Path, monkeypatch: pytest.MonkeyPatch
 ) -> None:
-    monkeypatch.setitem(store.MIGRATIONS, 0, _v0_to_v1)
+    monkeypatch.setitem(codec.MIGRATIONS, 0, _v0_to_v1)
     site = generate_site(40, seed=2)
     p = tmp_path / "old site.json"
     p.write_text(json.dumps(_v0_from(site), indent=2))
@@ -438,14 +442,14 @@ def test_version_0_is_migrated_in_memory_and_written_on_next_save(
     assert json.loads(p.read_bytes())["version"] == 1
     assert (tmp_path / "old site.json.v0.bak").read_bytes() == original
     assert backup_path(p).read_bytes() == original
-    monkeypatch.delitem(store.MIGRATIONS, 0)
+    monkeypatch.delitem(codec.MIGRATIONS, 0)
     assert load_site(p).visits[-1].readings[dev].x1_0 == 20.0  # a plain v1 file now
 
 
 def test_broken_migration_gives_a_clear_error(
     tmp_path: Path, monkeypatch: pytest.MonkeyPatch
 ) -> None:
-    monkeypatch.setitem(store.MIGRATIONS, 0, _v0_to_v1)
+    monkeypatch.setitem(codec.MIGRATIONS, 0, _v0_to_v1)
     p = tmp_path / "old.json"
     doc = _v0_from(generate_site(12, seed=1))
     del doc["installation"]

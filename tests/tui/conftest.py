@@ -8,7 +8,7 @@ from pathlib import Path
 import pytest
 
 from model.site.models import SiteFile
-from model.storage.store import load_site, save_site
+from model.storage.sites import load_site, save_site
 
 SAMPLES = Path(__file__).resolve().parents[2] / "sample_sites"
 

@@ -4,7 +4,7 @@ from __future__ import annotations
 
 from pathlib import Path
 
-from model.storage.store import load_site, save_site
+from model.storage.sites import load_site, save_site
 from tui.app.shell import make_app
 from tui.screens.compare import CompareScreen
 from tui.screens.merge import MergeScreen

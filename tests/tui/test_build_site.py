@@ -6,7 +6,7 @@ from pathlib import Path
 
 from model.site.models import SiteFile
 from model.storage.session import EditSession
-from model.storage.store import load_site
+from model.storage.sites import load_site
 from tui.app.shell import make_app
 from tui.cli.commands.new import empty_site
 from tui.screens.choice import ChoiceScreen

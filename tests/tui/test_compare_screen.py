@@ -7,7 +7,7 @@ from pathlib import Path
 from textual.app import App
 from textual.widgets import DataTable, Static
 
-from model.storage.store import load_site
+from model.storage.sites import load_site
 from tests.visits_helpers import make_site, sample_copy
 from tui.screens.compare import CompareScreen
 

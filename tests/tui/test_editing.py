@@ -8,7 +8,7 @@ import pytest
 
 from model.rules.impact import trip_impact
 from model.storage.session import LockHeld
-from model.storage.store import load_site
+from model.storage.sites import load_site
 from tui.app.shell import make_app
 from tui.screens.confirm import ConfirmScreen
 from tui.screens.node_editor import NodeEditorScreen

@@ -6,7 +6,7 @@ import datetime as dt
 from pathlib import Path
 
 from model.site.terms import DID_NOT_TRIP
-from model.storage.store import load_site
+from model.storage.sites import load_site
 from tui.app.shell import TripwiseApp, make_app
 from tui.screens.readings import FIELDS, ReadingScreen
 from tui.screens.start_visit import StartVisitScreen

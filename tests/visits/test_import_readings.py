@@ -9,7 +9,7 @@ from typing import Any
 import pytest
 
 from model.site.models import SiteFile
-from model.storage.store import load_site
+from model.storage.sites import load_site
 from model.visits.import_csv import CsvImportError, ImportTargetError, plan_import, preview_text
 from tests.visits_helpers import SAMPLES, make_site, sheet_csv
 

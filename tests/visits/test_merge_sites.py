@@ -16,7 +16,8 @@ from hypothesis import strategies as st
 from model.site.models import SiteFile
 from model.site.nodes import RccbNode
 from model.site.terms import RCD_KINDS
-from model.storage.store import dumps_site, load_site
+from model.storage.codec import dumps_site
+from model.storage.sites import load_site
 from model.visits.merge import merge_sites
 from model.visits.merge_conflicts import MergeError
 from model.visits.merge_result import recorded_keys

@@ -612,7 +612,8 @@ class TripwiseApp(App[None]):
     def _merge_from(self, path: str | None) -> None:
         if not path:
             return
-        from model.storage.store import SiteLoadError, load_site
+        from model.storage.codec import SiteLoadError
+        from model.storage.sites import load_site
         from model.visits.merge import merge_sites
         from tui.screens.merge import MergeScreen
 

@@ -23,7 +23,8 @@ from model.reports.documents import (
     write_report,
 )
 from model.site.models import SiteFile
-from model.storage.store import SiteLoadError, load_site
+from model.storage.codec import SiteLoadError
+from model.storage.sites import load_site
 
 
 class ExportScreen(ModalScreen[Path | None]):

@@ -5,7 +5,8 @@ with any problem each one is listed (row, column, why) and nothing is
 written.  Otherwise the preview of what changes is printed, and the changes
 are applied with ``--yes``, or after a "y" at the prompt when run in a
 terminal.  Without ``--yes`` and without a terminal to ask, only the preview
-is printed and nothing is written (exit 0: a dry run).
+is printed and nothing is written (exit 0: a dry run).  The site is written
+as the app saves it; a site open in the app is not written (exit 2).
 Exit codes: 0 done (applied, declined, dry run or nothing to change),
 2 bad input (nothing written).
 """
@@ -16,9 +17,9 @@ import argparse
 import sys
 from pathlib import Path
 
-from model.storage.store import save_site
+from model.storage.lock import LockHeld
 from model.visits.import_csv import CsvImportError, ImportTargetError, plan_import, preview_text
-from tui.cli.commands.common import load_or_report
+from tui.cli.commands.common import load_or_report, report_held, write_site
 
 
 def register(sub: argparse._SubParsersAction) -> None:  # type: ignore[type-arg]
@@ -95,7 +96,9 @@ def run(args: argparse.Namespace) -> int:
                 file=sys.stderr,
             )
             return 2
-        save_site(plan.site, site_path)
+        write_site(site_path, plan.site, replace=True)
+    except LockHeld as exc:
+        return report_held(args.site, exc)
     except OSError as exc:
         print(f"tripwise: cannot write {args.site}: {exc.strerror or exc}", file=sys.stderr)
         return 2

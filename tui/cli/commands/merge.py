@@ -2,8 +2,9 @@
 
 Merges two copies of one site edited apart (two laptops on one site).  Both
 inputs are only read.  The result is written to ``--out`` (default
-``<base stem>-merged.json`` beside BASE) with an atomic save, never over an
-existing file unless ``--force`` is given, and never over either input.
+``<base stem>-merged.json`` beside BASE) as the app saves a site (editing
+lock, atomic save), never over an existing file unless ``--force`` is given,
+never over either input, and never over a site open in the app.
 Exit codes: 0 merged (clean, or every conflict settled by ``--take``),
 1 conflicts listed and nothing written, 2 bad input.
 """
@@ -17,11 +18,11 @@ from pathlib import Path
 from typing import Any
 
 from model.rules.findings import CAUTION
-from model.storage.store import save_site
+from model.storage.lock import LockHeld
 from model.visits.merge import merge_sites
-from model.visits.merge_conflicts import Conflict, MergeError
+from model.visits.merge_conflicts import Conflict, MergeError, version_text
 from model.visits.merge_result import MergeResult
-from tui.cli.commands.common import load_or_report
+from tui.cli.commands.common import load_or_report, report_held, write_site
 
 
 def register(sub: argparse._SubParsersAction) -> None:  # type: ignore[type-arg]
@@ -59,15 +60,10 @@ def _same_file(a: Path, b: Path) -> bool:
         return False
 
 
-def _short(v: Any) -> str:
-    text = "(absent)" if v is None else json.dumps(v, ensure_ascii=False)
-    return text if len(text) <= 70 else text[:67] + "..."
-
-
 def conflict_lines(c: Conflict) -> list[str]:
     lines = [f"  [{c.id}] {c.what}", f"      where: {c.where}"]
     for name, a, b in c.differences():
-        lines.append(f"      {name}: ours {_short(a)}  |  theirs {_short(b)}")
+        lines.append(f"      {name}: ours {version_text(a, 70)}  |  theirs {version_text(b, 70)}")
     return lines
 
 
@@ -129,7 +125,9 @@ def run(args: argparse.Namespace) -> int:
             print(f"tripwise: {exc}; nothing written", file=sys.stderr)
         return 1
     try:
-        save_site(merged, out)
+        write_site(out, merged, replace=args.force)
+    except LockHeld as exc:
+        return report_held(out, exc)
     except OSError as exc:
         print(f"tripwise: cannot write {out}: {exc.strerror or exc}", file=sys.stderr)
         return 2

@@ -5,7 +5,7 @@ from __future__ import annotations
 import argparse
 import sys
 
-from model.storage.store import SiteLoadError
+from model.storage.codec import SiteLoadError
 
 
 def register(sub: argparse._SubParsersAction) -> None:  # type: ignore[type-arg]
