@@ -23,13 +23,13 @@ from textual.timer import Timer
 
 from model.rules.checks import analyse
 from model.rules.findings import Analysis
+from model.site import editing
 from model.site.messages import error_text
 from model.site.models import Reading, SiteFile
-from model.site.nodes import NODE_CLASSES
 from model.site.terms import RCD_KINDS
 from model.site.tree import SiteIndex
 from model.storage.session import EditSession, LockHeld
-from tui import editing
+from tui.format import KIND_TITLES
 from tui.screens.choice import ChoiceScreen
 from tui.screens.confirm import ConfirmScreen
 from tui.screens.help import HelpScreen
@@ -356,7 +356,7 @@ class TripwiseApp(App[None]):
         if not kinds:
             self.notify(f"Nothing can be fed by a {self.index.kind(parent)}.", severity="warning")
             return
-        options = [(editing.KIND_TITLES[k], k) for k in kinds]
+        options = [(KIND_TITLES[k], k) for k in kinds]
 
         def chosen(kind: str | None) -> None:
             if kind is None:
@@ -399,8 +399,7 @@ class TripwiseApp(App[None]):
         def chosen(target: str | None) -> None:
             if target is None:
                 return
-            node = self.index.by_id[nid]
-            moved = NODE_CLASSES[node.kind].model_validate({**node.model_dump(), "parent": target})
+            moved = editing.moved_node(self.index.by_id[nid], target)
             problem = self.apply_edit(f"move {nid}", lambda s: s.upsert_node(moved), select=nid)
             if problem:
                 self.notify(f"Not moved: {problem}", severity="error")

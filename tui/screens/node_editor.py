@@ -16,7 +16,7 @@ from textual.widgets import Button, Checkbox, Input, Label, Select, SelectionLis
 
 from model.site.nodes import NODE_CLASSES
 from model.site.numbers import parse_number
-from tui.editing import KIND_TITLES
+from tui.format import KIND_TITLES
 from tui.forms import FieldSpec, errors_by_field, field_specs
 
 #: Called with the validated node; returns None when the session accepted it, else why not.

@@ -20,10 +20,10 @@ from textual.screen import Screen
 from textual.widgets import Static
 
 from model.rules.bands import Band, judge_ramp, judge_time, ramp_band, time_band
+from model.site.editing import is_untested
 from model.site.models import Reading
 from model.site.numbers import parse_number
 from model.site.terms import DID_NOT_TRIP, TEST_NAMES
-from tui.editing import is_untested
 from tui.format import LIVE_TEST_CAUTION, node_summary, node_title
 from tui.forms import errors_by_field
 from tui.widgets.caution_bar import CautionBar
