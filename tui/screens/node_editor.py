@@ -5,7 +5,7 @@ from __future__ import annotations
 from collections.abc import Callable
 from typing import Any
 
-from pydantic import BaseModel, ValidationError
+from pydantic import BaseModel
 from textual import on
 from textual.app import ComposeResult
 from textual.binding import Binding
@@ -14,10 +14,9 @@ from textual.screen import ModalScreen
 from textual.widget import Widget
 from textual.widgets import Button, Checkbox, Input, Label, Select, SelectionList, Static
 
+from model.site.fields import FieldSpec, check_form, field_specs, typed_value
 from model.site.nodes import NODE_CLASSES
-from model.site.numbers import parse_number
 from tui.format import KIND_TITLES
-from tui.forms import FieldSpec, errors_by_field, field_specs
 
 #: Called with the validated node; returns None when the session accepted it, else why not.
 ApplyFn = Callable[[BaseModel], "str | None"]
@@ -130,30 +129,16 @@ class NodeEditorScreen(ModalScreen[str | None]):
             elif isinstance(w, SelectionList):
                 data[spec.name] = [c for c in spec.choices if c in w.selected]
             elif isinstance(w, Input):
-                if spec.kind == "number":
-                    try:
-                        num = parse_number(w.value)
-                    except ValueError as exc:
-                        bad[spec.name] = str(exc)
-                        continue
-                    if num is None and not spec.optional:
-                        bad[spec.name] = "a value is needed"
-                        continue
-                    data[spec.name] = num
-                else:
-                    data[spec.name] = w.value.strip() if spec.name == "id" else w.value
+                try:
+                    data[spec.name] = typed_value(spec, w.value)
+                except ValueError as exc:
+                    bad[spec.name] = str(exc)
         return data, bad
 
     def _check(self) -> BaseModel | None:
         """Validate the form with the model; show each message at its field."""
         data, bad = self.collect()
-        errors = dict(bad)
-        node: BaseModel | None = None
-        try:
-            node = self._cls.model_validate(data)
-        except ValidationError as exc:
-            for k, v in errors_by_field(exc).items():
-                errors.setdefault(k, v)
+        node, errors = check_form(self._cls, data, bad)
         self.errors = errors
         names = {s.name for s in self._specs}
         for spec in self._specs:
@@ -165,7 +150,7 @@ class NodeEditorScreen(ModalScreen[str | None]):
         top = self.query_one("#form-error", Static)
         top.update("; ".join(whole))
         top.display = bool(whole)
-        return node if not errors else None
+        return node
 
     @on(Input.Changed)
     @on(Select.Changed)

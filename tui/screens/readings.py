@@ -21,11 +21,11 @@ from textual.widgets import Static
 
 from model.rules.bands import Band, judge_ramp, judge_time, ramp_band, time_band
 from model.site.editing import is_untested
+from model.site.fields import errors_by_field
 from model.site.models import Reading
 from model.site.numbers import parse_number
 from model.site.terms import DID_NOT_TRIP, TEST_NAMES
 from tui.format import LIVE_TEST_CAUTION, node_summary, node_title
-from tui.forms import errors_by_field
 from tui.widgets.caution_bar import CautionBar
 from tui.widgets.key_bar import KeyBar
 from tui.widgets.reading_pad import ReadingPad

@@ -12,8 +12,8 @@ from textual.containers import Horizontal, Vertical
 from textual.screen import ModalScreen
 from textual.widgets import Input, Label, Static
 
+from model.site.fields import errors_by_field
 from model.site.models import Visit
-from tui.forms import errors_by_field
 
 
 class StartVisitScreen(ModalScreen[Visit | None]):
