@@ -28,6 +28,7 @@ from model.site.messages import error_text
 from model.site.models import Reading, SiteFile
 from model.site.terms import RCD_KINDS
 from model.site.tree import SiteIndex
+from model.site.undo import UndoStack
 from model.storage.session import EditSession, LockHeld
 from tui.format import KIND_TITLES
 from tui.screens.choice import ChoiceScreen
@@ -44,8 +45,6 @@ SAVE_DELAY_S = 0.8
 ANALYSIS_DELAY_S = 0.12
 #: Seconds after the first paint before the first checks (the tree is usable meanwhile).
 FIRST_ANALYSIS_DELAY_S = 0.1
-#: Whole-site states kept for undo.
-UNDO_LIMIT = 200
 
 
 def describe(exc: BaseException) -> str:
@@ -97,7 +96,7 @@ class TripwiseApp(App[None]):
         self.lock_message = lock_message
         self.analysis: Analysis | None = None
         self.index: SiteIndex = _empty_index()
-        self.undo_stack: list[tuple[str, SiteFile]] = []
+        self.undo_stack = UndoStack()
         self._save_timer: Timer | None = None
         self._analysis_timer: Timer | None = None
         self._analysis_gen = 0
@@ -204,14 +203,8 @@ class TripwiseApp(App[None]):
         return True
 
     def push_undo(self, label: str) -> None:
-        """Keep the whole site as it is now, so the next change can be undone.
-
-        The session replaces ``site`` on every edit and never changes it in
-        place, and the app never changes a site in place either, so keeping the
-        object itself is a true snapshot.
-        """
-        self.undo_stack.append((label, self.site))
-        del self.undo_stack[:-UNDO_LIMIT]
+        """Keep the whole site as it is now, so the next change can be undone."""
+        self.undo_stack.push(label, self.site)
 
     def apply_edit(
         self,
@@ -229,8 +222,7 @@ class TripwiseApp(App[None]):
             change(self.session)
         except (ValueError, TypeError, KeyError, OSError) as exc:
             return describe(exc)
-        self.undo_stack.append((label, before))
-        del self.undo_stack[:-UNDO_LIMIT]
+        self.undo_stack.push(label, before)
         self._after_edit(structural=True, select=select)
         return None
 
@@ -461,7 +453,7 @@ class TripwiseApp(App[None]):
             self.notify("Nothing to undo.")
             return
         assert self.session is not None
-        label, state = self.undo_stack.pop()
+        label, state = self.undo_stack.undo()
         try:
             self.session.replace_site(state)
         except (ValueError, TypeError, OSError) as exc:
