@@ -5,10 +5,11 @@ from __future__ import annotations
 import datetime as dt
 from pathlib import Path
 
+from model.rules.entry import ENTRY_ORDER
 from model.site.terms import DID_NOT_TRIP
 from model.storage.store import load_site
 from tui.app.shell import TripwiseApp, make_app
-from tui.screens.readings import FIELDS, ReadingScreen
+from tui.screens.readings import ReadingScreen
 from tui.screens.start_visit import StartVisitScreen
 from tui.widgets.reading_pad import DID_NOT_TRIP_KEY
 
@@ -107,7 +108,7 @@ async def test_keystrokes_per_reading_set(oak_lane_no_visits: Path) -> None:
         await pilot.press(*keys)
         assert screen.device_id == "rc2"
         digits = sum(len(v) for v in values if v.isdigit())
-        assert len(keys) <= len(FIELDS) + digits
+        assert len(keys) <= len(ENTRY_ORDER) + digits
         reading = app.site.latest_visit().readings["rc1"]  # type: ignore[union-attr]
         assert (reading.x1_0, reading.x5_180, reading.button) == (22.0, 13.0, "worked")
 

@@ -1,7 +1,7 @@
 """Reading entry, built for speed: digits and Enter, one key for "did not trip".
 
-Each value is judged against its band the moment it is typed (the band comes from
-``model.rules.bands``), and recorded through the editing session when Enter moves on.
+Each value is judged against its band the moment it is typed (the verdict comes from
+``model.rules.entry``), and recorded through the editing session when Enter moves on.
 After the last field the form moves to the next untested residual-current device.
 All typing goes to one widget (:class:`ReadingPad`) so fast keys never land in the
 wrong field.
@@ -19,21 +19,24 @@ from textual.containers import Vertical
 from textual.screen import Screen
 from textual.widgets import Static
 
-from model.rules.bands import Band, judge_ramp, judge_time, ramp_band, time_band
+from model.rules.entry import (
+    ENTRY_ORDER,
+    EntryVerdict,
+    chosen_waveform,
+    entry_texts,
+    judge_entry,
+    reading_from_texts,
+)
 from model.site.editing import is_untested
-from model.site.fields import errors_by_field
+from model.site.fields import errors_by_field, field_choices
 from model.site.models import Reading
-from model.site.numbers import parse_number
-from model.site.terms import DID_NOT_TRIP, TEST_NAMES
 from tui.format import LIVE_TEST_CAUTION, node_summary, node_title
 from tui.widgets.caution_bar import CautionBar
 from tui.widgets.key_bar import KeyBar
 from tui.widgets.reading_pad import ReadingPad
 from tui.widgets.top_bar import TopBar
 
-#: The fields in entry order (Enter on the last moves to the next device).
-FIELDS: tuple[str, ...] = (*TEST_NAMES, "ramp_ma", "button", "waveform", "note")
-
+#: Each field of the pad: (name, kind, title), in the order of model.rules.entry.ENTRY_FIELDS.
 _PAD_FIELDS: list[tuple[str, str, str]] = [
     ("half_0", "time", "½× IΔn   0°"),
     ("half_180", "time", "½× IΔn 180°"),
@@ -48,9 +51,11 @@ _PAD_FIELDS: list[tuple[str, str, str]] = [
     ("not_tested", "text", "not tested"),
 ]
 
+#: The one-key answers of the choice fields, in the order of the model's choices.
+_CHOICE_KEYS: dict[str, tuple[str, ...]] = {"button": ("w", "f"), "waveform": ("a", "h", "d")}
 _CHOICES: dict[str, list[tuple[str, str]]] = {
-    "button": [("w", "worked"), ("f", "failed")],
-    "waveform": [("a", "AC"), ("h", "half-wave"), ("d", "smooth-dc")],
+    name: list(zip(_CHOICE_KEYS[name], field_choices(Reading, name), strict=True))
+    for name in _CHOICE_KEYS
 }
 
 FLAG_WORDS: dict[str, str] = {
@@ -128,17 +133,7 @@ class ReadingScreen(Screen[None]):
         visit = self._app.site.latest_visit()
         reading = visit.readings.get(device_id) if visit is not None else None
         pad = self.pad
-        for name, _, _ in _PAD_FIELDS:
-            value = getattr(reading, name) if reading is not None else None
-            if name == "waveform" and value is None:
-                value = "AC"
-            if value is None:
-                text = ""
-            elif isinstance(value, float):
-                text = f"{value:g}"
-            else:
-                text = str(value)
-            pad.values[name] = text
+        pad.values.update(entry_texts(reading))
         pad.go("half_0")
         self._show_header()
         self._judge_all()
@@ -165,65 +160,27 @@ class ReadingScreen(Screen[None]):
         self.query_one("#rd-device", Static).update(Text("\n").join([t, t2]))
 
     # ------------------------------------------------------------- judging
-    def _waveform(self) -> str:
-        return self.pad.values["waveform"] or "AC"
-
-    def _raw(self, name: str) -> Any:
-        """The typed value (float, 'did not trip', text or None); ValueError if unreadable."""
-        text = self.pad.values[name]
-        if name in ("note", "not_tested", "button", "waveform"):
-            return text or None
-        if name in TEST_NAMES and text == DID_NOT_TRIP:
-            return DID_NOT_TRIP
-        return parse_number(text)
-
-    def _band(self, name: str) -> Band:
-        group = name.split("_", 1)[0]
-        return time_band(self._node(), group, self._waveform(), self._app.site.site.rules)  # type: ignore[arg-type]
-
     def _judge(self, name: str) -> None:
-        """Work out the band beside one field and the verdict on what is typed there."""
-        flag: str | None = None
-        band_text = verdict = problem = need = ""
-        try:
-            value = self._raw(name)
-        except ValueError as exc:
-            value, problem = None, str(exc)
-        if name in TEST_NAMES:
-            band = self._band(name)
-            need = "required" if band.required else "optional"
-            band_text = band.text
-            j = judge_time(band, value)
-            flag, verdict = j.flag, j.text
-        elif name == "ramp_ma":
-            rb = ramp_band(self._node(), self._waveform())
-            band_text, need = f"{rb.low_ma:g}–{rb.high_ma:g} mA", "optional"
-            j = judge_ramp(rb, value)
-            flag, verdict = j.flag, j.text
-        elif name == "button":
-            band_text, need = "must trip it", "optional"
-            flag = "reading.button-failed" if value == "failed" else None
-            verdict = "test button did not trip the device" if flag else (value or "")
-        elif name == "waveform":
-            band_text = "sets the bands above"
-        elif name == "not_tested":
-            band_text = "reason, instead of values"
-        if problem:
-            verdict, flag = problem, None
-        self.flags[name] = flag
-        self.need[name] = need
-        self.bands[name] = f"{band_text} · {need}" if need else band_text
-        self.verdicts[name] = verdict
-        v = Text(no_wrap=True, overflow="ellipsis")
-        if problem:
-            v.append(f"✖ {problem}", style=_BAD)
-        elif flag:
-            v.append(f"✖ {FLAG_WORDS.get(flag, flag)}", style=_BAD)
-        elif value not in (None, "") and name in (*TEST_NAMES, "ramp_ma", "button"):
-            v.append("✓ in band" if name != "button" else f"✓ {value}", style=_OK)
-            if name in TEST_NAMES and self._band(name).may_trip:
-                v = Text("· recorded", style="#8fa7b3")
-        self._verdict_text[name] = v
+        """Show the band beside one field and the verdict on what is typed there."""
+        values = self.pad.values
+        rules = self._app.site.site.rules
+        v: EntryVerdict = judge_entry(
+            self._node(), name, values[name], chosen_waveform(values), rules
+        )
+        self.flags[name] = v.flag
+        self.need[name] = v.need
+        self.bands[name] = f"{v.band} · {v.need}" if v.need else v.band
+        self.verdicts[name] = v.verdict
+        text = Text(no_wrap=True, overflow="ellipsis")
+        if v.mark == "unreadable":
+            text.append(f"✖ {v.verdict}", style=_BAD)
+        elif v.mark == "flagged" and v.flag is not None:
+            text.append(f"✖ {FLAG_WORDS.get(v.flag, v.flag)}", style=_BAD)
+        elif v.mark == "in band":
+            text.append("✓ in band" if name != "button" else f"✓ {values[name]}", style=_OK)
+        elif v.mark == "recorded":
+            text = Text("· recorded", style="#8fa7b3")
+        self._verdict_text[name] = text
         self._show_status()
 
     def _show_status(self) -> None:
@@ -263,31 +220,19 @@ class ReadingScreen(Screen[None]):
             return False
         if was_untested and not is_untested(self._app.site.latest_visit(), self.device_id):
             self._show_header()  # the count of untested devices has just gone down
-        i = FIELDS.index(name)
-        if i + 1 < len(FIELDS):
-            self.pad.go(FIELDS[i + 1])
+        i = ENTRY_ORDER.index(name)
+        if i + 1 < len(ENTRY_ORDER):
+            self.pad.go(ENTRY_ORDER[i + 1])
             self._show_status()
         else:
             self._next_untested()
         return True
 
     # ------------------------------------------------------------- recording
-    def _reading(self) -> Reading | None:
-        """The form as a Reading (None when nothing is recorded)."""
-        data: dict[str, Any] = {}
-        for name in FIELDS:
-            v = self._raw(name)
-            if v not in (None, ""):
-                data[name] = v
-        reading = Reading.model_validate(data)
-        if not reading.has_values() and not reading.note:
-            return None
-        return reading
-
     def _commit(self, field: str) -> bool:
         """Record the form through the session; show a refusal at the field."""
         try:
-            reading = self._reading()
+            reading = reading_from_texts(self.pad.values)
         except ValueError as exc:
             msgs = errors_by_field(exc) if isinstance(exc, ValidationError) else {}
             self._refuse(field, msgs.get(field) or next(iter(msgs.values()), str(exc)))
