@@ -181,6 +181,11 @@ class TripwiseApp(App[None]):
         self.call_after_refresh(self._first_analysis)
 
     @property
+    def has_site(self) -> bool:
+        """False only while the app asks whether to open a site held elsewhere read-only."""
+        return self.session is not None
+
+    @property
     def main(self) -> MainScreen:
         """The main screen (at the bottom of the screen stack)."""
         for s in self.screen_stack:
@@ -201,10 +206,6 @@ class TripwiseApp(App[None]):
             self.notify("The site is open read-only; nothing can be changed.", severity="warning")
             return False
         return True
-
-    def push_undo(self, label: str) -> None:
-        """Keep the whole site as it is now, so the next change can be undone."""
-        self.undo_stack.push(label, self.site)
 
     def apply_edit(
         self,
@@ -250,9 +251,6 @@ class TripwiseApp(App[None]):
             self.main.show_site(keep=select)
         self._schedule_save()
         self._schedule_analysis()
-
-    def next_untested(self, after: str | None) -> str | None:
-        return editing.next_untested(self.index, self.site.latest_visit(), after)
 
     # ------------------------------------------------------------ saving
     def _schedule_save(self) -> None:
@@ -354,26 +352,28 @@ class TripwiseApp(App[None]):
             if kind is None:
                 return
             values = editing.new_node_values(kind, parent, self.site)
-            self.push_screen(NodeEditorScreen(values, self._apply_new, new=True))
+            self.push_screen(NodeEditorScreen(values, new=True))
 
         self.push_screen(ChoiceScreen(f"Add under {self.index.label(parent)}", options), chosen)
-
-    def _apply_new(self, node: Any) -> str | None:
-        if node.id in self.index.by_id:
-            return f"id {node.id!r} is already used; choose another"
-        return self.apply_edit(f"add {node.id}", lambda s: s.upsert_node(node), select=str(node.id))
-
-    def _apply_existing(self, node: Any) -> str | None:
-        return self.apply_edit(
-            f"edit {node.id}", lambda s: s.upsert_node(node), select=str(node.id)
-        )
 
     def action_edit_node(self) -> None:
         nid = self._selected()
         if nid is None or not self._writable():
             return
         values = self.index.by_id[nid].model_dump()
-        self.push_screen(NodeEditorScreen(values, self._apply_existing, new=False))
+        self.push_screen(NodeEditorScreen(values, new=False))
+
+    def on_node_editor_screen_apply(self, message: NodeEditorScreen.Apply) -> None:
+        """A node form's validated node: add or change it, and answer the form."""
+        node: Any = message.node
+        if message.new and node.id in self.index.by_id:
+            problem: str | None = f"id {node.id!r} is already used; choose another"
+        else:
+            verb = "add" if message.new else "edit"
+            problem = self.apply_edit(
+                f"{verb} {node.id}", lambda s: s.upsert_node(node), select=str(node.id)
+            )
+        message.editor.answer(str(node.id), problem)
 
     def action_move_node(self) -> None:
         nid = self._selected()
@@ -462,9 +462,8 @@ class TripwiseApp(App[None]):
         self.index = SiteIndex.build(self.site)
         self.site_name = self.site.site.name
         self.main.show_site(keep=None)
-        site_replaced = getattr(self.screen, "site_replaced", None)
-        if callable(site_replaced):
-            site_replaced()
+        if isinstance(self.screen, ReadingScreen):
+            self.screen.site_replaced()
         self._schedule_save()
         self._schedule_analysis()
         self.notify(f"Undone: {label}")
@@ -476,7 +475,10 @@ class TripwiseApp(App[None]):
         nid = self._selected()
         device = nid if nid is not None and self.index.kind(nid) in RCD_KINDS else None
         if device is None:
-            device = self.next_untested(nid) or next(iter(self.index.rcds()), None)
+            visit = self.site.latest_visit()
+            device = editing.next_untested(self.index, visit, nid) or next(
+                iter(self.index.rcds()), None
+            )
         if device is None:
             self.notify("There is no residual-current device to test yet.", severity="warning")
             return
@@ -492,14 +494,29 @@ class TripwiseApp(App[None]):
                 if problem:
                     self.notify(f"Visit not started: {problem}", severity="error")
                     return
-                self.push_screen(ReadingScreen(device))
+                self._open_readings(ReadingScreen(device))
 
             self.push_screen(StartVisitScreen(taken), started)
             return
-        self.push_screen(ReadingScreen(device))
+        self._open_readings(ReadingScreen(device))
 
-    def reading_closed(self, device_id: str) -> None:
-        self.main.select(device_id)
+    def _open_readings(self, form: ReadingScreen) -> None:
+        """Show the reading form; when it closes, the tree's cursor goes to its last device."""
+        self.push_screen(form, self._reading_closed)
+
+    def _reading_closed(self, device_id: str | None) -> None:
+        if device_id is not None:
+            self.main.select(device_id)
+
+    def on_reading_screen_record(self, message: ReadingScreen.Record) -> None:
+        """A reading from the form: record it and answer the form (opened again if closed)."""
+        if message.undo_label is not None:
+            self.undo_stack.push(message.undo_label, self.site)
+        problem = self.record_reading(message.device_id, message.reading)
+        if message.form in self.screen_stack:
+            message.form.answer(message, problem)
+        elif problem is not None:
+            self._open_readings(ReadingScreen(message.device_id, refused=(message, problem)))
 
     # ------------------------------------------------------------ other screens
     def action_help(self) -> None:

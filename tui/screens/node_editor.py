@@ -2,7 +2,6 @@
 
 from __future__ import annotations
 
-from collections.abc import Callable
 from typing import Any
 
 from pydantic import BaseModel
@@ -10,6 +9,7 @@ from textual import on
 from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Horizontal, Vertical, VerticalScroll
+from textual.message import Message
 from textual.screen import ModalScreen
 from textual.widget import Widget
 from textual.widgets import Button, Checkbox, Input, Label, Select, SelectionList, Static
@@ -18,28 +18,36 @@ from model.site.fields import FieldSpec, check_form, field_specs, typed_value
 from model.site.nodes import NODE_CLASSES
 from tui.format import KIND_TITLES
 
-#: Called with the validated node; returns None when the session accepted it, else why not.
-ApplyFn = Callable[[BaseModel], "str | None"]
-
 
 class NodeEditorScreen(ModalScreen[str | None]):
-    """Edit (or create) one node; dismisses with its id once the session has accepted it."""
+    """Edit (or create) one node; dismisses with its id once the app has accepted it."""
 
     BINDINGS = [
         Binding("ctrl+s", "apply", "Apply", priority=True),
         Binding("escape", "cancel", "Cancel"),
     ]
 
-    def __init__(self, values: dict[str, Any], apply: ApplyFn, *, new: bool) -> None:
+    class Apply(Message):
+        """Add (``new``) or change this validated node; the app answers with
+        :meth:`NodeEditorScreen.answer`."""
+
+        def __init__(self, editor: NodeEditorScreen, node: BaseModel, *, new: bool) -> None:
+            super().__init__()
+            self.editor = editor
+            self.node = node
+            self.new = new
+
+    def __init__(self, values: dict[str, Any], *, new: bool) -> None:
         super().__init__()
         self._kind = str(values["kind"])
         self._cls = NODE_CLASSES[self._kind]
         self._values = values
-        self._apply = apply
         self._new = new
         self._specs = field_specs(self._cls)
         #: The message shown at each field now (empty when the form is valid).
         self.errors: dict[str, str] = {}
+        #: True while the app has a node of this form to answer for.
+        self._asked = False
 
     @property
     def specs(self) -> list[FieldSpec]:
@@ -174,18 +182,25 @@ class NodeEditorScreen(ModalScreen[str | None]):
 
     @on(Button.Pressed, "#apply")
     def action_apply(self) -> None:
+        if self._asked:
+            return  # the app has not answered the last one yet
         node = self._check()
         if node is None:
             self.app.bell()
             return
-        problem = self._apply(node)
+        self._asked = True
+        self.app.post_message(self.Apply(self, node, new=self._new))
+
+    def answer(self, node_id: str, problem: str | None) -> None:
+        """The app's answer to :class:`Apply`: close on the node, or show why it was refused."""
+        self._asked = False
         if problem:
             top = self.query_one("#form-error", Static)
             top.update(problem)
             top.display = True
             self.app.bell()
             return
-        self.dismiss(str(node.id))
+        self.dismiss(node_id)
 
     @on(Button.Pressed, "#cancel")
     def action_cancel(self) -> None:
