@@ -110,6 +110,7 @@ class ReadingScreen(Screen[str]):
             self.texts = texts
             #: Keep an undo step first, under this name (the first change to a device).
             self.undo_label = undo_label
+            #: Whether the device had no value and no reason before this reading.
             self.was_untested = was_untested
 
     def __init__(self, device_id: str, *, refused: tuple[Record, str] | None = None) -> None:
