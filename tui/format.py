@@ -1,10 +1,11 @@
-"""How model values are shown on screen: inline ratings, severity marks, the caution."""
+"""How model values are shown on screen: severity marks, kind and node titles, the caution."""
 
 from __future__ import annotations
 
 from typing import Any
 
 from model.rules.findings import CAUTION
+from model.site.terms import RCD_KINDS
 
 #: Our marks for the worst severity on a node (glyph, style).
 SEVERITY_MARK: dict[str, tuple[str, str]] = {
@@ -14,6 +15,22 @@ SEVERITY_MARK: dict[str, tuple[str, str]] = {
     "investigate": ("◇", "#5ec8e5"),
 }
 NO_MARK = ("·", "#4a5a66")
+
+#: Each kind of node as offered to the inspector (when adding a node, in form titles).
+KIND_TITLES: dict[str, str] = {
+    "origin": "origin (the supply)",
+    "board": "board / consumer unit",
+    "switch": "switch / isolator",
+    "fuse": "fuse",
+    "mcb": "MCB (overcurrent only)",
+    "rccb": "RCCB (residual current only)",
+    "rcbo": "RCBO (residual + overcurrent)",
+    "srcd": "socket-outlet RCD",
+    "prcd": "portable RCD",
+    "cbr": "CBR (breaker + RC relay)",
+    "rcm": "RCM (monitor, no protection)",
+    "circuit": "circuit / equipment",
+}
 
 #: The caution in a form that fits an 80-column line; it keeps "not a certificate".
 CAUTION_SHORT = "Supports, never replaces, your judgement and local rules. Not a certificate."
@@ -43,7 +60,7 @@ def node_summary(node: Any) -> str:
         return "supply"
     if kind == "board":
         return str(node.place or "board")
-    if kind in ("rccb", "rcbo", "srcd", "prcd", "cbr"):
+    if kind in RCD_KINDS:
         delay = node.delay
         if delay == "set":
             delay = f"set {_num(node.delay_ms)} ms" if node.delay_ms is not None else "set"

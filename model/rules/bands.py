@@ -298,3 +298,10 @@ def judge_reading(node: Any, reading: Any, rules: str) -> dict[str, Judgement]:
     else:
         out["button"] = Judgement(None, reading.button or "not recorded")
     return out
+
+
+def judge_button(button: str | None) -> Judgement:
+    """Judge the integral test button: it must trip the device (common practice)."""
+    if button == "failed":
+        return Judgement("reading.button-failed", "test button did not trip the device")
+    return Judgement(None, button or "not recorded")

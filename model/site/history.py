@@ -7,6 +7,8 @@ file (the later one in the list is the later visit), which is the order
 
 from __future__ import annotations
 
+from collections.abc import Iterable
+
 from model.site.models import SiteFile, Visit
 
 
@@ -59,3 +61,14 @@ def cut_at(site: SiteFile, visit_id: str) -> SiteFile:
         raise KeyError(visit_id)
     visits = [v for v in site.visits if id(v) in keep]
     return site.model_copy(update={"visits": visits})
+
+
+def new_visit_id(date: str, taken: Iterable[str]) -> str:
+    """The id for a new visit on ``date``: the date, or the date with -2, -3 ... when taken."""
+    used = set(taken)
+    if date not in used:
+        return date
+    n = 2
+    while f"{date}-{n}" in used:
+        n += 1
+    return f"{date}-{n}"

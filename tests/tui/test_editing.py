@@ -40,7 +40,7 @@ async def test_refused_value_leaves_file_unchanged(oak_lane: Path) -> None:
         assert "10000" in screen.verdicts["x1_0"]
         await pilot.press("escape")
         assert app.save_now()
-        assert app.undo_stack == []
+        assert len(app.undo_stack) == 0
     assert oak_lane.read_bytes() == before
 
 
@@ -244,3 +244,20 @@ async def test_save_error_is_shown_and_recovered_lines_too(
         assert app.save_state == "error"
         bar = str(app.screen.query_one("#save-state").render())
         assert "not saved" in bar and "No space left" in bar
+
+
+async def test_a_new_node_with_a_used_id_is_refused_in_the_form(oak_lane: Path) -> None:
+    app = make_app(oak_lane)
+    async with app.run_test(size=(120, 40)) as pilot:
+        app.main.select("cu")
+        await pilot.press("a", "enter")  # a board under the consumer unit
+        editor = app.screen
+        assert isinstance(editor, NodeEditorScreen)
+        await pilot.press("ctrl+u", *"rc1", "ctrl+s")
+        assert app.screen is editor  # refused: the form stays open with the reason
+        assert "'rc1' is already used" in str(editor.query_one("#form-error").render())
+        assert len(app.undo_stack) == 0
+        await pilot.press("ctrl+u", *"board9", "ctrl+s")
+        assert not isinstance(app.screen, NodeEditorScreen)
+        assert app.index.parent("board9") == "cu"
+        assert app.main.tree.selected_id() == "board9"

@@ -5,10 +5,13 @@ from __future__ import annotations
 import datetime as dt
 from pathlib import Path
 
+import pytest
+
+from model.rules.entry import ENTRY_ORDER
 from model.site.terms import DID_NOT_TRIP
 from model.storage.sites import load_site
 from tui.app.shell import TripwiseApp, make_app
-from tui.screens.readings import FIELDS, ReadingScreen
+from tui.screens.readings import ReadingScreen
 from tui.screens.start_visit import StartVisitScreen
 from tui.widgets.reading_pad import DID_NOT_TRIP_KEY
 
@@ -107,7 +110,7 @@ async def test_keystrokes_per_reading_set(oak_lane_no_visits: Path) -> None:
         await pilot.press(*keys)
         assert screen.device_id == "rc2"
         digits = sum(len(v) for v in values if v.isdigit())
-        assert len(keys) <= len(FIELDS) + digits
+        assert len(keys) <= len(ENTRY_ORDER) + digits
         reading = app.site.latest_visit().readings["rc1"]  # type: ignore[union-attr]
         assert (reading.x1_0, reading.x5_180, reading.button) == (22.0, 13.0, "worked")
 
@@ -136,3 +139,31 @@ async def test_header_count_and_units_follow_the_entry(oak_lane: Path) -> None:
         header = screen.query_one("#rd-device").render().plain  # type: ignore[attr-defined]
         assert "0 untested" in header
         assert "24 ms" in screen.pad.render().plain  # the unit beside a value once entered
+
+
+async def test_a_reading_the_session_refuses_is_shown_at_its_field(
+    oak_lane: Path, monkeypatch: pytest.MonkeyPatch
+) -> None:
+    app = make_app(oak_lane)
+    async with app.run_test(size=(120, 40)) as pilot:
+        await app.settle()
+        screen = await _open_readings(app, pilot, "rb2")  # untested in the sample
+        assert app.session is not None
+
+        def full_disk(*_args: object) -> None:
+            raise OSError(28, "No space left on device")
+
+        monkeypatch.setattr(app.session, "set_reading", full_disk)
+        await pilot.press("n")
+        # the form is back on the field it was typed in, with the reason
+        assert screen.device_id == "rb2" and screen.pad.current == "half_0"
+        assert "No space left" in screen.verdicts["half_0"]
+        assert "not recorded" in screen.pad.render().plain
+        assert screen.pad.values["half_0"] == DID_NOT_TRIP
+        await pilot.press("ctrl+t", *"no access", "enter")
+        # refused on the last untested device: the form stays open on it
+        assert isinstance(app.screen, ReadingScreen) and app.screen.device_id == "rb2"
+        assert app.screen.pad.current == "not_tested"
+        assert "No space left" in app.screen.verdicts["not_tested"]
+        assert app.screen.pad.values["not_tested"] == "no access"
+        assert app.site.latest_visit().readings.get("rb2") is None  # type: ignore[union-attr]

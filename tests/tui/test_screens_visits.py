@@ -7,8 +7,9 @@ import datetime as dt
 from hosting import Host
 from textual.widgets import DataTable, Input, Static
 
+from model.site.history import new_visit_id
 from model.site.models import SiteFile, Visit
-from tui.screens.visits import VisitsScreen, new_visit_id
+from tui.screens.visits import VisitsScreen
 
 INSPECTOR = "T. Brackenridge (invented)"  # the sample's latest visit
 INSTRUMENT = "Multifunction tester (unnamed)"
@@ -61,9 +62,3 @@ async def test_bad_date_refused_and_escape_cancels(site: SiteFile) -> None:
         await pilot.press("escape")
         await pilot.pause()
         assert app.results == [None]
-
-
-def test_new_visit_id() -> None:
-    assert new_visit_id("2026-12-01", []) == "2026-12-01"
-    assert new_visit_id("2026-12-01", ["2026-12-01"]) == "2026-12-01-2"
-    assert new_visit_id("2026-12-01", ["2026-12-01", "2026-12-01-2"]) == "2026-12-01-3"

@@ -2,14 +2,13 @@
 
 from __future__ import annotations
 
-from typing import Any
-
 from textual import events, on
 from textual.app import ComposeResult
 from textual.containers import Horizontal, VerticalScroll
 from textual.screen import Screen
 from textual.widgets import Tree
 
+from tui.app.view import site_view
 from tui.widgets.caution_bar import CautionBar
 from tui.widgets.findings_panel import FindingsPanel, FindingsTable
 from tui.widgets.key_bar import KeyBar
@@ -32,10 +31,6 @@ class MainScreen(Screen[None]):
         yield KeyBar(id="key-bar")
 
     @property
-    def _app(self) -> Any:
-        return self.app
-
-    @property
     def tree(self) -> SiteTree:
         return self.query_one(SiteTree)
 
@@ -45,35 +40,37 @@ class MainScreen(Screen[None]):
 
     def on_mount(self) -> None:
         self.tree.focus()
-        if self._app.session is not None:
+        if site_view(self).has_site:
             self.show_site(keep=None)
 
     def show_site(self, keep: str | None) -> None:
         """Rebuild the tree (structure changed) and refresh everything else."""
-        app = self._app
-        worst = app.analysis.worst_by_node() if app.analysis is not None else {}
+        view = site_view(self)
+        worst = view.analysis.worst_by_node() if view.analysis is not None else {}
         current = keep or self.tree.selected_id()
-        if current == app.index.root:
+        if current == view.index.root:
             current = None  # the cursor starts on the root anyway
-        self.tree.rebuild(app.index, worst, keep=current)
+        self.tree.rebuild(view.index, worst, keep=current)
         self.show_details()
-        if app.analysis is not None:
-            self.findings.show(app.analysis, app.index)
+        if view.analysis is not None:
+            self.findings.show(view.analysis, view.index)
 
     def show_analysis(self) -> None:
         """A new analysis arrived: marks, findings, details."""
-        app = self._app
-        self.tree.set_worst(app.analysis.worst_by_node())
-        self.findings.show(app.analysis, app.index)
+        view = site_view(self)
+        if view.analysis is None:
+            return
+        self.tree.set_worst(view.analysis.worst_by_node())
+        self.findings.show(view.analysis, view.index)
         self.show_details()
 
     def show_details(self) -> None:
-        app = self._app
-        if app.session is None:
+        view = site_view(self)
+        if not view.has_site:
             return
-        site = app.session.site
+        site = view.site
         self.query_one(NodeDetails).show(
-            app.index, self.tree.selected_id(), app.analysis, site.latest_visit(), site.site.rules
+            view.index, self.tree.selected_id(), view.analysis, site.latest_visit(), site.site.rules
         )
 
     def select(self, node_id: str) -> None:
@@ -96,7 +93,7 @@ class MainScreen(Screen[None]):
 
     @on(FindingsPanel.Highlighted)
     def _finding_highlighted(self, event: FindingsPanel.Highlighted) -> None:
-        self.query_one(NodeDetails).show_finding(self._app.index, event.finding)
+        self.query_one(NodeDetails).show_finding(site_view(self).index, event.finding)
 
     @on(FindingsPanel.JumpTo)
     def _jump(self, event: FindingsPanel.JumpTo) -> None:

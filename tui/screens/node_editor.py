@@ -2,45 +2,52 @@
 
 from __future__ import annotations
 
-from collections.abc import Callable
 from typing import Any
 
-from pydantic import BaseModel, ValidationError
+from pydantic import BaseModel
 from textual import on
 from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Horizontal, Vertical, VerticalScroll
+from textual.message import Message
 from textual.screen import ModalScreen
 from textual.widget import Widget
 from textual.widgets import Button, Checkbox, Input, Label, Select, SelectionList, Static
 
+from model.site.fields import FieldSpec, check_form, field_specs, typed_value
 from model.site.nodes import NODE_CLASSES
-from model.site.numbers import parse_number
-from tui.editing import KIND_TITLES
-from tui.forms import FieldSpec, errors_by_field, field_specs
-
-#: Called with the validated node; returns None when the session accepted it, else why not.
-ApplyFn = Callable[[BaseModel], "str | None"]
+from tui.format import KIND_TITLES
 
 
 class NodeEditorScreen(ModalScreen[str | None]):
-    """Edit (or create) one node; dismisses with its id once the session has accepted it."""
+    """Edit (or create) one node; dismisses with its id once the app has accepted it."""
 
     BINDINGS = [
         Binding("ctrl+s", "apply", "Apply", priority=True),
         Binding("escape", "cancel", "Cancel"),
     ]
 
-    def __init__(self, values: dict[str, Any], apply: ApplyFn, *, new: bool) -> None:
+    class Apply(Message):
+        """Add (``new``) or change this validated node; the app answers with
+        :meth:`NodeEditorScreen.answer`."""
+
+        def __init__(self, editor: NodeEditorScreen, node: BaseModel, *, new: bool) -> None:
+            super().__init__()
+            self.editor = editor
+            self.node = node
+            self.new = new
+
+    def __init__(self, values: dict[str, Any], *, new: bool) -> None:
         super().__init__()
         self._kind = str(values["kind"])
         self._cls = NODE_CLASSES[self._kind]
         self._values = values
-        self._apply = apply
         self._new = new
         self._specs = field_specs(self._cls)
         #: The message shown at each field now (empty when the form is valid).
         self.errors: dict[str, str] = {}
+        #: True while the app has a node of this form to answer for.
+        self._asked = False
 
     @property
     def specs(self) -> list[FieldSpec]:
@@ -130,30 +137,16 @@ class NodeEditorScreen(ModalScreen[str | None]):
             elif isinstance(w, SelectionList):
                 data[spec.name] = [c for c in spec.choices if c in w.selected]
             elif isinstance(w, Input):
-                if spec.kind == "number":
-                    try:
-                        num = parse_number(w.value)
-                    except ValueError as exc:
-                        bad[spec.name] = str(exc)
-                        continue
-                    if num is None and not spec.optional:
-                        bad[spec.name] = "a value is needed"
-                        continue
-                    data[spec.name] = num
-                else:
-                    data[spec.name] = w.value.strip() if spec.name == "id" else w.value
+                try:
+                    data[spec.name] = typed_value(spec, w.value)
+                except ValueError as exc:
+                    bad[spec.name] = str(exc)
         return data, bad
 
     def _check(self) -> BaseModel | None:
         """Validate the form with the model; show each message at its field."""
         data, bad = self.collect()
-        errors = dict(bad)
-        node: BaseModel | None = None
-        try:
-            node = self._cls.model_validate(data)
-        except ValidationError as exc:
-            for k, v in errors_by_field(exc).items():
-                errors.setdefault(k, v)
+        node, errors = check_form(self._cls, data, bad)
         self.errors = errors
         names = {s.name for s in self._specs}
         for spec in self._specs:
@@ -165,7 +158,7 @@ class NodeEditorScreen(ModalScreen[str | None]):
         top = self.query_one("#form-error", Static)
         top.update("; ".join(whole))
         top.display = bool(whole)
-        return node if not errors else None
+        return node
 
     @on(Input.Changed)
     @on(Select.Changed)
@@ -189,18 +182,25 @@ class NodeEditorScreen(ModalScreen[str | None]):
 
     @on(Button.Pressed, "#apply")
     def action_apply(self) -> None:
+        if self._asked:
+            return  # the app has not answered the last one yet
         node = self._check()
         if node is None:
             self.app.bell()
             return
-        problem = self._apply(node)
+        self._asked = True
+        self.app.post_message(self.Apply(self, node, new=self._new))
+
+    def answer(self, node_id: str, problem: str | None) -> None:
+        """The app's answer to :class:`Apply`: close on the node, or show why it was refused."""
+        self._asked = False
         if problem:
             top = self.query_one("#form-error", Static)
             top.update(problem)
             top.display = True
             self.app.bell()
             return
-        self.dismiss(str(node.id))
+        self.dismiss(node_id)
 
     @on(Button.Pressed, "#cancel")
     def action_cancel(self) -> None:

@@ -1,10 +1,11 @@
 """Reading entry, built for speed: digits and Enter, one key for "did not trip".
 
-Each value is judged against its band the moment it is typed (the band comes from
-``model.rules.bands``), and recorded through the editing session when Enter moves on.
-After the last field the form moves to the next untested residual-current device.
-All typing goes to one widget (:class:`ReadingPad`) so fast keys never land in the
-wrong field.
+Each value is judged against its band the moment it is typed (the verdict comes from
+``model.rules.entry``).  Enter sends the reading up to the app as a message to be
+recorded through the editing session, and the form moves on at once; a refusal is
+shown at its field when the app answers.  After the last field the form moves to the
+next untested residual-current device.  All typing goes to one widget
+(:class:`ReadingPad`) so fast keys never land in the wrong field.
 """
 
 from __future__ import annotations
@@ -16,24 +17,29 @@ from rich.text import Text
 from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Vertical
+from textual.message import Message
 from textual.screen import Screen
 from textual.widgets import Static
 
-from model.rules.bands import Band, judge_ramp, judge_time, ramp_band, time_band
+from model.rules.entry import (
+    ENTRY_ORDER,
+    EntryVerdict,
+    chosen_waveform,
+    entry_texts,
+    judge_entry,
+    reading_from_texts,
+)
+from model.site.editing import is_untested, next_untested
+from model.site.fields import errors_by_field, field_choices
 from model.site.models import Reading
-from model.site.numbers import parse_number
-from model.site.terms import DID_NOT_TRIP, TEST_NAMES
-from tui.editing import is_untested
+from tui.app.view import site_view
 from tui.format import LIVE_TEST_CAUTION, node_summary, node_title
-from tui.forms import errors_by_field
 from tui.widgets.caution_bar import CautionBar
 from tui.widgets.key_bar import KeyBar
 from tui.widgets.reading_pad import ReadingPad
 from tui.widgets.top_bar import TopBar
 
-#: The fields in entry order (Enter on the last moves to the next device).
-FIELDS: tuple[str, ...] = (*TEST_NAMES, "ramp_ma", "button", "waveform", "note")
-
+#: Each field of the pad: (name, kind, title), in the order of model.rules.entry.ENTRY_FIELDS.
 _PAD_FIELDS: list[tuple[str, str, str]] = [
     ("half_0", "time", "½× IΔn   0°"),
     ("half_180", "time", "½× IΔn 180°"),
@@ -48,9 +54,11 @@ _PAD_FIELDS: list[tuple[str, str, str]] = [
     ("not_tested", "text", "not tested"),
 ]
 
+#: The one-key answers of the choice fields, in the order of the model's choices.
+_CHOICE_KEYS: dict[str, tuple[str, ...]] = {"button": ("w", "f"), "waveform": ("a", "h", "d")}
 _CHOICES: dict[str, list[tuple[str, str]]] = {
-    "button": [("w", "worked"), ("f", "failed")],
-    "waveform": [("a", "AC"), ("h", "half-wave"), ("d", "smooth-dc")],
+    name: list(zip(_CHOICE_KEYS[name], field_choices(Reading, name), strict=True))
+    for name in _CHOICE_KEYS
 }
 
 FLAG_WORDS: dict[str, str] = {
@@ -66,8 +74,8 @@ _OK = "#7bd88f"
 _BAD = "bold #ff4d5e"
 
 
-class ReadingScreen(Screen[None]):
-    """One device's readings at a time, on the latest visit."""
+class ReadingScreen(Screen[str]):
+    """One device's readings at a time, on the latest visit; dismisses with the last device."""
 
     BINDINGS = [
         Binding("escape", "back", "Back to tree"),
@@ -76,9 +84,40 @@ class ReadingScreen(Screen[None]):
         Binding("ctrl+t", "not_tested", "Not tested"),
     ]
 
-    def __init__(self, device_id: str) -> None:
+    class Record(Message):
+        """Record this reading of a device on the latest visit (None: nothing recorded).
+
+        The form has already moved on; the app answers with :meth:`ReadingScreen.answer`.
+        """
+
+        def __init__(
+            self,
+            form: ReadingScreen,
+            device_id: str,
+            reading: Reading | None,
+            *,
+            field: str,
+            texts: dict[str, str],
+            undo_label: str | None,
+            was_untested: bool,
+        ) -> None:
+            super().__init__()
+            self.form = form
+            self.device_id = device_id
+            self.reading = reading
+            #: The field whose Enter recorded it, and the whole form's text then.
+            self.field = field
+            self.texts = texts
+            #: Keep an undo step first, under this name (the first change to a device).
+            self.undo_label = undo_label
+            #: Whether the device had no value and no reason before this reading.
+            self.was_untested = was_untested
+
+    def __init__(self, device_id: str, *, refused: tuple[Record, str] | None = None) -> None:
+        """``refused``: open on a reading the app refused, and show why."""
         super().__init__()
         self.device_id = device_id
+        self._refused = refused
         #: Flag shown at each field now (None when within band or not judged).
         self.flags: dict[str, str | None] = {}
         #: The band beside each field, and the verdict on what is typed there.
@@ -112,42 +151,29 @@ class ReadingScreen(Screen[None]):
     def on_mount(self) -> None:
         self.load_device(self.device_id)
         self.pad.focus()
+        if self._refused is not None:
+            self._show_refused(*self._refused, as_typed=True)
 
     # ------------------------------------------------------------- the device
-    @property
-    def _app(self) -> Any:
-        return self.app
-
     def _node(self) -> Any:
-        return self._app.index.by_id[self.device_id]
+        return site_view(self).index.by_id[self.device_id]
 
     def load_device(self, device_id: str) -> None:
         """Fill the form from the latest visit's reading of this device and start at the top."""
         self.device_id = device_id
         self._undo_taken = False
-        visit = self._app.site.latest_visit()
+        visit = site_view(self).site.latest_visit()
         reading = visit.readings.get(device_id) if visit is not None else None
-        pad = self.pad
-        for name, _, _ in _PAD_FIELDS:
-            value = getattr(reading, name) if reading is not None else None
-            if name == "waveform" and value is None:
-                value = "AC"
-            if value is None:
-                text = ""
-            elif isinstance(value, float):
-                text = f"{value:g}"
-            else:
-                text = str(value)
-            pad.values[name] = text
-        pad.go("half_0")
+        self.pad.values.update(entry_texts(reading))
+        self.pad.go("half_0")
         self._show_header()
         self._judge_all()
 
     def _show_header(self) -> None:
-        app = self._app
-        idx = app.index
+        view = site_view(self)
+        idx = view.index
         node = self._node()
-        visit = app.site.latest_visit()
+        visit = view.site.latest_visit()
         rcds = idx.rcds()
         left = sum(1 for d in rcds if is_untested(visit, d))
         t = Text(no_wrap=True, overflow="ellipsis")
@@ -161,69 +187,31 @@ class ReadingScreen(Screen[None]):
             t2.append(f" · visit {visit.date}")
             if visit.inspector:
                 t2.append(f" ({visit.inspector})")
-        t2.append(f" · rules {app.site.site.rules}")
+        t2.append(f" · rules {view.site.site.rules}")
         self.query_one("#rd-device", Static).update(Text("\n").join([t, t2]))
 
     # ------------------------------------------------------------- judging
-    def _waveform(self) -> str:
-        return self.pad.values["waveform"] or "AC"
-
-    def _raw(self, name: str) -> Any:
-        """The typed value (float, 'did not trip', text or None); ValueError if unreadable."""
-        text = self.pad.values[name]
-        if name in ("note", "not_tested", "button", "waveform"):
-            return text or None
-        if name in TEST_NAMES and text == DID_NOT_TRIP:
-            return DID_NOT_TRIP
-        return parse_number(text)
-
-    def _band(self, name: str) -> Band:
-        group = name.split("_", 1)[0]
-        return time_band(self._node(), group, self._waveform(), self._app.site.site.rules)  # type: ignore[arg-type]
-
     def _judge(self, name: str) -> None:
-        """Work out the band beside one field and the verdict on what is typed there."""
-        flag: str | None = None
-        band_text = verdict = problem = need = ""
-        try:
-            value = self._raw(name)
-        except ValueError as exc:
-            value, problem = None, str(exc)
-        if name in TEST_NAMES:
-            band = self._band(name)
-            need = "required" if band.required else "optional"
-            band_text = band.text
-            j = judge_time(band, value)
-            flag, verdict = j.flag, j.text
-        elif name == "ramp_ma":
-            rb = ramp_band(self._node(), self._waveform())
-            band_text, need = f"{rb.low_ma:g}–{rb.high_ma:g} mA", "optional"
-            j = judge_ramp(rb, value)
-            flag, verdict = j.flag, j.text
-        elif name == "button":
-            band_text, need = "must trip it", "optional"
-            flag = "reading.button-failed" if value == "failed" else None
-            verdict = "test button did not trip the device" if flag else (value or "")
-        elif name == "waveform":
-            band_text = "sets the bands above"
-        elif name == "not_tested":
-            band_text = "reason, instead of values"
-        if problem:
-            verdict, flag = problem, None
-        self.flags[name] = flag
-        self.need[name] = need
-        self.bands[name] = f"{band_text} · {need}" if need else band_text
-        self.verdicts[name] = verdict
-        v = Text(no_wrap=True, overflow="ellipsis")
-        if problem:
-            v.append(f"✖ {problem}", style=_BAD)
-        elif flag:
-            v.append(f"✖ {FLAG_WORDS.get(flag, flag)}", style=_BAD)
-        elif value not in (None, "") and name in (*TEST_NAMES, "ramp_ma", "button"):
-            v.append("✓ in band" if name != "button" else f"✓ {value}", style=_OK)
-            if name in TEST_NAMES and self._band(name).may_trip:
-                v = Text("· recorded", style="#8fa7b3")
-        self._verdict_text[name] = v
+        """Show the band beside one field and the verdict on what is typed there."""
+        values = self.pad.values
+        rules = site_view(self).site.site.rules
+        v: EntryVerdict = judge_entry(
+            self._node(), name, values[name], chosen_waveform(values), rules
+        )
+        self.flags[name] = v.flag
+        self.need[name] = v.need
+        self.bands[name] = f"{v.band} · {v.need}" if v.need else v.band
+        self.verdicts[name] = v.verdict
+        text = Text(no_wrap=True, overflow="ellipsis")
+        if v.mark == "unreadable":
+            text.append(f"✖ {v.verdict}", style=_BAD)
+        elif v.mark == "flagged" and v.flag is not None:
+            text.append(f"✖ {FLAG_WORDS.get(v.flag, v.flag)}", style=_BAD)
+        elif v.mark == "in band":
+            text.append("✓ in band" if name != "button" else f"✓ {values[name]}", style=_OK)
+        elif v.mark == "recorded":
+            text = Text("· recorded", style="#8fa7b3")
+        self._verdict_text[name] = text
         self._show_status()
 
     def _show_status(self) -> None:
@@ -254,58 +242,83 @@ class ReadingScreen(Screen[None]):
         else:
             self._judge(name)
 
-    def field_entered(self, name: str) -> bool:
-        """Enter (or a one-key value) on a field: record, then move on."""
+    def field_entered(self, name: str) -> None:
+        """Enter (or a one-key value) on a field: send it to be recorded, then move on.
+
+        The form moves on at once, so keys typed meanwhile land in the next
+        field; a refusal from the app is shown when it answers.  What the form
+        itself cannot read is refused at once, and the cursor stays.
+        """
         if name == "not_tested":
-            return self._record_not_tested()
-        was_untested = is_untested(self._app.site.latest_visit(), self.device_id)
+            self._record_not_tested()
+            return
         if not self._commit(name):
-            return False
-        if was_untested and not is_untested(self._app.site.latest_visit(), self.device_id):
-            self._show_header()  # the count of untested devices has just gone down
-        i = FIELDS.index(name)
-        if i + 1 < len(FIELDS):
-            self.pad.go(FIELDS[i + 1])
+            return
+        i = ENTRY_ORDER.index(name)
+        if i + 1 < len(ENTRY_ORDER):
+            self.pad.go(ENTRY_ORDER[i + 1])
             self._show_status()
         else:
             self._next_untested()
-        return True
 
     # ------------------------------------------------------------- recording
-    def _reading(self) -> Reading | None:
-        """The form as a Reading (None when nothing is recorded)."""
-        data: dict[str, Any] = {}
-        for name in FIELDS:
-            v = self._raw(name)
-            if v not in (None, ""):
-                data[name] = v
-        reading = Reading.model_validate(data)
-        if not reading.has_values() and not reading.note:
-            return None
-        return reading
-
     def _commit(self, field: str) -> bool:
-        """Record the form through the session; show a refusal at the field."""
+        """Send the form up to be recorded; show at the field why it cannot be."""
         try:
-            reading = self._reading()
+            reading = reading_from_texts(self.pad.values)
         except ValueError as exc:
             msgs = errors_by_field(exc) if isinstance(exc, ValidationError) else {}
             self._refuse(field, msgs.get(field) or next(iter(msgs.values()), str(exc)))
             return False
-        visit = self._app.site.latest_visit()
+        visit = site_view(self).site.latest_visit()
         if visit is not None and visit.readings.get(self.device_id) == reading:
             return True  # nothing changed
-        return self._record(field, reading)
-
-    def _record(self, field: str, reading: Reading | None) -> bool:
-        if not self._undo_taken:
-            self._app.push_undo(f"readings of {self.device_id}")
-            self._undo_taken = True
-        problem = self._app.record_reading(self.device_id, reading)
-        if problem:
-            self._refuse(field, problem)
-            return False
+        self._record(field, reading)
         return True
+
+    def _record(self, field: str, reading: Reading | None) -> None:
+        undo_label = None
+        if not self._undo_taken:
+            undo_label = f"readings of {self.device_id}"
+            self._undo_taken = True
+        visit = site_view(self).site.latest_visit()
+        self.app.post_message(
+            self.Record(
+                self,
+                self.device_id,
+                reading,
+                field=field,
+                texts=dict(self.pad.values),
+                undo_label=undo_label,
+                was_untested=is_untested(visit, self.device_id),
+            )
+        )
+
+    def answer(self, record: Record, problem: str | None) -> None:
+        """The app's answer to a :class:`Record`: None when recorded, else why not.
+
+        A recorded first value brings the count of untested devices down; a
+        refusal takes the form back to that device and field, as typed, and
+        shows why there.
+        """
+        if problem is None:
+            visit = site_view(self).site.latest_visit()
+            if record.was_untested and not is_untested(visit, record.device_id):
+                self._show_header()  # the count of untested devices has just gone down
+            return
+        self._show_refused(record, problem, as_typed=record.device_id != self.device_id)
+
+    def _show_refused(self, record: Record, problem: str, *, as_typed: bool) -> None:
+        """Go to the refused field (with the whole form as it was typed) and show why."""
+        if as_typed:
+            self.device_id = record.device_id
+            self.pad.values.update(record.texts)
+            self._show_header()
+            self._judge_all()
+        self._undo_taken = True  # the app kept the undo step before trying
+        self.pad.go(record.field)
+        self._show_status()
+        self._refuse(record.field, problem)
 
     def _refuse(self, field: str, message: str) -> None:
         self.flags[field] = None
@@ -314,18 +327,17 @@ class ReadingScreen(Screen[None]):
         self.pad.refresh()
         self.app.bell()
 
-    def _record_not_tested(self) -> bool:
+    def _record_not_tested(self) -> None:
         reason = self.pad.values["not_tested"].strip()
         if not reason:
             self._refuse("not_tested", "give the reason the device was not tested")
-            return False
-        if not self._record("not_tested", Reading(not_tested=reason)):
-            return False
+            return
+        self._record("not_tested", Reading(not_tested=reason))
         self._next_untested()
-        return True
 
     def _next_untested(self) -> None:
-        nxt = self._app.next_untested(self.device_id)
+        view = site_view(self)
+        nxt = next_untested(view.index, view.site.latest_visit(), self.device_id)
         if nxt is None:
             self.app.notify("Every residual-current device has a reading or a reason.")
             self.action_back()
@@ -334,7 +346,7 @@ class ReadingScreen(Screen[None]):
 
     # ------------------------------------------------------------- actions
     def action_device(self, step: int) -> None:
-        rcds = self._app.index.rcds()
+        rcds = site_view(self).index.rcds()
         if self.device_id not in rcds:
             return
         i = rcds.index(self.device_id)
@@ -344,12 +356,11 @@ class ReadingScreen(Screen[None]):
         self.pad.go("not_tested")
 
     def action_back(self) -> None:
-        self._app.reading_closed(self.device_id)
-        self.dismiss(None)
+        self.dismiss(self.device_id)
 
     def site_replaced(self) -> None:
         """The site changed under the form (undo): show it again."""
-        if self.device_id in self._app.index.by_id:
+        if self.device_id in site_view(self).index.by_id:
             self.load_device(self.device_id)
         else:
             self.action_back()

@@ -12,8 +12,9 @@ from textual.containers import Horizontal, Vertical
 from textual.screen import ModalScreen
 from textual.widgets import Input, Label, Static
 
+from model.site.fields import errors_by_field
+from model.site.history import new_visit_id
 from model.site.models import Visit
-from tui.forms import errors_by_field
 
 
 class StartVisitScreen(ModalScreen[Visit | None]):
@@ -54,14 +55,9 @@ class StartVisitScreen(ModalScreen[Visit | None]):
             self.focus_next()
             return
         date = self.query_one("#v-date", Input).value.strip()
-        vid = date
-        n = 2
-        while vid in self._taken:
-            vid = f"{date}-{n}"
-            n += 1
         try:
             visit = Visit(
-                id=vid,
+                id=new_visit_id(date, self._taken),
                 date=date,
                 inspector=self.query_one("#v-inspector", Input).value,
                 instrument=self.query_one("#v-instrument", Input).value,

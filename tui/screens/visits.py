@@ -3,7 +3,6 @@
 from __future__ import annotations
 
 import datetime as dt
-from collections.abc import Iterable
 
 from pydantic import ValidationError
 from rich.text import Text
@@ -14,21 +13,11 @@ from textual.containers import Horizontal, Vertical
 from textual.screen import ModalScreen
 from textual.widgets import Button, DataTable, Input, Label, Static
 
+from model.site.history import new_visit_id
 from model.site.messages import error_text
 from model.site.models import SiteFile, Visit
 
 FIELD_LABELS = {"date": "Date", "inspector": "Inspector", "instrument": "Instrument"}
-
-
-def new_visit_id(date: str, taken: Iterable[str]) -> str:
-    """The date, or the date with -2, -3 ... when a visit already has that id."""
-    used = set(taken)
-    if date not in used:
-        return date
-    n = 2
-    while f"{date}-{n}" in used:
-        n += 1
-    return f"{date}-{n}"
 
 
 class VisitsScreen(ModalScreen[Visit | None]):

@@ -16,8 +16,6 @@ from model.rules.findings import SEVERITIES, Analysis, Finding
 from model.site.tree import SiteIndex
 from tui.format import SEVERITY_MARK
 
-ALL = "all"
-
 
 class FindingsTable(DataTable[Text]):
     """The table of findings; Enter jumps to the finding's node."""
@@ -28,18 +26,16 @@ class FindingsTable(DataTable[Text]):
         Binding("2", "filter('board')", "Board filter"),
     ]
 
-    def action_filter(self, which: str) -> None:
-        panel = self.parent
-        while panel is not None and not isinstance(panel, FindingsPanel):
-            panel = panel.parent
-        if panel is not None:
-            panel.cycle_filter(which)
-
     def _panel(self) -> FindingsPanel | None:
         panel = self.parent
         while panel is not None and not isinstance(panel, FindingsPanel):
             panel = panel.parent
         return panel
+
+    def action_filter(self, which: str) -> None:
+        panel = self._panel()
+        if panel is not None:
+            panel.cycle_filter(which)
 
     def on_focus(self) -> None:
         panel = self._panel()
@@ -47,9 +43,7 @@ class FindingsTable(DataTable[Text]):
             panel.highlight_cursor()
 
     def action_jump(self) -> None:
-        panel = self.parent
-        while panel is not None and not isinstance(panel, FindingsPanel):
-            panel = panel.parent
+        panel = self._panel()
         if panel is not None:
             panel.jump_to_cursor()
 

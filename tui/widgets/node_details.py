@@ -10,12 +10,12 @@ from textual.widgets import Static
 from model.rules.bands import fmt_result, judge_reading
 from model.rules.findings import Analysis, Finding
 from model.rules.impact import trip_impact
+from model.site.fields import field_specs
 from model.site.models import Visit
 from model.site.nodes import NODE_CLASSES
 from model.site.terms import RCD_KINDS, TEST_NAMES
 from model.site.tree import SiteIndex
 from tui.format import SEVERITY_MARK, node_summary, node_title
-from tui.forms import field_specs
 
 TEST_TITLES = {
     "half_0": "½× 0°",

@@ -27,7 +27,7 @@ class ReadingForm(Protocol):
     """What the pad needs from the screen that owns it."""
 
     def field_changed(self, name: str) -> None: ...
-    def field_entered(self, name: str) -> bool: ...
+    def field_entered(self, name: str) -> None: ...
     def row_text(self, name: str) -> tuple[str, str, Text]:
         """(need mark, band text, verdict) for one row."""
         ...
@@ -74,10 +74,6 @@ class ReadingPad(Widget, can_focus=True):
         names = self.names
         i = names.index(self.current)
         self.go(names[(i + step) % len(names)])
-
-    def set_value(self, name: str, value: str) -> None:
-        self.values[name] = value
-        self.refresh()
 
     def get_content_height(self, container: object, viewport: object, width: int) -> int:
         return len(self.fields)
@@ -132,8 +128,7 @@ class ReadingPad(Widget, can_focus=True):
         value = self.values[name]
         handled = True
         if key == "enter":
-            if self._form.field_entered(name):
-                pass
+            self._form.field_entered(name)
         elif key == "up":
             self.move(-1)
         elif key == "down":

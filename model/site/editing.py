@@ -1,6 +1,8 @@
-"""Tree edits the app offers, as pure functions over site data (no Textual here).
+"""Changes to the protection tree, and which device to test next, as pure functions.
 
-These build new node lists; the editing session validates and records them.
+What a new node starts with, which kinds may be added or moved where, copying a
+subtree with fresh ids, and the untested devices of a visit.  These build new
+values and node lists; the editing session validates and records them.
 """
 
 from __future__ import annotations
@@ -27,20 +29,6 @@ NEW_NODE_DEFAULTS: dict[str, dict[str, Any]] = {
     "circuit": {"label": "Circuit", "use": "sockets", "rated_a": 32.0},
 }
 
-KIND_TITLES: dict[str, str] = {
-    "origin": "origin (the supply)",
-    "board": "board / consumer unit",
-    "switch": "switch / isolator",
-    "fuse": "fuse",
-    "mcb": "MCB (overcurrent only)",
-    "rccb": "RCCB (residual current only)",
-    "rcbo": "RCBO (residual + overcurrent)",
-    "srcd": "socket-outlet RCD",
-    "prcd": "portable RCD",
-    "cbr": "CBR (breaker + RC relay)",
-    "rcm": "RCM (monitor, no protection)",
-    "circuit": "circuit / equipment",
-}
 
 #: The order kinds are offered in when adding a node.
 KIND_ORDER = (
@@ -122,6 +110,11 @@ def move_targets(idx: SiteIndex, node_id: str) -> list[str]:
         for nid in idx.order
         if nid not in below and nid != current and kind in ALLOWED_CHILDREN[idx.kind(nid)]
     ]
+
+
+def moved_node(node: Any, parent: str) -> Any:
+    """A copy of ``node`` fed from ``parent`` instead, validated as a node of its kind."""
+    return NODE_CLASSES[node.kind].model_validate({**node.model_dump(), "parent": parent})
 
 
 def is_untested(visit: Visit | None, device_id: str) -> bool:

@@ -1,0 +1,145 @@
+"""A reading as it is typed: each field's value, the band beside it and the verdict so far.
+
+The reading form judges a value the moment it is typed, before it is recorded:
+the band and the judgement come from :mod:`model.rules.bands`, exactly as for a
+recorded reading.  The form's text turns into a :class:`~model.site.models.Reading`
+here, and a recorded reading back into the form's text.
+"""
+
+from __future__ import annotations
+
+from dataclasses import dataclass
+from typing import Any, Literal
+
+from model.rules.bands import (
+    group_of,
+    judge_button,
+    judge_ramp,
+    judge_time,
+    ramp_band,
+    time_band,
+)
+from model.site.models import Reading
+from model.site.numbers import parse_number
+from model.site.terms import DID_NOT_TRIP, TEST_NAMES
+
+#: The fields in entry order (after the last comes the next device).
+ENTRY_ORDER: tuple[str, ...] = (*TEST_NAMES, "ramp_ma", "button", "waveform", "note")
+#: Every field of the form: the entry order, then the reason a device was not tested.
+ENTRY_FIELDS: tuple[str, ...] = (*ENTRY_ORDER, "not_tested")
+#: Fields whose text is taken as it is (the others are numbers or 'did not trip').
+_TEXT_FIELDS = frozenset({"note", "not_tested", "button", "waveform"})
+#: Fields judged against a band (a value in them is either flagged or in band).
+_JUDGED = frozenset({*TEST_NAMES, "ramp_ma", "button"})
+
+#: The test current a reading assumes when none is given.
+DEFAULT_TEST_WAVEFORM: str = Reading.model_fields["waveform"].default
+
+Mark = Literal["", "unreadable", "flagged", "in band", "recorded"]
+
+
+def typed_value(name: str, text: str) -> float | str | None:
+    """The value of a field's text: a number, 'did not trip', the text, or None when empty.
+
+    Raises ValueError, in plain words, when a number cannot be read.
+    """
+    if name in _TEXT_FIELDS:
+        return text or None
+    if name in TEST_NAMES and text == DID_NOT_TRIP:
+        return DID_NOT_TRIP
+    return parse_number(text)
+
+
+def entry_texts(reading: Reading | None) -> dict[str, str]:
+    """The form's text for a recorded reading (empty fields where there is none)."""
+    texts: dict[str, str] = {}
+    for name in ENTRY_FIELDS:
+        value = getattr(reading, name) if reading is not None else None
+        if name == "waveform" and value is None:
+            value = DEFAULT_TEST_WAVEFORM
+        if value is None:
+            texts[name] = ""
+        elif isinstance(value, float):
+            texts[name] = f"{value:g}"
+        else:
+            texts[name] = str(value)
+    return texts
+
+
+def chosen_waveform(texts: dict[str, str]) -> str:
+    """The test current the form's bands are for."""
+    return texts.get("waveform") or DEFAULT_TEST_WAVEFORM
+
+
+def reading_from_texts(texts: dict[str, str]) -> Reading | None:
+    """The form as a Reading; None when nothing is recorded (no value and no note).
+
+    Raises ValueError (a ``ValidationError`` when the model refuses a value).
+    """
+    data: dict[str, Any] = {}
+    for name in ENTRY_ORDER:
+        value = typed_value(name, texts.get(name, ""))
+        if value not in (None, ""):
+            data[name] = value
+    reading = Reading.model_validate(data)
+    if not reading.has_values() and not reading.note:
+        return None
+    return reading
+
+
+@dataclass(frozen=True)
+class EntryVerdict:
+    """One field of the form as typed.
+
+    ``band`` is the band shown beside the field, ``need`` whether the rule set
+    requires the test ("required", "optional" or "" where that does not apply),
+    ``flag`` the finding's rule id when the value is outside its band,
+    ``verdict`` the full sentence, and ``mark`` the verdict in one word: the text
+    could not be read, the value is flagged, in band, or only recorded (either
+    outcome is within the product standard).
+    """
+
+    band: str
+    need: str
+    flag: str | None
+    verdict: str
+    mark: Mark
+
+
+def judge_entry(node: Any, name: str, text: str, waveform: str, rules: str) -> EntryVerdict:
+    """Judge the text typed in one field of a device's reading form."""
+    flag: str | None = None
+    band_text = verdict = problem = need = ""
+    may_trip = False
+    value: float | str | None
+    try:
+        value = typed_value(name, text)
+    except ValueError as exc:
+        value, problem = None, str(exc)
+    if name in TEST_NAMES:
+        band = time_band(node, group_of(name), waveform, rules)
+        need = "required" if band.required else "optional"
+        band_text, may_trip = band.text, band.may_trip
+        j = judge_time(band, value)
+        flag, verdict = j.flag, j.text
+    elif name == "ramp_ma":
+        rb = ramp_band(node, waveform)
+        band_text, need = f"{rb.low_ma:g}–{rb.high_ma:g} mA", "optional"
+        j = judge_ramp(rb, value if not isinstance(value, str) else None)
+        flag, verdict = j.flag, j.text
+    elif name == "button":
+        band_text, need = "must trip it", "optional"
+        j = judge_button(value if isinstance(value, str) else None)
+        flag, verdict = j.flag, (j.text if value else "")
+    elif name == "waveform":
+        band_text = "sets the bands above"
+    elif name == "not_tested":
+        band_text = "reason, instead of values"
+    mark: Mark = ""
+    if problem:
+        verdict, flag, mark = problem, None, "unreadable"
+    elif flag:
+        mark = "flagged"
+    elif value not in (None, "") and name in _JUDGED:
+        mark = "recorded" if may_trip else "in band"
+    return EntryVerdict(band_text, need, flag, verdict, mark)

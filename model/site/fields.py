@@ -1,0 +1,193 @@
+"""Form fields derived from the site models: what a form shows and how typed text is read.
+
+A form shows exactly the fields a model has: the unit comes from the field's
+description (``"Rated current. [A]"``), the choices from its ``Literal`` type,
+and validation messages are keyed back to the field they concern.  The one
+home of every choice list is the model's ``Literal`` types (see :func:`choices`).
+"""
+
+from __future__ import annotations
+
+import re
+import types
+import typing
+from dataclasses import dataclass
+from typing import Any, Literal, Union
+
+from pydantic import BaseModel, ValidationError
+
+from model.site.messages import error_text
+from model.site.numbers import parse_number
+
+FieldKind = Literal["text", "number", "choice", "flag", "flags"]
+
+#: Fields a form never shows (set by the tree, not typed).
+HIDDEN_FIELDS = frozenset({"parent", "kind"})
+
+#: The name of each node field as the inspector knows it.
+FIELD_TITLES: dict[str, str] = {
+    "id": "Id",
+    "label": "Label",
+    "notes": "Notes",
+    "place": "Place",
+    "rated_a": "Rated current In",
+    "curve": "Curve",
+    "idn_ma": "IΔn",
+    "waveform": "Type (waveform)",
+    "delay": "Delay",
+    "delay_ms": "Set delay",
+    "max_break_ms": "Max break time",
+    "use": "Use",
+    "loads": "Loads",
+    "location": "Special locations",
+    "concealed_shallow": "Concealed < 50 mm",
+    "leakage_ma": "Standing leakage",
+    "zs_ohm": "Zs",
+}
+
+_UNIT_RE = re.compile(r"\[([^\]]+)\]\s*$")
+
+
+@dataclass(frozen=True)
+class FieldSpec:
+    """One field of a form."""
+
+    name: str
+    title: str
+    kind: FieldKind
+    optional: bool
+    required: bool
+    choices: tuple[str, ...]
+    unit: str
+    help: str
+    default: Any
+
+
+def unit_and_help(description: str) -> tuple[str, str]:
+    """A field description split into its unit and its help text.
+
+    ``"Rated current. [A]"`` gives ``("A", "Rated current.")``; a description
+    without a trailing ``[unit]`` has no unit.
+    """
+    m = _UNIT_RE.search(description)
+    return (m.group(1) if m else ""), _UNIT_RE.sub("", description).strip()
+
+
+def _strip_annotated(tp: Any) -> Any:
+    while typing.get_origin(tp) is typing.Annotated:
+        tp = typing.get_args(tp)[0]
+    return tp
+
+
+def _unwrap(tp: Any) -> tuple[Any, bool]:
+    """(inner type, allows None)."""
+    tp = _strip_annotated(tp)
+    origin = typing.get_origin(tp)
+    if origin in (Union, types.UnionType):
+        args = [a for a in typing.get_args(tp) if a is not type(None)]
+        optional = len(args) != len(typing.get_args(tp))
+        if len(args) == 1:
+            return _strip_annotated(args[0]), optional
+        return tp, optional
+    return tp, False
+
+
+def choices(tp: Any) -> tuple[str, ...]:
+    """The values a ``Literal`` type allows, in the order written (``()`` for any other type).
+
+    ``Annotated`` wrappers and ``None`` are looked through, so an optional choice
+    field gives its choices too.
+    """
+    inner, _ = _unwrap(tp)
+    if typing.get_origin(inner) is not Literal:
+        return ()
+    return tuple(str(a) for a in typing.get_args(inner))
+
+
+def field_choices(cls: type[BaseModel], name: str) -> tuple[str, ...]:
+    """The choices of one field of a model (e.g. a reading's test button)."""
+    return choices(cls.model_fields[name].annotation)
+
+
+def field_specs(cls: type[BaseModel]) -> list[FieldSpec]:
+    """The editable fields of a model, in model order (notes last)."""
+    out: list[FieldSpec] = []
+    for name, info in cls.model_fields.items():
+        if name in HIDDEN_FIELDS:
+            continue
+        inner, optional = _unwrap(info.annotation)
+        origin = typing.get_origin(inner)
+        options: tuple[str, ...] = ()
+        kind: FieldKind
+        if origin is Literal:
+            kind, options = "choice", choices(inner)
+        elif origin is list:
+            kind, options = "flags", choices(typing.get_args(inner)[0])
+        elif inner is bool:
+            kind = "flag"
+        elif inner in (float, int):
+            kind = "number"
+        else:
+            kind = "text"
+        unit, help_text = unit_and_help(info.description or "")
+        default = None if info.is_required() else info.get_default(call_default_factory=True)
+        out.append(
+            FieldSpec(
+                name=name,
+                title=FIELD_TITLES.get(name, name.replace("_", " ").capitalize()),
+                kind=kind,
+                optional=optional,
+                required=info.is_required(),
+                choices=options,
+                unit=unit,
+                help=help_text,
+                default=default,
+            )
+        )
+    out.sort(key=lambda f: f.name == "notes")
+    return out
+
+
+def typed_value(spec: FieldSpec, text: str) -> Any:
+    """The value typed into a text or number field; ValueError, in plain words, when unusable.
+
+    A number is read by :func:`model.site.numbers.parse_number`; an empty
+    number is None where the field allows it and refused where it does not.
+    An id is taken without surrounding spaces; other text exactly as typed.
+    """
+    if spec.kind == "number":
+        number = parse_number(text)
+        if number is None and not spec.optional:
+            raise ValueError("a value is needed")
+        return number
+    return text.strip() if spec.name == "id" else text
+
+
+def errors_by_field(exc: ValidationError) -> dict[str, str]:
+    """Validation messages keyed by the first field name of their location ('' for the whole)."""
+    out: dict[str, str] = {}
+    for err in exc.errors():
+        loc = err.get("loc", ())
+        key = str(loc[0]) if loc else ""
+        msg = error_text(err)
+        out.setdefault(key, msg)
+    return out
+
+
+def check_form(
+    cls: type[BaseModel], data: dict[str, Any], unreadable: dict[str, str]
+) -> tuple[BaseModel | None, dict[str, str]]:
+    """Validate a form's data with its model: the model, or every message by field.
+
+    ``unreadable`` holds the fields whose text could not be read at all; their
+    messages come first and win over the model's for the same field.  The
+    model is returned only when there is no message at all.
+    """
+    errors = dict(unreadable)
+    try:
+        value = cls.model_validate(data)
+    except ValidationError as exc:
+        for key, message in errors_by_field(exc).items():
+            errors.setdefault(key, message)
+        return None, errors
+    return (value, {}) if not errors else (None, errors)
