@@ -293,10 +293,7 @@ def judge_reading(node: Any, reading: Any, rules: str) -> dict[str, Judgement]:
     for t in TEST_NAMES:
         out[t] = judge_time(bands[_GROUP_OF[t]], values[t])
     out["ramp_ma"] = judge_ramp(ramp_band(node, reading.waveform), reading.ramp_ma)
-    if reading.button == "failed":
-        out["button"] = Judgement("reading.button-failed", "test button did not trip the device")
-    else:
-        out["button"] = Judgement(None, reading.button or "not recorded")
+    out["button"] = judge_button(reading.button)
     return out
 
 

@@ -17,6 +17,7 @@ from model.rules.bands import (
     judge_ramp,
     judge_time,
     ramp_band,
+    ramp_band_text,
     time_band,
 )
 from model.site.models import Reading
@@ -124,7 +125,7 @@ def judge_entry(node: Any, name: str, text: str, waveform: str, rules: str) -> E
         flag, verdict = j.flag, j.text
     elif name == "ramp_ma":
         rb = ramp_band(node, waveform)
-        band_text, need = f"{rb.low_ma:g}–{rb.high_ma:g} mA", "optional"
+        band_text, need = ramp_band_text(rb, "span"), "optional"
         j = judge_ramp(rb, value if not isinstance(value, str) else None)
         flag, verdict = j.flag, j.text
     elif name == "button":

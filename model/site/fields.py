@@ -3,7 +3,7 @@
 A form shows exactly the fields a model has: the unit comes from the field's
 description (``"Rated current. [A]"``), the choices from its ``Literal`` type,
 and validation messages are keyed back to the field they concern.  The one
-home of every choice list is the model's ``Literal`` types (see :func:`choices`).
+home of every choice list is the model's ``Literal`` types (see :func:`annotation_choices`).
 """
 
 from __future__ import annotations
@@ -18,6 +18,7 @@ from pydantic import BaseModel, ValidationError
 
 from model.site.messages import error_text
 from model.site.numbers import parse_number
+from model.site.terms import choices_of
 
 FieldKind = Literal["text", "number", "choice", "flag", "flags"]
 
@@ -92,21 +93,22 @@ def _unwrap(tp: Any) -> tuple[Any, bool]:
     return tp, False
 
 
-def choices(tp: Any) -> tuple[str, ...]:
-    """The values a ``Literal`` type allows, in the order written (``()`` for any other type).
+def annotation_choices(tp: Any) -> tuple[str, ...]:
+    """The choices of a field's type annotation (``()`` when it is not a choice).
 
     ``Annotated`` wrappers and ``None`` are looked through, so an optional choice
-    field gives its choices too.
+    field gives its choices too; the choices themselves come from
+    :func:`model.site.terms.choices_of`.
     """
     inner, _ = _unwrap(tp)
     if typing.get_origin(inner) is not Literal:
         return ()
-    return tuple(str(a) for a in typing.get_args(inner))
+    return tuple(str(a) for a in choices_of(inner))
 
 
 def field_choices(cls: type[BaseModel], name: str) -> tuple[str, ...]:
     """The choices of one field of a model (e.g. a reading's test button)."""
-    return choices(cls.model_fields[name].annotation)
+    return annotation_choices(cls.model_fields[name].annotation)
 
 
 def field_specs(cls: type[BaseModel]) -> list[FieldSpec]:
@@ -120,9 +122,9 @@ def field_specs(cls: type[BaseModel]) -> list[FieldSpec]:
         options: tuple[str, ...] = ()
         kind: FieldKind
         if origin is Literal:
-            kind, options = "choice", choices(inner)
+            kind, options = "choice", annotation_choices(inner)
         elif origin is list:
-            kind, options = "flags", choices(typing.get_args(inner)[0])
+            kind, options = "flags", annotation_choices(typing.get_args(inner)[0])
         elif inner is bool:
             kind = "flag"
         elif inner in (float, int):

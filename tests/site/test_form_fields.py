@@ -8,8 +8,8 @@ import pytest
 from pydantic import Field
 
 from model.site.fields import (
+    annotation_choices,
     check_form,
-    choices,
     field_choices,
     field_specs,
     typed_value,
@@ -24,15 +24,17 @@ CIRCUIT = NODE_CLASSES["circuit"]
 
 
 def test_choices_come_from_the_literal_types() -> None:
-    assert choices(Earthing) == ("TN-S", "TN-C-S", "TT", "IT")
-    assert choices(RuleSetName) == ("uk-bs7671-2022", "iec-60364")
-    assert choices(Waveform) == ("AC", "A", "F", "B")
-    assert choices(Delay) == ("general", "S", "set")
-    assert choices(TestWaveform) == ("AC", "half-wave", "smooth-dc")
-    assert choices(CircuitUse)[:2] == ("sockets", "lighting")
-    assert choices(Annotated[Earthing, Field(description="x")] | None) == choices(Earthing)
-    assert choices(str) == ()
-    assert choices(float | None) == ()
+    assert annotation_choices(Earthing) == ("TN-S", "TN-C-S", "TT", "IT")
+    assert annotation_choices(RuleSetName) == ("uk-bs7671-2022", "iec-60364")
+    assert annotation_choices(Waveform) == ("AC", "A", "F", "B")
+    assert annotation_choices(Delay) == ("general", "S", "set")
+    assert annotation_choices(TestWaveform) == ("AC", "half-wave", "smooth-dc")
+    assert annotation_choices(CircuitUse)[:2] == ("sockets", "lighting")
+    assert annotation_choices(
+        Annotated[Earthing, Field(description="x")] | None
+    ) == annotation_choices(Earthing)
+    assert annotation_choices(str) == ()
+    assert annotation_choices(float | None) == ()
 
 
 def test_field_choices_of_a_reading() -> None:
@@ -63,7 +65,7 @@ def test_field_specs_of_an_rccb() -> None:
         True,
         False,
     )
-    assert specs["waveform"].choices == choices(Waveform)
+    assert specs["waveform"].choices == annotation_choices(Waveform)
     assert specs["delay"].default == "general"
     assert specs["rated_a"].optional and specs["rated_a"].unit == "A"
 

@@ -127,6 +127,11 @@ class ReadingScreen(Screen[str]):
         #: "required" or "optional" for each test under the site's rule set.
         self.need: dict[str, str] = {}
         self._undo_taken = False
+        #: Readings sent up that the app has not answered yet.
+        self._unanswered = 0
+        #: Every device looked done, but a reading was still unanswered: close
+        #: (or go on) only once the app has recorded it.
+        self._finish_when_answered = False
 
     def compose(self) -> ComposeResult:
         yield TopBar(id="top-bar")
@@ -282,6 +287,7 @@ class ReadingScreen(Screen[str]):
             undo_label = f"readings of {self.device_id}"
             self._undo_taken = True
         visit = site_view(self).site.latest_visit()
+        self._unanswered += 1
         self.app.post_message(
             self.Record(
                 self,
@@ -301,11 +307,16 @@ class ReadingScreen(Screen[str]):
         refusal takes the form back to that device and field, as typed, and
         shows why there.
         """
+        self._unanswered = max(0, self._unanswered - 1)
         if problem is None:
             visit = site_view(self).site.latest_visit()
             if record.was_untested and not is_untested(visit, record.device_id):
                 self._show_header()  # the count of untested devices has just gone down
+            if self._finish_when_answered and self._unanswered == 0:
+                self._finish_when_answered = False
+                self._next_untested()
             return
+        self._finish_when_answered = False
         self._show_refused(record, problem, as_typed=record.device_id != self.device_id)
 
     def _show_refused(self, record: Record, problem: str, *, as_typed: bool) -> None:
@@ -339,6 +350,10 @@ class ReadingScreen(Screen[str]):
         view = site_view(self)
         nxt = next_untested(view.index, view.site.latest_visit(), self.device_id)
         if nxt is None:
+            if self._unanswered:
+                # Say "every device" only once the app has recorded the last reading.
+                self._finish_when_answered = True
+                return
             self.app.notify("Every residual-current device has a reading or a reason.")
             self.action_back()
             return

@@ -11,7 +11,6 @@ from textual.widget import Widget
 from textual.widgets import Button, Checkbox, Input, Label, Select, Static, TextArea
 
 from model.rules.limits import RULE_SETS
-from model.site.fields import choices
 from model.site.models import SiteFile, SiteInfo
 from model.site.supply import (
     NUMBER_FIELDS,
@@ -22,7 +21,7 @@ from model.site.supply import (
     shown_fields,
     site_info_from_form,
 )
-from model.site.terms import Earthing, RuleSetName
+from model.site.terms import Earthing, RuleSetName, choices_of
 
 
 def _fmt(value: float | None) -> str:
@@ -79,7 +78,7 @@ class SiteDetailsScreen(ModalScreen[SiteInfo | None]):
                     "earthing",
                     "Earthing",
                     Select(
-                        [(e, e) for e in choices(Earthing)],
+                        [(e, e) for e in choices_of(Earthing)],
                         value=info.earthing,
                         allow_blank=False,
                         id="f-earthing",
@@ -98,7 +97,7 @@ class SiteDetailsScreen(ModalScreen[SiteInfo | None]):
                     "rules",
                     "Rule set",
                     Select(
-                        [(RULE_SETS[name].title, name) for name in choices(RuleSetName)],
+                        [(RULE_SETS[name].title, name) for name in choices_of(RuleSetName)],
                         value=info.rules,
                         allow_blank=False,
                         id="f-rules",
