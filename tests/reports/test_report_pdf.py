@@ -11,7 +11,9 @@ import pypdf
 import pytest
 
 from model import __version__
-from model.reports.documents import STATEMENT, build_remedial, render, write_report
+from model.reports.heading import STATEMENT
+from model.reports.remedial import build_remedial
+from model.reports.writer import render, write_report
 from model.rules.checks import analyse
 from model.site.tree import SiteIndex
 from model.storage.store import load_site, parse_site

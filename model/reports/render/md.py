@@ -9,18 +9,18 @@ from __future__ import annotations
 
 import re
 
-from model.reports.documents import (
+from model.reports.heading import Heading
+from model.reports.remedial import RemedialDoc
+from model.reports.sheet import (
     MARK_FAIL,
     MARK_NOT_JUDGED,
     MARK_OUT,
     MARK_PASS,
-    Heading,
-    RemedialDoc,
     SheetCell,
     SheetDoc,
     SheetRow,
-    clean,
 )
+from model.reports.text import clean
 
 _SPECIAL = re.compile(r"([\\`*_\[\]<>|~#&!{}$])")
 

@@ -2,7 +2,7 @@
 
 Text is set in the bundled DejaVu Sans (it covers Ω, Δ, µ, °, ×, ½ and ‑,
 which the PDF core fonts do not).  Text is never read as markup, and control
-characters are removed before it reaches the page (``model.reports.documents.clean``).
+characters are removed before it reaches the page (``model.reports.text.clean``).
 Every page carries, in its header and footer, the document title and site,
 the not-a-certificate statement, the page number of the whole, and the
 generation time and tripwise version.  The pair charts are drawn with the
@@ -17,20 +17,18 @@ from pathlib import Path
 
 from fpdf import FPDF
 
-from model.reports.documents import (
+from model.reports.heading import Heading
+from model.reports.remedial import PairChart, RemedialDoc, RemedialItem
+from model.reports.sheet import (
     MARK_FAIL,
     MARK_NOT_JUDGED,
     MARK_OUT,
     MARK_PASS,
-    Heading,
-    PairChart,
-    RemedialDoc,
-    RemedialItem,
     SheetCell,
     SheetDoc,
     SheetRow,
-    clean,
 )
+from model.reports.text import clean
 from model.rules.findings import fmt_ma
 
 FONT_DIR = Path(__file__).with_name("fonts")
@@ -780,6 +778,3 @@ def sheet_pdf(doc: SheetDoc) -> bytes:
     _caution(pdf, doc.caution)
     pdf.stamp_pages()
     return bytes(pdf.output())
-
-
-__all__ = ["remedial_pdf", "sheet_pdf", "draw_chart", "clean"]

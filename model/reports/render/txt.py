@@ -4,17 +4,10 @@ from __future__ import annotations
 
 import textwrap
 
-from model.reports.documents import (
-    MARK_FAIL,
-    MARK_NOT_JUDGED,
-    MARK_OUT,
-    MARK_PASS,
-    Heading,
-    RemedialDoc,
-    SheetCell,
-    SheetDoc,
-    clean,
-)
+from model.reports.heading import Heading
+from model.reports.remedial import RemedialDoc
+from model.reports.sheet import MARK_FAIL, MARK_NOT_JUDGED, MARK_OUT, MARK_PASS, SheetCell, SheetDoc
+from model.reports.text import clean
 
 WIDTH = 100
 _IND = " " * 16
