@@ -106,10 +106,10 @@ def write_report(
 ) -> Path:
     """Render one document and write it to ``out_path``; return the path written.
 
-    The document is rendered in memory first, then written to a temporary file
-    in the same folder, flushed, and renamed into place: a failure at any step
-    leaves no partial file and does not touch an existing one.  Without
-    ``force`` an existing file is never replaced (:class:`ReportExists`).
+    The document is rendered in memory first, then written by
+    :func:`_write_new_file`: a failure at any step leaves no partial file and
+    does not touch an existing one.  Without ``force`` an existing file is
+    never replaced (:class:`ReportExists`).
     """
     out = Path(out_path)
     if out.is_dir():
@@ -119,28 +119,41 @@ def write_report(
     if not out.parent.is_dir():
         raise ReportError(f"{out.parent}: no such folder")
     data = render(site, kind, fmt, generated=generated)
+    try:
+        _write_new_file(out, data, replace=force)
+    except FileExistsError:
+        raise ReportExists(
+            f"{out}: already exists; use --force to replace it (nothing written)"
+        ) from None
+    except OSError as exc:
+        raise ReportError(f"{out}: cannot write ({exc.strerror or exc})") from None
+    return out
+
+
+# --------------------------------------------------------------------------- the file itself
+
+
+def _write_new_file(out: Path, data: bytes, *, replace: bool) -> None:
+    """Write ``data`` to ``out`` atomically: a temporary file in the same folder, then a rename.
+
+    The temporary file is flushed to disk before the rename.  Without
+    ``replace`` an existing ``out`` is never replaced (``FileExistsError``).
+    Any failure removes the temporary file and is raised as it came
+    (``OSError`` for the file system).
+    """
     tmp = out.with_name(f".{out.name}.tmp-{os.getpid()}")
     try:
         with open(tmp, "xb") as fh:
             fh.write(data)
             fh.flush()
             os.fsync(fh.fileno())
-        if force:
+        if replace:
             os.replace(tmp, out)
         else:
             _place_new(tmp, out)
-    except FileExistsError:
-        _unlink(tmp)
-        raise ReportExists(
-            f"{out}: already exists; use --force to replace it (nothing written)"
-        ) from None
-    except OSError as exc:
-        _unlink(tmp)
-        raise ReportError(f"{out}: cannot write ({exc.strerror or exc})") from None
     except BaseException:
         _unlink(tmp)
         raise
-    return out
 
 
 def _place_new(tmp: Path, out: Path) -> None:
