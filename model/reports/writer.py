@@ -79,9 +79,13 @@ def render(
 
 def _renderer(kind: str, fmt: str) -> Callable[[Any], bytes]:
     if fmt == "pdf":
-        from model.reports.render import pdf as render_pdf
+        if kind == "remedial":
+            from model.reports.render import pdf_remedial
 
-        return render_pdf.remedial_pdf if kind == "remedial" else render_pdf.sheet_pdf
+            return pdf_remedial.remedial_pdf
+        from model.reports.render import pdf_sheet
+
+        return pdf_sheet.sheet_pdf
     if fmt == "md":
         from model.reports.render import md as render_md
 
