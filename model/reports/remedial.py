@@ -8,20 +8,14 @@ renderers in ``model.reports.render`` only lay it out.
 from __future__ import annotations
 
 import datetime as dt
-from dataclasses import dataclass
-from typing import Any, Literal
+from dataclasses import dataclass, replace
 
-import numpy as np
-
+from model.reports.charts import PairChart, pair_chart_data
 from model.reports.check_text import findings_by_board
 from model.reports.heading import Heading, build_heading
 from model.reports.text import clean
-from model.rules.bands import group_of
-from model.rules.envelope import DeviceCurve, band_curve
-from model.rules.findings import CAUTION, SEVERITIES, Analysis, CurrentRange, Finding, device_text
-from model.rules.limits import BREAK_TIMES, NON_OPERATING_FRACTION
-from model.site.models import SiteFile, Visit
-from model.site.terms import DID_NOT_TRIP, TEST_NAMES
+from model.rules.findings import CAUTION, SEVERITIES, Analysis, Finding
+from model.site.models import SiteFile
 from model.site.tree import SiteIndex
 
 TITLE = "Remedial work list"
@@ -80,46 +74,6 @@ class BoardGroup:
 
 
 @dataclass(frozen=True)
-class ChartPoint:
-    """A reading drawn on a pair chart: time at the test current, or 'did not trip'."""
-
-    device: Literal["up", "down"]
-    test: str
-    current_ma: float
-    time_ms: float | None
-    did_not_trip: bool
-
-
-@dataclass(frozen=True)
-class PairChart:
-    """The two time-current bands of a series pair, with the measured points.
-
-    Curves are sampled so that every step of the step-function reading is
-    exact (each breakpoint appears just below and just above).  ``inf`` in a
-    minimum means the device cannot trip there; in a maximum, a trip is not
-    guaranteed.
-    """
-
-    number: int
-    up_id: str
-    down_id: str
-    up_label: str
-    down_label: str
-    up_text: str
-    down_text: str
-    currents_ma: tuple[float, ...]
-    up_min_ms: tuple[float, ...]
-    up_max_ms: tuple[float, ...]
-    down_min_ms: tuple[float, ...]
-    down_max_ms: tuple[float, ...]
-    ranges: tuple[CurrentRange, ...]
-    points: tuple[ChartPoint, ...]
-    i_max_ma: float
-    verdict: str
-    explanation: str
-
-
-@dataclass(frozen=True)
 class RemedialDoc:
     heading: Heading
     counts: dict[str, int]
@@ -146,76 +100,17 @@ def _chart_pairs(analysis: Analysis) -> list[tuple[str, str]]:
     return out
 
 
-def _chart_grid(lo_ma: float, hi_ma: float, breaks: list[float]) -> np.ndarray:
-    grid = np.geomspace(lo_ma, hi_ma, 120)
-    b = np.asarray([x for x in breaks if lo_ma < x < hi_ma], dtype=np.float64)
-    pts = np.concatenate([grid, b * (1 - 1e-6), b * (1 + 1e-6)])
-    return np.unique(np.clip(pts, lo_ma, hi_ma))
-
-
-def _breakpoints(node: Any) -> list[float]:
-    idn = float(node.idn_ma)
-    out = [NON_OPERATING_FRACTION * idn]
-    for p in BREAK_TIMES:
-        out.append(p.current_ma(idn))
-    return out
-
-
-def _points(role: Literal["up", "down"], node: Any, visit: Visit | None) -> list[ChartPoint]:
-    if visit is None:
-        return []
-    r = visit.readings.get(node.id)
-    if r is None or r.not_tested is not None or r.waveform != "AC":
-        return []
-    out: list[ChartPoint] = []
-    for t in TEST_NAMES:
-        v = getattr(r, t)
-        if v is None:
-            continue
-        mult = {"half": 0.5, "x1": 1.0, "x5": 5.0}[group_of(t)]
-        cur = mult * float(node.idn_ma)
-        if v == DID_NOT_TRIP:
-            out.append(ChartPoint(role, t, cur, None, True))
-        else:
-            out.append(ChartPoint(role, t, cur, float(v), False))
-    return out
-
-
-def _tuple(a: np.ndarray) -> tuple[float, ...]:
-    return tuple(float(x) for x in a)
-
-
-def pair_chart(
-    number: int, idx: SiteIndex, analysis: Analysis, up: str, down: str, visit: Visit | None
+def _printed_chart(
+    site: SiteFile, idx: SiteIndex, analysis: Analysis, number: int, up: str, down: str
 ) -> PairChart:
-    """The data of one pair chart (bands from :func:`model.rules.envelope.band_curve`)."""
-    pa = analysis.pair(up, down)
-    assert pa is not None
-    un, dn = idx.node(up), idx.node(down)
-    lo = 0.4 * float(dn.idn_ma)
-    hi = max(pa.i_max_ma, 10.0 * float(un.idn_ma), 2.0 * lo)
-    hi = min(hi, 1.0e6)
-    grid = _chart_grid(lo, hi, _breakpoints(un) + _breakpoints(dn))
-    u_min, u_max = band_curve(DeviceCurve.of(un), grid)
-    d_min, d_max = band_curve(DeviceCurve.of(dn), grid)
-    return PairChart(
+    """Pair chart ``number`` of the document, its texts cleaned for print."""
+    c = pair_chart_data(site, analysis, up, down, span="page", index=idx)
+    return replace(
+        c,
         number=number,
-        up_id=up,
-        down_id=down,
-        up_label=clean(idx.label(up)),
-        down_label=clean(idx.label(down)),
-        up_text=device_text(un),
-        down_text=device_text(dn),
-        currents_ma=_tuple(grid),
-        up_min_ms=_tuple(u_min),
-        up_max_ms=_tuple(u_max),
-        down_min_ms=_tuple(d_min),
-        down_max_ms=_tuple(d_max),
-        ranges=pa.ranges,
-        points=tuple(_points("up", un, visit) + _points("down", dn, visit)),
-        i_max_ma=pa.i_max_ma,
-        verdict=pa.verdict,
-        explanation=clean(pa.explanation),
+        up_label=clean(c.up_label),
+        down_label=clean(c.down_label),
+        explanation=clean(c.explanation),
     )
 
 
@@ -226,7 +121,9 @@ def build_remedial(
     idx = SiteIndex.build(site)
     visit = site.latest_visit()
     pairs = _chart_pairs(analysis)
-    charts = [pair_chart(n, idx, analysis, u, d, visit) for n, (u, d) in enumerate(pairs, start=1)]
+    charts = [
+        _printed_chart(site, idx, analysis, n, u, d) for n, (u, d) in enumerate(pairs, start=1)
+    ]
     chart_of = {(c.up_id, c.down_id): c.number for c in charts}
     groups: list[BoardGroup] = []
     number = 0

@@ -85,7 +85,7 @@ class PairScreen(ModalScreen[None]):
         self.chart: PairChart | None = None
         self.chart_error: str | None = None
         try:
-            self.chart = pair_chart_data(site, analysis, up_id, down_id)
+            self.chart = pair_chart_data(site, analysis, up_id, down_id, index=self.index)
         except (KeyError, ValueError) as exc:
             self.chart_error = str(exc).strip("'")
 

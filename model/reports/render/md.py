@@ -92,7 +92,7 @@ def remedial_md(doc: RemedialDoc) -> bytes:
     if doc.charts:
         lines += ["## Series pairs", ""]
         for c in doc.charts:
-            ranges = ", ".join(r.text() for r in c.ranges) or "none"
+            ranges = c.ranges_text() or "none"
             lines.append(
                 f"- Chart {c.number}: **{esc(c.up_label)}** ({esc(c.up_text)}) above "
                 f"**{esc(c.down_label)}** ({esc(c.down_text)}): selectivity not guaranteed "

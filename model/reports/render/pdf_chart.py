@@ -10,7 +10,7 @@ from __future__ import annotations
 import math
 from collections.abc import Sequence
 
-from model.reports.remedial import PairChart
+from model.reports.charts import PairChart
 from model.reports.render.pdf_base import INK, MUTED, RGB, ReportPdf
 from model.rules.findings import fmt_ma
 
@@ -55,13 +55,12 @@ def draw_chart(pdf: ReportPdf, c: PairChart, x: float, y: float, width: float) -
     py, ph = top, CHART_PLOT_H
     cur = list(c.currents_ma)
     xmin, xmax = cur[0], cur[-1]
+    up_min, up_max = _times(c.up_min), _times(c.up_max)
+    down_min, down_max = _times(c.down_min), _times(c.down_max)
     finite_t = [
-        t
-        for arr in (c.up_min_ms, c.up_max_ms, c.down_min_ms, c.down_max_ms)
-        for t in arr
-        if math.isfinite(t) and t > 0
+        t for arr in (up_min, up_max, down_min, down_max) for t in arr if math.isfinite(t) and t > 0
     ]
-    pts_t = [p.time_ms for p in c.points if p.time_ms is not None]
+    pts_t = [float(v) for _, v, _ in c.up_points + c.down_points if not isinstance(v, str)]
     ymin = min([5.0, *[t / 1.6 for t in pts_t]])
     ymax = max([1000.0, *[t * 1.6 for t in finite_t + pts_t]])
     lx0, lx1 = math.log10(xmin), math.log10(xmax)
@@ -89,11 +88,11 @@ def draw_chart(pdf: ReportPdf, c: PairChart, x: float, y: float, width: float) -
         pdf.line(px, fy(t), px + pw, fy(t))
         pdf.set_xy(px - 15.5, fy(t) - 1.5)
         pdf.cell(15, 3, _fmt_ms(t), align="R")
-    _band(pdf, cur, c.down_min_ms, c.down_max_ms, DOWN_COLOUR, fx, fy, ymin, ymax)
-    _band(pdf, cur, c.up_min_ms, c.up_max_ms, UP_COLOUR, fx, fy, ymin, ymax)
+    _band(pdf, cur, down_min, down_max, DOWN_COLOUR, fx, fy, ymin, ymax)
+    _band(pdf, cur, up_min, up_max, UP_COLOUR, fx, fy, ymin, ymax)
     # non-selective ranges, over the bands
-    for r in c.ranges:
-        a, b = max(r.lo_ma, xmin), min(r.hi_ma, xmax)
+    for lo, hi in c.ranges:
+        a, b = max(lo, xmin), min(hi, xmax)
         if b > a:
             with pdf.local_context(fill_opacity=0.45):
                 pdf.set_fill_color(*CLASH_STRONG)
@@ -106,26 +105,27 @@ def draw_chart(pdf: ReportPdf, c: PairChart, x: float, y: float, width: float) -
             pdf.font(6)
             pdf.ink(CLASH_EDGE)
             pdf.cell(max(fx(b) - fx(a), 12), 3, "both may trip")
-    # readings
-    for p in c.points:
-        colour = UP_COLOUR if p.device == "up" else DOWN_COLOUR
-        if not (xmin <= p.current_ma <= xmax):
-            continue
-        cx = fx(p.current_ma)
-        pdf.set_fill_color(*colour)
-        pdf.set_draw_color(*INK)
-        pdf.set_line_width(0.25)
-        if p.did_not_trip:
-            tip = py + 0.8
-            pdf.polygon([(cx, tip), (cx - 1.4, tip + 2.4), (cx + 1.4, tip + 2.4)], style="DF")
-        elif p.device == "up":
-            cy = fy(p.time_ms or ymin)
-            pdf.rect(cx - 1.05, cy - 1.05, 2.1, 2.1, style="DF")
-        else:
-            cy = fy(p.time_ms or ymin)
-            pdf.polygon(
-                [(cx, cy - 1.4), (cx + 1.4, cy), (cx, cy + 1.4), (cx - 1.4, cy)], style="DF"
-            )
+    # readings: upstream squares, downstream diamonds, 'did not trip' a triangle at the top
+    for up, points in ((True, c.up_points), (False, c.down_points)):
+        colour = UP_COLOUR if up else DOWN_COLOUR
+        for current, value, _ in points:
+            if not (xmin <= current <= xmax):
+                continue
+            cx = fx(current)
+            pdf.set_fill_color(*colour)
+            pdf.set_draw_color(*INK)
+            pdf.set_line_width(0.25)
+            if isinstance(value, str):  # did not trip
+                tip = py + 0.8
+                pdf.polygon([(cx, tip), (cx - 1.4, tip + 2.4), (cx + 1.4, tip + 2.4)], style="DF")
+            elif up:
+                cy = fy(value or ymin)
+                pdf.rect(cx - 1.05, cy - 1.05, 2.1, 2.1, style="DF")
+            else:
+                cy = fy(value or ymin)
+                pdf.polygon(
+                    [(cx, cy - 1.4), (cx + 1.4, cy), (cx, cy + 1.4), (cx - 1.4, cy)], style="DF"
+                )
     # frame and axis names
     pdf.set_draw_color(*MUTED)
     pdf.set_line_width(0.3)
@@ -147,16 +147,21 @@ def draw_chart(pdf: ReportPdf, c: PairChart, x: float, y: float, width: float) -
         "downstream",
         f"{c.down_label} ({c.down_text}); diamond: reading",
     )
+    faults = "" if c.i_max_ma is None else f"; faults up to {_fmt_current(c.i_max_ma)}"
     _legend(
         pdf,
         x,
         ly + 8.4,
         CLASH_STRONG,
         "both may trip",
-        f"selectivity not guaranteed; triangle at the top: did not trip; faults up to "
-        f"{_fmt_current(c.i_max_ma)}",
+        f"selectivity not guaranteed; triangle at the top: did not trip{faults}",
     )
     pdf.set_y(ly + 15)
+
+
+def _times(values: Sequence[float | None]) -> list[float]:
+    """Band times as drawn: None (cannot trip, or no trip guaranteed) as infinity. [ms]"""
+    return [math.inf if v is None else v for v in values]
 
 
 def _legend(pdf: ReportPdf, x: float, y: float, rgb: RGB, name: str, text: str) -> None:
