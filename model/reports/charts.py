@@ -21,13 +21,13 @@ from typing import Literal
 
 import numpy as np
 
+from model.reports.analysis_view import site_index
 from model.rules.bands import GROUP_MULTIPLE, group_of
 from model.rules.envelope import DeviceCurve, band_curve
 from model.rules.findings import Analysis, CurrentRange, PairAnalysis, device_text
 from model.rules.limits import BREAK_TIMES, IEC_61008_T1, NON_OPERATING_FRACTION
 from model.site.models import SiteFile
 from model.site.terms import RCD_KINDS, TEST_NAMES
-from model.site.tree import SiteIndex
 
 #: A measured point: (test current [mA], trip time [ms] or "did not trip", test name).
 MeasuredPoint = tuple[float, float | str, str]
@@ -174,22 +174,20 @@ def pair_chart_data(
     down_id: str,
     *,
     span: Span = "screen",
-    index: SiteIndex | None = None,
 ) -> PairChart:
     """The bands of two residual-current devices, their readings and the unsafe ranges.
 
     Works for any two protective RCDs; ``in_series`` says whether they form a
     series pair (only then are ``ranges`` filled, from ``analysis``).  Raises
     ``KeyError`` for an unknown id and ``ValueError`` for a node that is not a
-    protective residual-current device.  ``index`` is the site's index when
-    the caller has one already.
+    protective residual-current device.
 
     References
     ----------
     IEC 61008-1 Ed.3 Table 1 (IEC 61009-1 same values), read as step functions;
     IΔno = 0.5 IΔn.
     """
-    idx = index if index is not None else SiteIndex.build(site)
+    idx = site_index(site, analysis)
     nodes = []
     for nid in (up_id, down_id):
         node = idx.by_id[nid]

@@ -10,8 +10,8 @@ from __future__ import annotations
 import datetime as dt
 from dataclasses import dataclass, replace
 
+from model.reports.analysis_view import findings_by_board, site_index
 from model.reports.charts import PairChart, pair_chart_data
-from model.reports.check_text import findings_by_board
 from model.reports.heading import Heading, build_heading
 from model.reports.text import clean
 from model.rules.findings import CAUTION, SEVERITIES, Analysis, Finding
@@ -101,10 +101,10 @@ def _chart_pairs(analysis: Analysis) -> list[tuple[str, str]]:
 
 
 def _printed_chart(
-    site: SiteFile, idx: SiteIndex, analysis: Analysis, number: int, up: str, down: str
+    site: SiteFile, analysis: Analysis, number: int, up: str, down: str
 ) -> PairChart:
     """Pair chart ``number`` of the document, its texts cleaned for print."""
-    c = pair_chart_data(site, analysis, up, down, span="page", index=idx)
+    c = pair_chart_data(site, analysis, up, down, span="page")
     return replace(
         c,
         number=number,
@@ -118,16 +118,14 @@ def build_remedial(
     site: SiteFile, analysis: Analysis, *, generated: dt.datetime | None = None
 ) -> RemedialDoc:
     """The remedial-work list: one item per finding, grouped by board, worst first."""
-    idx = SiteIndex.build(site)
+    idx = site_index(site, analysis)
     visit = site.latest_visit()
     pairs = _chart_pairs(analysis)
-    charts = [
-        _printed_chart(site, idx, analysis, n, u, d) for n, (u, d) in enumerate(pairs, start=1)
-    ]
+    charts = [_printed_chart(site, analysis, n, u, d) for n, (u, d) in enumerate(pairs, start=1)]
     chart_of = {(c.up_id, c.down_id): c.number for c in charts}
     groups: list[BoardGroup] = []
     number = 0
-    for board, fs in findings_by_board(site, analysis):
+    for board, fs in findings_by_board(idx, analysis):
         items: list[RemedialItem] = []
         for f in fs:
             number += 1

@@ -20,6 +20,8 @@ from __future__ import annotations
 from dataclasses import asdict, dataclass, field
 from typing import Any, Literal
 
+from model.site.tree import SiteIndex
+
 Severity = Literal["urgent", "required", "advisory", "investigate"]
 SEVERITIES: tuple[Severity, ...] = ("urgent", "required", "advisory", "investigate")
 SEVERITY_RANK: dict[str, int] = {s: i for i, s in enumerate(SEVERITIES)}
@@ -124,6 +126,8 @@ class Analysis:
     findings: list[Finding] = field(default_factory=list)
     pairs: list[PairAnalysis] = field(default_factory=list)
     caution: str = CAUTION
+    #: The tree index the checks read (reused by reports instead of building another).
+    index: SiteIndex | None = field(default=None, repr=False, compare=False)
 
     def worst_by_node(self) -> dict[str, Severity]:
         """The worst severity of the findings that name each node."""
