@@ -14,7 +14,7 @@ from model.reports.analysis_view import findings_by_board, site_index
 from model.reports.charts import PairChart, pair_chart_data
 from model.reports.heading import Heading, build_heading
 from model.reports.text import clean
-from model.rules.findings import CAUTION, SEVERITIES, Analysis, Finding
+from model.rules.findings import CAUTION, Analysis, Finding
 from model.site.models import SiteFile
 from model.site.tree import SiteIndex
 
@@ -134,12 +134,9 @@ def build_remedial(
         place = clean(getattr(bnode, "place", "")) if bnode is not None else ""
         label = clean(idx.label(board)) if bnode is not None else clean(board)
         groups.append(BoardGroup(board, label, place, tuple(items)))
-    counts: dict[str, int] = {s: 0 for s in SEVERITIES}
-    for f in analysis.findings:
-        counts[f.severity] += 1
     return RemedialDoc(
         heading=build_heading(site, visit, TITLE, generated),
-        counts=counts,
+        counts=analysis.counts(),
         groups=tuple(groups),
         charts=tuple(charts),
         caution=analysis.caution,
