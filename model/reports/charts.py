@@ -4,7 +4,8 @@ One builder, :func:`pair_chart_data`, serves the app's chart
 (``tui.widgets.bandchart``) and the printed one (``model.reports.render.pdf_chart``):
 numpy is used inside, plain lists and floats come out, so any drawing code
 can use the result without knowing how the bands are computed.  The two
-differ only in the span of currents they show (:data:`Span`).
+differ only in the span of currents they show and how densely they sample
+it (:data:`Span`, :data:`GRID_POINTS`).
 
 The bands are the step-function reading of the product standard's table
 (see :mod:`model.rules.envelope`): the sample currents include every tabulated
