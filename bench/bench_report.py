@@ -23,7 +23,9 @@ from typing import Any
 
 sys.path.insert(0, str(Path(__file__).resolve().parents[1]))
 
-from model.reports.documents import build_remedial, build_sheet, render  # noqa: E402
+from model.reports.remedial import build_remedial  # noqa: E402
+from model.reports.sheet import build_sheet  # noqa: E402
+from model.reports.writer import render  # noqa: E402
 from model.rules.checks import analyse  # noqa: E402
 from model.site.models import SiteFile
 

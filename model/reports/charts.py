@@ -1,8 +1,11 @@
-"""Plain data for drawing the time-current bands of a series pair.
+"""The pair chart: plain data for drawing the time-current bands of two devices.
 
-Shared by the terminal chart and the printed report: numpy is used inside,
-plain lists and floats come out, so any drawing code can use the result
-without knowing how the bands are computed.
+One builder, :func:`pair_chart_data`, serves the app's chart
+(``tui.widgets.bandchart``) and the printed one (``model.reports.render.pdf_chart``):
+numpy is used inside, plain lists and floats come out, so any drawing code
+can use the result without knowing how the bands are computed.  The two
+differ only in the span of currents they show and how densely they sample
+it (:data:`Span`, :data:`GRID_POINTS`).
 
 The bands are the step-function reading of the product standard's table
 (see :mod:`model.rules.envelope`): the sample currents include every tabulated
@@ -15,22 +18,27 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, field
+from typing import Literal
 
 import numpy as np
 
+from model.reports.analysis_view import site_index
 from model.rules.bands import GROUP_MULTIPLE, group_of
 from model.rules.envelope import DeviceCurve, band_curve
-from model.rules.findings import Analysis
+from model.rules.findings import Analysis, CurrentRange, PairAnalysis, device_text
 from model.rules.limits import BREAK_TIMES, IEC_61008_T1, NON_OPERATING_FRACTION
 from model.site.models import SiteFile
 from model.site.terms import RCD_KINDS, TEST_NAMES
-from model.site.tree import SiteIndex
 
 #: A measured point: (test current [mA], trip time [ms] or "did not trip", test name).
 MeasuredPoint = tuple[float, float | str, str]
 
-#: Points of the plain log grid between the tabulated currents.
-GRID_POINTS = 96
+#: The span of currents a chart shows: ``screen`` around both devices' ratings (the
+#: app), ``page`` from the downstream rating up to the largest fault current (the PDF).
+Span = Literal["screen", "page"]
+
+#: Points of the plain log grid between the tabulated currents, for each span.
+GRID_POINTS: dict[Span, int] = {"screen": 96, "page": 120}
 #: Relative offset of the samples placed just either side of a step.
 _EDGE = 1e-6
 
@@ -51,6 +59,9 @@ class PairChart:
     down_id: str
     up_label: str
     down_label: str
+    #: The devices' ratings ('30 mA, Type A, general').
+    up_text: str
+    down_text: str
     #: True when ``up`` is a protective RCD in the supply path of ``down``.
     in_series: bool
     #: Sample currents, ascending. [mA]
@@ -66,6 +77,8 @@ class PairChart:
     ranges: list[tuple[float, float]] = field(default_factory=list)
     #: Largest prospective earth-fault current used by the analysis. [mA]
     i_max_ma: float | None = None
+    #: The analysis's explanation of the pair's verdict ('' when not a series pair).
+    explanation: str = ""
     #: Id of the visit the points come from.
     visit: str | None = None
     #: Suggested axis spans: currents [mA] and times [ms] (both for log axes).
@@ -74,6 +87,12 @@ class PairChart:
     #: Remarks a reader needs (skipped readings, missing data).
     notes: list[str] = field(default_factory=list)
     source: str = CHART_SOURCE
+    #: The chart's number in a printed document (0: not numbered).
+    number: int = 0
+
+    def ranges_text(self) -> str:
+        """'50 mA to 150 mA' (ranges joined by commas); '' when there is none."""
+        return ", ".join(CurrentRange(lo, hi).text() for lo, hi in self.ranges)
 
 
 def _breakpoints_ma(idn_ma: float) -> list[float]:
@@ -81,6 +100,39 @@ def _breakpoints_ma(idn_ma: float) -> list[float]:
     out = [NON_OPERATING_FRACTION * idn_ma]
     out.extend(p.current_ma(idn_ma) for p in BREAK_TIMES)
     return out
+
+
+def _span_ma(
+    span: Span, idn_up: float, idn_dn: float, pair: PairAnalysis | None
+) -> tuple[float, float]:
+    """The lowest and highest current of the chart. [mA]"""
+    if span == "page":
+        # From below the downstream non-operating current to the largest fault
+        # current (at least 10 × the upstream IΔn), never beyond 1 kA.
+        lo = 0.4 * idn_dn
+        i_max = 0.0 if pair is None else pair.i_max_ma
+        return lo, min(max(i_max, 10.0 * idn_up, 2.0 * lo), 1.0e6)
+    # From a quarter of the smaller IΔn (below every non-operating current) to
+    # 20 × the larger one (4 × its last multiple column; nothing steps beyond
+    # that for devices up to 1 A).
+    return NON_OPERATING_FRACTION * min(idn_up, idn_dn) / 2.0, 20.0 * max(idn_up, idn_dn)
+
+
+def _currents(span: Span, lo: float, hi: float, steps_ma: list[float]) -> np.ndarray:
+    """The sample currents from ``lo`` to ``hi``: a log grid, every step and a point either side.
+
+    A page chart runs its axis from its first sample to its last, so there
+    both ends are sampled exactly; the screen chart takes its axis from
+    ``current_span_ma``. [mA]
+    """
+    grid = lo * (hi / lo) ** np.linspace(0.0, 1.0, GRID_POINTS[span])
+    steps = np.array(steps_ma)
+    steps = steps[(steps > lo) & (steps < hi)]
+    currents = np.unique(np.concatenate([grid, steps, steps * (1 - _EDGE), steps * (1 + _EDGE)]))
+    currents = currents[(currents >= lo) & (currents <= hi)]
+    if span == "page":
+        currents = np.unique(np.concatenate([[lo, hi], currents]))
+    return currents
 
 
 def _plain(values: np.ndarray) -> list[float | None]:
@@ -116,7 +168,14 @@ def _points(site: SiteFile, node: object, notes: list[str], label: str) -> list[
     return out
 
 
-def pair_chart_data(site: SiteFile, analysis: Analysis, up_id: str, down_id: str) -> PairChart:
+def pair_chart_data(
+    site: SiteFile,
+    analysis: Analysis,
+    up_id: str,
+    down_id: str,
+    *,
+    span: Span = "screen",
+) -> PairChart:
     """The bands of two residual-current devices, their readings and the unsafe ranges.
 
     Works for any two protective RCDs; ``in_series`` says whether they form a
@@ -129,7 +188,7 @@ def pair_chart_data(site: SiteFile, analysis: Analysis, up_id: str, down_id: str
     IEC 61008-1 Ed.3 Table 1 (IEC 61009-1 same values), read as step functions;
     IΔno = 0.5 IΔn.
     """
-    idx = SiteIndex.build(site)
+    idx = site_index(site, analysis)
     nodes = []
     for nid in (up_id, down_id):
         node = idx.by_id[nid]
@@ -141,18 +200,8 @@ def pair_chart_data(site: SiteFile, analysis: Analysis, up_id: str, down_id: str
     pair = analysis.pair(up_id, down_id)
     in_series = up_id in idx.rcd_above.get(down_id, ())
 
-    # From a quarter of the smaller IΔn (below every non-operating current) to
-    # 20 × the larger one (4 × its last multiple column; nothing steps beyond
-    # that for devices up to 1 A).
-    small = min(idn_up, idn_dn)
-    big = max(idn_up, idn_dn)
-    lo = NON_OPERATING_FRACTION * small / 2.0
-    hi = 20.0 * big
-    grid = lo * (hi / lo) ** np.linspace(0.0, 1.0, GRID_POINTS)
-    steps = np.array(_breakpoints_ma(idn_up) + _breakpoints_ma(idn_dn))
-    steps = steps[(steps > lo) & (steps < hi)]
-    currents = np.unique(np.concatenate([grid, steps, steps * (1 - _EDGE), steps * (1 + _EDGE)]))
-    currents = currents[(currents >= lo) & (currents <= hi)]
+    lo, hi = _span_ma(span, idn_up, idn_dn, pair)
+    currents = _currents(span, lo, hi, _breakpoints_ma(idn_up) + _breakpoints_ma(idn_dn))
     u_min, u_max = band_curve(DeviceCurve.of(up), currents)
     d_min, d_max = band_curve(DeviceCurve.of(down), currents)
 
@@ -177,6 +226,8 @@ def pair_chart_data(site: SiteFile, analysis: Analysis, up_id: str, down_id: str
         down_id=down_id,
         up_label=up_label,
         down_label=down_label,
+        up_text=device_text(up),
+        down_text=device_text(down),
         in_series=in_series,
         currents_ma=[float(c) for c in currents.tolist()],
         up_min=_plain(u_min),
@@ -187,6 +238,7 @@ def pair_chart_data(site: SiteFile, analysis: Analysis, up_id: str, down_id: str
         down_points=down_pts,
         ranges=[] if pair is None else [(r.lo_ma, r.hi_ma) for r in pair.ranges],
         i_max_ma=None if pair is None else pair.i_max_ma,
+        explanation="" if pair is None else pair.explanation,
         visit=None if visit is None else visit.id,
         current_span_ma=(float(lo), float(hi)),
         time_span_ms=(t_lo, t_hi),

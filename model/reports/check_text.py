@@ -4,30 +4,15 @@ from __future__ import annotations
 
 import textwrap
 
-from model.rules.findings import SEVERITY_RANK, Analysis, Finding
+from model.reports.analysis_view import findings_by_board, site_index
+from model.rules.findings import Analysis
 from model.rules.limits import rule_set
 from model.site.models import SiteFile
-from model.site.tree import SiteIndex
-
-
-def findings_by_board(site: SiteFile, result: Analysis) -> list[tuple[str, list[Finding]]]:
-    """Findings grouped by board; boards ordered by their worst finding, then tree order."""
-    idx = SiteIndex.build(site)
-    groups: dict[str, list[Finding]] = {}
-    for f in result.findings:
-        groups.setdefault(f.board, []).append(f)
-    pos = {nid: i for i, nid in enumerate(idx.order)}
-    for fs in groups.values():
-        fs.sort(key=lambda f: (SEVERITY_RANK[f.severity], f.rule, f.nodes))
-    return sorted(
-        groups.items(),
-        key=lambda kv: (min(SEVERITY_RANK[f.severity] for f in kv[1]), pos.get(kv[0], 1 << 30)),
-    )
 
 
 def check_text(site: SiteFile, result: Analysis, width: int = 100) -> str:
     """The findings of one site as text, grouped by board, worst first."""
-    idx = SiteIndex.build(site)
+    idx = site_index(site, result)
     info = site.site
     lines = [
         f"{info.name} — {info.earthing}, rules: {rule_set(info.rules).title}",
@@ -39,7 +24,7 @@ def check_text(site: SiteFile, result: Analysis, width: int = 100) -> str:
     else:
         lines.append("No findings.")
     wrap = textwrap.TextWrapper(width=width, initial_indent="    ", subsequent_indent="    ")
-    for board, fs in findings_by_board(site, result):
+    for board, fs in findings_by_board(idx, result):
         lines.append("")
         lines.append(f"[{idx.label(board)}]")
         for f in fs:

@@ -21,6 +21,7 @@ from dataclasses import asdict, dataclass, field
 from typing import Any, Literal
 
 from model.site.terms import choices_of
+from model.site.tree import SiteIndex
 
 Severity = Literal["urgent", "required", "advisory", "investigate"]
 SEVERITIES: tuple[Severity, ...] = choices_of(Severity)
@@ -126,6 +127,8 @@ class Analysis:
     findings: list[Finding] = field(default_factory=list)
     pairs: list[PairAnalysis] = field(default_factory=list)
     caution: str = CAUTION
+    #: The tree index the checks read (reused by reports instead of building another).
+    index: SiteIndex | None = field(default=None, repr=False, compare=False)
 
     def worst_by_node(self) -> dict[str, Severity]:
         """The worst severity of the findings that name each node."""

@@ -10,7 +10,7 @@ from pathlib import Path
 import pypdf
 from sitekit import tripwise as _run
 
-from model.reports.documents import STATEMENT
+from model.reports.heading import STATEMENT
 from model.storage.sites import load_site
 from tests.reports.report_sites import squash, write_awkward
 

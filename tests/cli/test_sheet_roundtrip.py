@@ -9,7 +9,7 @@ from pathlib import Path
 import pytest
 from sitekit import ROOT, copy_sample
 
-from model.reports.documents import render
+from model.reports.writer import render
 from model.storage.sites import load_site
 from model.visits.import_csv import plan_import
 

@@ -125,7 +125,7 @@ def test_bad_ids(site_path: Path) -> None:
         pair_chart_data(site, analysis, "rc3", "nope")
 
 
-def test_chartdata_does_not_import_textual() -> None:
+def test_charts_module_does_not_import_textual() -> None:
     code = "import sys, model.reports.charts; print('textual' in sys.modules)"
     out = subprocess.run(
         [sys.executable, "-c", code], cwd=ROOT, capture_output=True, text=True, check=True

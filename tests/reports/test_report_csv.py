@@ -8,8 +8,9 @@ from pathlib import Path
 
 import pytest
 
-from model.reports.documents import STATEMENT, write_report
+from model.reports.heading import STATEMENT
 from model.reports.render.csv import REMEDIAL_COLUMNS, SHEET_COLUMNS
+from model.reports.writer import write_report
 from model.site.models import SiteFile
 from model.site.terms import DID_NOT_TRIP, TEST_NAMES
 from model.site.tree import SiteIndex

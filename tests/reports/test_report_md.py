@@ -10,7 +10,9 @@ import pypdf
 import pytest
 from markdown_it import MarkdownIt
 
-from model.reports.documents import STATEMENT, build_remedial, render
+from model.reports.heading import STATEMENT
+from model.reports.remedial import build_remedial
+from model.reports.writer import render
 from model.rules.checks import analyse
 from model.storage.sites import load_site
 from tests.reports.report_sites import MARKUP_LABEL, SAMPLES, awkward_site, squash

@@ -8,8 +8,8 @@ from pathlib import Path
 
 import pytest
 
-from model.reports.documents import ReportError, ReportExists, default_name, write_report
-from model.reports.render import pdf as render_pdf
+from model.reports.render import pdf_remedial
+from model.reports.writer import ReportError, ReportExists, default_name, write_report
 from model.storage.sites import load_site
 from tests.reports.report_sites import awkward_site, copy_samples
 
@@ -31,7 +31,7 @@ def test_failed_render_leaves_nothing_behind(
     def boom(doc: object) -> bytes:
         raise RuntimeError("renderer failed")
 
-    monkeypatch.setattr(render_pdf, "remedial_pdf", boom)
+    monkeypatch.setattr(pdf_remedial, "remedial_pdf", boom)
     existing = tmp_path / "old.pdf"
     existing.write_bytes(b"%PDF-1.4 older report")
     target = existing if force else tmp_path / "new.pdf"
@@ -64,7 +64,8 @@ def test_default_name_beside_the_site(tmp_path: Path) -> None:
 
 def test_model_report_never_imports_textual() -> None:
     code = (
-        "import sys, model.reports.documents, model.reports.render.pdf, model.reports.render.md, model.reports.render.csv, "
+        "import sys, model.reports.writer, model.reports.render.pdf_remedial, "
+        "model.reports.render.pdf_sheet, model.reports.render.md, model.reports.render.csv, "
         "model.reports.render.txt; sys.exit(1 if 'textual' in sys.modules else 0)"
     )
     done = subprocess.run([sys.executable, "-c", code], cwd=Path(__file__).parents[2], check=False)
@@ -75,7 +76,8 @@ def test_every_document_renders_for_bare_sites(tmp_path: Path) -> None:
     """No visit, no residual-current device, no finding: every format still renders."""
     import json
 
-    from model.reports.documents import FORMATS, KINDS, STATEMENT
+    from model.reports.heading import STATEMENT
+    from model.reports.writer import FORMATS, KINDS
     from model.storage.codec import parse_site
     from tests.reports.report_sites import awkward_raw, squash
 

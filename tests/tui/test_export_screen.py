@@ -9,7 +9,7 @@ import pypdf
 from textual.app import App, ComposeResult
 from textual.widgets import Input, Static
 
-from model.reports.documents import STATEMENT
+from model.reports.heading import STATEMENT
 from tui.screens.export import ExportScreen
 
 ROOT = Path(__file__).resolve().parents[2]

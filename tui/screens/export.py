@@ -12,12 +12,12 @@ from textual.containers import Horizontal, Vertical
 from textual.screen import ModalScreen
 from textual.widgets import Button, Input, Label, RadioButton, RadioSet, Static
 
-from model.reports.documents import (
+from model.reports.heading import STATEMENT
+from model.reports.writer import (
     FORMAT_TITLE,
     FORMATS,
     KIND_TITLE,
     KINDS,
-    STATEMENT,
     ReportError,
     default_name,
     write_report,
@@ -31,7 +31,7 @@ class ExportScreen(ModalScreen[Path | None]):
     """Choose a document and a format, see the file name, write it; dismiss with the path.
 
     An existing file is replaced only after a second press of Write.  The
-    document is written by :func:`model.reports.documents.write_report` in a worker, so a
+    document is written by :func:`model.reports.writer.write_report` in a worker, so a
     large site never blocks the screen.
     """
 

@@ -10,12 +10,12 @@ from textual.containers import ScrollableContainer, Vertical
 from textual.screen import ModalScreen
 from textual.widgets import Button, Static
 
+from model.reports.analysis_view import site_index
 from model.reports.charts import CHART_SOURCE, MeasuredPoint, PairChart, pair_chart_data
 from model.rules.bands import GROUP_TITLE, fmt_result, group_of
 from model.rules.findings import CAUTION, Analysis, PairAnalysis, device_text, fmt_ma
 from model.rules.limits import CASCADE_RATIO
 from model.site.models import SiteFile
-from model.site.tree import SiteIndex
 from tui.widgets.bandchart import BandChart
 
 VERDICT_TITLE = {
@@ -80,7 +80,7 @@ class PairScreen(ModalScreen[None]):
         self.analysis = analysis
         self.up_id = up_id
         self.down_id = down_id
-        self.index = SiteIndex.build(site)
+        self.index = site_index(site, analysis)
         self.pair: PairAnalysis | None = analysis.pair(up_id, down_id)
         self.chart: PairChart | None = None
         self.chart_error: str | None = None

@@ -22,12 +22,9 @@ from __future__ import annotations
 import csv
 import io
 
-from model.reports.documents import (
-    RemedialDoc,
-    SheetCell,
-    SheetDoc,
-    num_text,
-)
+from model.reports.remedial import RemedialDoc
+from model.reports.sheet import SheetCell, SheetDoc
+from model.reports.text import num_text
 from model.rules.bands import GROUPS
 from model.site.terms import DID_NOT_TRIP, TEST_NAMES
 

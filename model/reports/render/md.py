@@ -9,18 +9,18 @@ from __future__ import annotations
 
 import re
 
-from model.reports.documents import (
+from model.reports.heading import Heading
+from model.reports.remedial import RemedialDoc
+from model.reports.sheet import (
     MARK_FAIL,
     MARK_NOT_JUDGED,
     MARK_OUT,
     MARK_PASS,
-    Heading,
-    RemedialDoc,
     SheetCell,
     SheetDoc,
     SheetRow,
-    clean,
 )
+from model.reports.text import clean
 
 _SPECIAL = re.compile(r"([\\`*_\[\]<>|~#&!{}$])")
 
@@ -92,7 +92,7 @@ def remedial_md(doc: RemedialDoc) -> bytes:
     if doc.charts:
         lines += ["## Series pairs", ""]
         for c in doc.charts:
-            ranges = ", ".join(r.text() for r in c.ranges) or "none"
+            ranges = c.ranges_text() or "none"
             lines.append(
                 f"- Chart {c.number}: **{esc(c.up_label)}** ({esc(c.up_text)}) above "
                 f"**{esc(c.down_label)}** ({esc(c.down_text)}): selectivity not guaranteed "

@@ -4,17 +4,10 @@ from __future__ import annotations
 
 import textwrap
 
-from model.reports.documents import (
-    MARK_FAIL,
-    MARK_NOT_JUDGED,
-    MARK_OUT,
-    MARK_PASS,
-    Heading,
-    RemedialDoc,
-    SheetCell,
-    SheetDoc,
-    clean,
-)
+from model.reports.heading import Heading
+from model.reports.remedial import RemedialDoc
+from model.reports.sheet import MARK_FAIL, MARK_NOT_JUDGED, MARK_OUT, MARK_PASS, SheetCell, SheetDoc
+from model.reports.text import clean
 
 WIDTH = 100
 _IND = " " * 16
@@ -80,7 +73,7 @@ def remedial_txt(doc: RemedialDoc) -> bytes:
     if doc.charts:
         lines += ["", "Series pairs", "------------"]
         for c in doc.charts:
-            ranges = ", ".join(r.text() for r in c.ranges) or "none"
+            ranges = c.ranges_text() or "none"
             lines += _wrap(
                 f"Chart {c.number}: {c.up_label} ({c.up_text}) above {c.down_label} "
                 f"({c.down_text}): selectivity not guaranteed over {ranges}; {c.explanation}",

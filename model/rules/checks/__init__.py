@@ -63,7 +63,7 @@ def analyse(site: SiteFile) -> Analysis:
         if ctx.rules.name == "iec-60364":
             findings = [_iec_source(f) for f in findings]
         findings.sort(key=Finding.sort_key)
-        return Analysis(rules=site.site.rules, findings=findings, pairs=ctx.pairs)
+        return Analysis(rules=site.site.rules, findings=findings, pairs=ctx.pairs, index=ctx.index)
     finally:
         if paused:
             gc.enable()

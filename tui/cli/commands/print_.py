@@ -9,7 +9,7 @@ import sys
 import tempfile
 from pathlib import Path
 
-from model.reports.documents import KIND_TITLE, KINDS, ReportError, write_report
+from model.reports.writer import KIND_TITLE, KINDS, ReportError, write_report
 from tui.cli.commands.common import load_or_report
 
 NO_LP = (

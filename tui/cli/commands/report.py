@@ -6,7 +6,7 @@ import argparse
 import sys
 from pathlib import Path
 
-from model.reports.documents import (
+from model.reports.writer import (
     FORMATS,
     KIND_TITLE,
     KINDS,

@@ -1,0 +1,236 @@
+"""The PDF page every document shares (fpdf2): fonts, colours, text wrapping, page furniture.
+
+Text is set in the bundled DejaVu Sans (it covers Ω, Δ, µ, °, ×, ½ and ‑,
+which the PDF core fonts do not).  Text is never read as markup, and control
+characters are removed before it reaches the page (``model.reports.text.clean``).
+Every page carries, in its header and footer, the document title and site,
+the not-a-certificate statement, the page number of the whole, and the
+generation time and tripwise version.
+"""
+
+from __future__ import annotations
+
+from pathlib import Path
+
+from fpdf import FPDF
+
+from model.reports.heading import Heading
+
+FONT_DIR = Path(__file__).with_name("fonts")
+FAMILY = "tw-sans"
+
+RGB = tuple[int, int, int]
+INK: RGB = (34, 38, 46)
+MUTED: RGB = (108, 116, 128)
+RULE: RGB = (205, 211, 218)
+PANEL: RGB = (243, 245, 247)
+ACCENT: RGB = (0, 102, 110)
+SEVERITY_COLOUR: dict[str, RGB] = {
+    "urgent": (180, 28, 40),
+    "required": (200, 96, 0),
+    "advisory": (36, 92, 160),
+    "investigate": (104, 76, 148),
+}
+
+HEAD_H = 18.0
+FOOT_H = 22.0
+
+
+class ReportPdf(FPDF):
+    """An FPDF with our fonts and the page furniture drawn once the content is laid out."""
+
+    def __init__(self, heading: Heading, orientation: str) -> None:
+        super().__init__(orientation=orientation, unit="mm", format="A4")
+        self.heading = heading
+        self.add_font(FAMILY, "", str(FONT_DIR / "DejaVuSans.ttf"))
+        self.add_font(FAMILY, "B", str(FONT_DIR / "DejaVuSans-Bold.ttf"))
+        self.set_margins(14, HEAD_H + 4, 14)
+        self.set_auto_page_break(True, margin=FOOT_H + 4)
+        self.set_title(f"{heading.title}: {heading.site_name}")
+        self.set_subject(heading.statement)
+        self.set_creator(f"tripwise {heading.version}")
+        self.set_author(heading.inspector or "tripwise")
+        self.c_margin = 0.8
+        self._widths: dict[tuple[str, str], float] = {}
+        self.font(9)
+        self.ink()
+
+    # small helpers -------------------------------------------------------------
+    def font(self, size: float, bold: bool = False) -> None:
+        self.set_font(FAMILY, "B" if bold else "", size)
+
+    def ink(self, rgb: RGB = INK) -> None:
+        self.set_text_color(*rgb)
+
+    @property
+    def content_w(self) -> float:
+        return float(self.w - self.l_margin - self.r_margin)
+
+    @property
+    def bottom(self) -> float:
+        return float(self.page_break_trigger)
+
+    def room(self, h: float) -> None:
+        """Start a new page unless ``h`` mm fit below the current position."""
+        if self.get_y() + h > self.bottom:
+            self.add_page()
+
+    def wrap(self, text: str, w: float, size: float, bold: bool = False) -> list[str]:
+        """Greedy word wrap of ``text`` into lines no wider than ``w`` mm.
+
+        Word widths are measured once per word and style (fpdf2's own line
+        breaking re-measures each line character by character, which is slow
+        for long documents).
+        """
+        key = "B" if bold else ""
+        space = self._word_w(key, " ") * size
+        lines: list[str] = []
+        cur: list[str] = []
+        cur_w = 0.0
+        for word in text.split(" "):
+            if not word:
+                continue
+            ww = self._word_w(key, word) * size
+            if ww > w:  # a word longer than the line: break it by characters
+                if cur:
+                    lines.append(" ".join(cur))
+                    cur, cur_w = [], 0.0
+                piece = ""
+                for ch in word:
+                    if piece and self._word_w(key, piece + ch) * size > w:
+                        lines.append(piece)
+                        piece = ""
+                    piece += ch
+                cur, cur_w = [piece], self._word_w(key, piece) * size
+                continue
+            extra = ww if not cur else space + ww
+            if cur and cur_w + extra > w:
+                lines.append(" ".join(cur))
+                cur, cur_w = [word], ww
+            else:
+                cur.append(word)
+                cur_w += extra
+        if cur:
+            lines.append(" ".join(cur))
+        return lines or [""]
+
+    def _word_w(self, style: str, word: str) -> float:
+        """Width of ``word`` at 1 pt in the given style. [mm]"""
+        k = (style, word)
+        got = self._widths.get(k)
+        if got is None:
+            self.set_font(FAMILY, style, 10)
+            got = float(self.get_string_width(word)) / 10.0
+            self._widths[k] = got
+        return got
+
+    def para_h(self, w: float, lh: float, text: str, size: float, bold: bool = False) -> float:
+        return lh * len(self.wrap(text, w - 2 * self.c_margin, size, bold))
+
+    def para(
+        self,
+        x: float,
+        w: float,
+        lh: float,
+        text: str,
+        size: float,
+        bold: bool = False,
+        rgb: RGB = INK,
+        align: str = "L",
+    ) -> float:
+        """Write wrapped text at (x, current y); return its height."""
+        lines = self.wrap(text, w - 2 * self.c_margin, size, bold)
+        self.font(size, bold)
+        self.ink(rgb)
+        y = self.get_y()
+        for line in lines:
+            if y + lh > self.bottom and self.auto_page_break:
+                self.add_page()
+                self.font(size, bold)
+                self.ink(rgb)
+                y = self.t_margin
+            self.set_xy(x, y)
+            self.cell(w, lh, line, align=align)
+            y += lh
+        self.set_xy(self.l_margin, y)
+        return lh * len(lines)
+
+    # page furniture ------------------------------------------------------------
+    def stamp_pages(self) -> None:
+        """Draw header and footer on every page, now that the page count is known."""
+        total = self.pages_count
+        self.set_auto_page_break(False)
+        h = self.heading
+        for n in range(1, total + 1):
+            self.page = n
+            left, right = self.l_margin, self.w - self.r_margin
+            self.set_draw_color(*ACCENT)
+            self.set_line_width(0.6)
+            self.line(left, 12.5, left + 18, 12.5)
+            self.set_draw_color(*RULE)
+            self.set_line_width(0.2)
+            self.line(left + 18, 12.5, right, 12.5)
+            self.set_xy(left, 7)
+            self.font(8, True)
+            self.ink(ACCENT)
+            self.cell(0, 4.5, f"tripwise · {h.title}")
+            self.font(8)
+            self.ink(MUTED)
+            self.set_xy(left, 7)
+            visit = f" · visit {h.visit_date}" if h.visit_date else ""
+            self.cell(self.content_w, 4.5, f"{h.site_name}{visit}", align="R")
+            # footer
+            top = self.h - FOOT_H + 2
+            self.line(left, top, right, top)
+            self.set_y(top + 1.6)
+            self.para(left, self.content_w - 30, 3.4, h.statement, 7.2, True)
+            self.font(7)
+            self.ink(MUTED)
+            self.set_x(left)
+            self.cell(self.content_w - 30, 3.6, h.generated_line())
+            self.font(8.5, True)
+            self.ink(INK)
+            self.set_xy(right - 30, top + 1.6)
+            self.cell(30, 4, f"page {n} of {total}", align="R")
+        self.page = total
+
+    def title_block(self, h: Heading, lead: str) -> None:
+        self.set_y(self.t_margin + 1)
+        self.para(self.l_margin, self.content_w, 9, h.title, 20, True, INK)
+        self.para(self.l_margin, self.content_w, 6, h.site_name, 12.5, True, ACCENT)
+        self.ln(1.5)
+        facts = [(k, v) for k, v in h.facts() if k != "Site"]
+        col_w = self.content_w / 2
+        key_w = 22.0
+        y0 = self.get_y()
+        half = (len(facts) + 1) // 2
+        heights = [0.0, 0.0]
+        for ci, chunk in enumerate((facts[:half], facts[half:])):
+            self.set_y(y0)
+            x = self.l_margin + ci * col_w
+            for k, v in chunk:
+                y = self.get_y()
+                self.font(8)
+                self.ink(MUTED)
+                self.set_xy(x, y)
+                self.cell(key_w, 4.6, k)
+                hv = self.para(x + key_w, col_w - key_w - 3, 4.6, v, 8.8)
+                self.set_y(y + max(hv, 4.6))
+            heights[ci] = self.get_y() - y0
+        self.set_y(y0 + max(heights) + 2)
+        if lead:
+            self.para(self.l_margin, self.content_w, 4.4, lead, 8.4, False, MUTED)
+            self.ln(1)
+
+
+def caution_box(pdf: ReportPdf, caution: str) -> None:
+    """The caution of the analysis, boxed, after the last item or row."""
+    h = pdf.para_h(pdf.content_w - 8, 4.2, caution, 8.4) + 6
+    pdf.room(h + 4)
+    y = pdf.get_y() + 3
+    pdf.set_draw_color(*ACCENT)
+    pdf.set_line_width(0.4)
+    pdf.rect(pdf.l_margin, y, pdf.content_w, h)
+    pdf.set_y(y + 3)
+    pdf.para(pdf.l_margin + 4, pdf.content_w - 8, 4.2, caution, 8.4)
+    pdf.set_y(y + h + 2)

@@ -1,0 +1,179 @@
+"""Writing a document to a file: the one entry the command line and the app call.
+
+:func:`write_report` builds the document (:mod:`model.reports.remedial`,
+:mod:`model.reports.sheet`), renders it in memory with the renderer of the
+format (``model.reports.render``), and writes it through a temporary file and
+a rename, so a failed render never leaves a half-written file nor touches an
+existing one; it refuses to replace an existing file unless asked to.
+
+The renderers are imported only when a document is rendered, so importing
+this module does not load the PDF library.
+"""
+
+from __future__ import annotations
+
+import contextlib
+import datetime as dt
+import os
+from collections.abc import Callable
+from pathlib import Path
+from typing import Any, Literal
+
+from model.reports import remedial, sheet
+from model.reports.remedial import build_remedial
+from model.reports.sheet import build_sheet
+from model.rules.checks import analyse
+from model.rules.findings import Analysis
+from model.site.models import SiteFile
+
+Kind = Literal["remedial", "sheet"]
+Fmt = Literal["pdf", "md", "csv", "txt"]
+KINDS: tuple[Kind, ...] = ("remedial", "sheet")
+FORMATS: tuple[Fmt, ...] = ("pdf", "md", "csv", "txt")
+KIND_TITLE: dict[str, str] = {"remedial": remedial.TITLE, "sheet": sheet.TITLE}
+FORMAT_TITLE: dict[str, str] = {
+    "pdf": "PDF",
+    "md": "Markdown",
+    "csv": "CSV (spreadsheet)",
+    "txt": "Plain text",
+}
+
+
+class ReportError(Exception):
+    """A report could not be written.  ``str()`` is one line fit for a user."""
+
+
+class ReportExists(ReportError, FileExistsError):
+    """The target file exists and overwriting was not asked for."""
+
+
+def default_name(site_path: Path, site: SiteFile, kind: str, fmt: str) -> Path:
+    """``<site stem>-<kind>-<visit date>.<ext>`` beside the site file."""
+    visit = site.latest_visit()
+    date = visit.date if visit is not None else "no-visit"
+    return Path(site_path).with_name(f"{Path(site_path).stem}-{kind}-{date}.{fmt}")
+
+
+def render(
+    site: SiteFile,
+    kind: str,
+    fmt: str,
+    *,
+    generated: dt.datetime | None = None,
+    analysis: Analysis | None = None,
+) -> bytes:
+    """The bytes of one document in one format."""
+    if kind not in KINDS:
+        raise ReportError(f"unknown report kind {kind!r}; choose {' or '.join(KINDS)}")
+    if fmt not in FORMATS:
+        raise ReportError(f"unknown format {fmt!r}; choose one of {', '.join(FORMATS)}")
+    renderer = _renderer(kind, fmt)
+    if kind == "remedial":
+        doc: Any = build_remedial(
+            site, analysis if analysis is not None else analyse(site), generated=generated
+        )
+    else:
+        doc = build_sheet(site, generated=generated)
+    return renderer(doc)
+
+
+def _renderer(kind: str, fmt: str) -> Callable[[Any], bytes]:
+    if fmt == "pdf":
+        if kind == "remedial":
+            from model.reports.render import pdf_remedial
+
+            return pdf_remedial.remedial_pdf
+        from model.reports.render import pdf_sheet
+
+        return pdf_sheet.sheet_pdf
+    if fmt == "md":
+        from model.reports.render import md as render_md
+
+        return render_md.remedial_md if kind == "remedial" else render_md.sheet_md
+    if fmt == "csv":
+        from model.reports.render import csv as render_csv
+
+        return render_csv.remedial_csv if kind == "remedial" else render_csv.sheet_csv
+    from model.reports.render import txt as render_txt
+
+    return render_txt.remedial_txt if kind == "remedial" else render_txt.sheet_txt
+
+
+def write_report(
+    site: SiteFile,
+    kind: str,
+    fmt: str,
+    out_path: Path,
+    *,
+    force: bool = False,
+    generated: dt.datetime | None = None,
+) -> Path:
+    """Render one document and write it to ``out_path``; return the path written.
+
+    The document is rendered in memory first, then written by
+    :func:`_write_new_file`: a failure at any step leaves no partial file and
+    does not touch an existing one.  Without ``force`` an existing file is
+    never replaced (:class:`ReportExists`).
+    """
+    out = Path(out_path)
+    if out.is_dir():
+        raise ReportError(f"{out}: is a folder; give a file name")
+    if out.exists() and not force:
+        raise ReportExists(f"{out}: already exists; use --force to replace it (nothing written)")
+    if not out.parent.is_dir():
+        raise ReportError(f"{out.parent}: no such folder")
+    data = render(site, kind, fmt, generated=generated)
+    try:
+        _write_new_file(out, data, replace=force)
+    except FileExistsError:
+        raise ReportExists(
+            f"{out}: already exists; use --force to replace it (nothing written)"
+        ) from None
+    except OSError as exc:
+        raise ReportError(f"{out}: cannot write ({exc.strerror or exc})") from None
+    return out
+
+
+# --------------------------------------------------------------------------- the file itself
+
+
+def _write_new_file(out: Path, data: bytes, *, replace: bool) -> None:
+    """Write ``data`` to ``out`` atomically: a temporary file in the same folder, then a rename.
+
+    The temporary file is flushed to disk before the rename.  Without
+    ``replace`` an existing ``out`` is never replaced (``FileExistsError``).
+    Any failure removes the temporary file and is raised as it came
+    (``OSError`` for the file system).
+    """
+    tmp = out.with_name(f".{out.name}.tmp-{os.getpid()}")
+    try:
+        with open(tmp, "xb") as fh:
+            fh.write(data)
+            fh.flush()
+            os.fsync(fh.fileno())
+        if replace:
+            os.replace(tmp, out)
+        else:
+            _place_new(tmp, out)
+    except BaseException:
+        _unlink(tmp)
+        raise
+
+
+def _place_new(tmp: Path, out: Path) -> None:
+    """Move ``tmp`` to ``out`` only if ``out`` does not exist (atomically where links work)."""
+    try:
+        os.link(tmp, out)
+    except FileExistsError:
+        raise
+    except OSError:
+        if out.exists():
+            raise FileExistsError(str(out)) from None
+        os.replace(tmp, out)
+        return
+    _unlink(tmp)
+
+
+def _unlink(p: Path) -> None:
+    with contextlib.suppress(OSError):
+        p.unlink()
