@@ -12,9 +12,7 @@ this module does not load the PDF library.
 
 from __future__ import annotations
 
-import contextlib
 import datetime as dt
-import os
 from collections.abc import Callable
 from pathlib import Path
 from typing import Any, Literal
@@ -25,6 +23,7 @@ from model.reports.sheet import build_sheet
 from model.rules.checks import analyse
 from model.rules.findings import Analysis
 from model.site.models import SiteFile
+from model.storage.files import SaveError, write_atomic
 
 Kind = Literal["remedial", "sheet"]
 Fmt = Literal["pdf", "md", "csv", "txt"]
@@ -111,7 +110,8 @@ def write_report(
     """Render one document and write it to ``out_path``; return the path written.
 
     The document is rendered in memory first, then written by
-    :func:`_write_new_file`: a failure at any step leaves no partial file and
+    :func:`model.storage.files.write_atomic` (the one atomic writer; a link at
+    ``out_path`` is replaced, never followed): a failure at any step leaves no partial file and
     does not touch an existing one.  Without ``force`` an existing file is
     never replaced (:class:`ReportExists`).
     """
@@ -124,56 +124,15 @@ def write_report(
         raise ReportError(f"{out.parent}: no such folder")
     data = render(site, kind, fmt, generated=generated)
     try:
-        _write_new_file(out, data, replace=force)
+        write_atomic(out, data, replace=force, backup=False, follow_links=False)
     except FileExistsError:
         raise ReportExists(
             f"{out}: already exists; use --force to replace it (nothing written)"
         ) from None
+    except SaveError as exc:
+        err = exc.os_error
+        reason = (err.strerror or str(err)) if err is not None else exc.reason
+        raise ReportError(f"{out}: cannot write ({reason})") from None
     except OSError as exc:
         raise ReportError(f"{out}: cannot write ({exc.strerror or exc})") from None
     return out
-
-
-# --------------------------------------------------------------------------- the file itself
-
-
-def _write_new_file(out: Path, data: bytes, *, replace: bool) -> None:
-    """Write ``data`` to ``out`` atomically: a temporary file in the same folder, then a rename.
-
-    The temporary file is flushed to disk before the rename.  Without
-    ``replace`` an existing ``out`` is never replaced (``FileExistsError``).
-    Any failure removes the temporary file and is raised as it came
-    (``OSError`` for the file system).
-    """
-    tmp = out.with_name(f".{out.name}.tmp-{os.getpid()}")
-    try:
-        with open(tmp, "xb") as fh:
-            fh.write(data)
-            fh.flush()
-            os.fsync(fh.fileno())
-        if replace:
-            os.replace(tmp, out)
-        else:
-            _place_new(tmp, out)
-    except BaseException:
-        _unlink(tmp)
-        raise
-
-
-def _place_new(tmp: Path, out: Path) -> None:
-    """Move ``tmp`` to ``out`` only if ``out`` does not exist (atomically where links work)."""
-    try:
-        os.link(tmp, out)
-    except FileExistsError:
-        raise
-    except OSError:
-        if out.exists():
-            raise FileExistsError(str(out)) from None
-        os.replace(tmp, out)
-        return
-    _unlink(tmp)
-
-
-def _unlink(p: Path) -> None:
-    with contextlib.suppress(OSError):
-        p.unlink()

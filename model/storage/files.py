@@ -216,6 +216,7 @@ def write_atomic(
     replace: bool,
     backup: bool,
     mode: int | None = None,
+    follow_links: bool = True,
 ) -> None:
     """Put ``data`` at ``target``: afterwards the file holds either the old or the new bytes.
 
@@ -227,22 +228,29 @@ def write_atomic(
     - ``mode``: the new file's permission bits; None keeps those of the file
       replaced (a new file gets the usual ``0o666`` less the umask).
 
-    A symbolic link at ``target`` is followed: the file it names is replaced.
+    - ``follow_links``: a symbolic link at ``target`` is followed and the file
+      it names is replaced (how a site file is saved); without it the link
+      itself is replaced (how a document is written, so a link never leads a
+      document over another file).
     When the file already holds exactly ``data`` nothing is written (and the
     backup keeps the version before).  Any failure raises :class:`SaveError`
     (``unchanged`` is False only when the folder could not be synced after
     the new version took the name) and leaves no temporary file behind.
     """
     shown = Path(target)
-    p = Path(os.path.realpath(target))
+    p = Path(os.path.realpath(target) if follow_links else os.path.abspath(target))
     folder = p.parent
     step = "reading the current file"
     tmp = temp_name(p)
     try:
         try:
-            st = p.stat()
+            st = p.stat() if follow_links else p.lstat()
         except FileNotFoundError:
             st = None
+        if st is not None and not follow_links and stat.S_ISLNK(st.st_mode):
+            if not replace:
+                raise TargetExists(errno.EEXIST, "already exists", str(shown))
+            st = None  # the link itself is replaced by a new file
         if st is not None:
             if not replace:
                 raise TargetExists(errno.EEXIST, "already exists", str(shown))

@@ -100,3 +100,27 @@ def test_every_document_renders_for_bare_sites(tmp_path: Path) -> None:
                     assert squash(STATEMENT) in squash(data.decode("utf-8-sig"))
     site = parse_site(json.dumps(no_visit))
     assert default_name(tmp_path / "a.json", site, "sheet", "pdf").name == "a-sheet-no-visit.pdf"
+
+
+def test_a_link_at_the_output_is_replaced_never_followed(tmp_path: Path) -> None:
+    """A document never lands in the file a symbolic link points at (a site, say)."""
+    precious = tmp_path / "site.json"
+    precious.write_bytes(b'{"format": "tripwise.site"}')
+    out = tmp_path / "list.md"
+    out.symlink_to(precious)
+    with pytest.raises(ReportExists):
+        write_report(awkward_site(), "remedial", "md", out)
+    assert out.is_symlink()
+    write_report(awkward_site(), "remedial", "md", out, force=True)
+    assert not out.is_symlink()
+    assert out.read_bytes().startswith(b"> **This document is a record")
+    assert precious.read_bytes() == b'{"format": "tripwise.site"}'
+    assert sorted(p.name for p in tmp_path.iterdir()) == ["list.md", "site.json"]
+
+
+def test_a_dangling_link_is_refused_without_force(tmp_path: Path) -> None:
+    out = tmp_path / "list.md"
+    out.symlink_to(tmp_path / "nowhere.md")
+    with pytest.raises(ReportExists):
+        write_report(awkward_site(), "remedial", "md", out)
+    assert not (tmp_path / "nowhere.md").exists()

@@ -5,7 +5,11 @@ from __future__ import annotations
 from typing import Any
 
 import pytest
-from sitekit import circuit, node, rcd, rules_of, run, visit
+from sitekit import SAMPLES, circuit, node, rcd, rules_of, run, visit
+
+from model.rules.checks import analyse
+from model.site.tree import SiteIndex
+from model.storage.sites import load_site
 
 
 # ---------------------------------------------------------------- cascades
@@ -348,3 +352,15 @@ def test_iec_rule_set_quotes_iec_60364_for_installation_rules() -> None:
     (iec,) = rules_of(run(nodes, rules="iec-60364"), "leakage.over-30pct")
     assert uk.source == "BS 7671 531.3.2(iii)"
     assert iec.source.startswith("IEC 60364-5-53 531.3.2") and "from memory" in iec.source
+
+
+def test_analyse_uses_the_index_it_is_handed_and_refuses_one_of_another_site() -> None:
+    """One tree index per analysis: the caller's, when it was built from the same site."""
+    site = load_site(SAMPLES / "oak-lane-house.json")
+    idx = SiteIndex.build(site)
+    result = analyse(site, idx)
+    assert result.index is idx
+    assert [f.rule for f in result.findings] == [f.rule for f in analyse(site).findings]
+    other = site.model_copy()
+    with pytest.raises(ValueError, match="another version of the site"):
+        analyse(other, idx)

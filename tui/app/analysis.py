@@ -13,6 +13,7 @@ from textual.timer import Timer
 from model.rules.checks import analyse
 from model.rules.findings import Analysis
 from model.site.models import SiteFile
+from model.site.tree import SiteIndex
 from model.storage.session import EditSession
 
 #: Seconds after the last edit before the checks are re-run.
@@ -26,6 +27,7 @@ class AnalysisMixin:
 
     session: EditSession | None
     analysis: Analysis | None
+    index: SiteIndex
     _analysis_timer: Timer | None = None
     #: Bumped by every edit; a result for an older generation is dropped.
     _analysis_gen = 0
@@ -44,7 +46,10 @@ class AnalysisMixin:
         if self.session is None or not self._analysis_wanted:
             return
         self._analysis_wanted = False
-        self._run_analysis(self.session.site, self._analysis_gen)
+        site = self.session.site
+        # the tree's index is handed on when it was built from this very site
+        index = self.index if self.index.site is site else None
+        self._run_analysis(site, index, self._analysis_gen)
 
     def _first_analysis(self) -> None:
         self._analysis_wanted = True
@@ -54,9 +59,9 @@ class AnalysisMixin:
         self._analysis_timer = self.set_timer(FIRST_ANALYSIS_DELAY_S, self._start_analysis)
 
     @work(thread=True, exclusive=True, group="analysis", exit_on_error=False)
-    def _run_analysis(self, site: SiteFile, gen: int) -> None:
+    def _run_analysis(self, site: SiteFile, index: SiteIndex | None, gen: int) -> None:
         try:
-            result: Analysis | str = analyse(site)
+            result: Analysis | str = analyse(site, index)
         except Exception as exc:  # noqa: BLE001 - reported on screen
             result = f"the checks failed: {exc}"
         self.call_from_thread(self._analysis_done, result, gen)

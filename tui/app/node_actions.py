@@ -197,7 +197,7 @@ class NodeActionsMixin:
             return
         from tui.screens.impact import ImpactScreen
 
-        self.push_screen(ImpactScreen(self.site, nid))
+        self.push_screen(ImpactScreen(self.site, nid, self.index))
 
     def action_pair(self) -> None:
         nid = self._selected()

@@ -64,11 +64,12 @@ class ImpactScreen(ModalScreen[None]):
 
     CSS_PATH = "impact.tcss"
 
-    def __init__(self, site: SiteFile, device_id: str) -> None:
+    def __init__(self, site: SiteFile, device_id: str, index: SiteIndex | None = None) -> None:
+        """``index``: the site's tree index where the caller has it (built here otherwise)."""
         super().__init__()
         self.site = site
         self.device_id = device_id
-        self.index = SiteIndex.build(site)
+        self.index = SiteIndex.build(site) if index is None else index
         self.impact = trip_impact(self.index, device_id)
 
     def compose(self) -> ComposeResult:

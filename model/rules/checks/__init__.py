@@ -28,6 +28,7 @@ from model.rules.checks.trend import check_trend
 from model.rules.findings import Analysis, Finding
 from model.rules.limits import IEC_INSTALLATION_SOURCES
 from model.site.models import SiteFile
+from model.site.tree import SiteIndex
 
 Check = Callable[[Context], Iterable[Finding]]
 
@@ -45,8 +46,12 @@ CHECKS: list[Check] = [
 ]
 
 
-def analyse(site: SiteFile) -> Analysis:
+def analyse(site: SiteFile, index: SiteIndex | None = None) -> Analysis:
     """Run every check on a site; findings worst first, then by board.
+
+    ``index``: the site's tree index where the caller has already built it
+    (it must be built from this very ``site``); otherwise it is built here.
+    Either way it is the one index of the analysis (``Analysis.index``).
 
     The cyclic garbage collector is paused for the run: the analysis builds
     many small acyclic objects, and on large sites repeated full collections
@@ -55,7 +60,7 @@ def analyse(site: SiteFile) -> Analysis:
     paused = gc.isenabled()
     gc.disable()
     try:
-        ctx = Context.build(site)
+        ctx = Context.build(site, index)
         ctx.pairs = analyse_pairs(ctx)
         findings: list[Finding] = []
         for check in CHECKS:

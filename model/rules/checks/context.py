@@ -19,10 +19,12 @@ class Context:
     pairs: list[PairAnalysis] = field(default_factory=list)
 
     @classmethod
-    def build(cls, site: SiteFile) -> Context:
+    def build(cls, site: SiteFile, index: SiteIndex | None = None) -> Context:
+        if index is not None and index.site is not site:
+            raise ValueError("the tree index was built from another version of the site")
         return cls(
             site=site,
-            index=SiteIndex.build(site),
+            index=SiteIndex.build(site) if index is None else index,
             rules=rule_set(site.site.rules),
             latest=site.latest_visit(),
         )
