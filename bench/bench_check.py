@@ -19,6 +19,7 @@ sys.path.insert(0, str(Path(__file__).resolve().parent))
 from gen_site import generate_site  # noqa: E402
 
 from model.rules.checks import analyse  # noqa: E402
+from model.site.terms import RCD_KINDS  # noqa: E402
 
 
 def main() -> None:
@@ -44,7 +45,7 @@ def main() -> None:
             result = analyse(site)
             times.append(time.perf_counter() - t0)
         medians[n] = statistics.median(times)
-        rcds = sum(1 for x in site.nodes if x.kind in ("rccb", "rcbo", "srcd", "prcd", "cbr"))
+        rcds = sum(1 for x in site.nodes if x.kind in RCD_KINDS)
         print(
             f"{len(site.nodes):>6} nodes  {rcds:>6} RCDs  {len(result.pairs):>6} pairs  "
             f"{len(result.findings):>6} findings  median {medians[n] * 1000:8.1f} ms"

@@ -19,8 +19,9 @@ from model.rules.checks import analyse  # noqa: E402
 from model.rules.checks.context import Context  # noqa: E402
 from model.rules.checks.trend import check_trend  # noqa: E402
 from model.site.models import SiteFile
+from model.site.sheet_columns import VALUE_COLUMNS  # noqa: E402
 from model.visits.compare import compare_visits  # noqa: E402
-from model.visits.import_csv import VALUE_COLUMNS, plan_import  # noqa: E402
+from model.visits.import_csv import plan_import  # noqa: E402
 from model.visits.merge import merge_sites  # noqa: E402
 
 

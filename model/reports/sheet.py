@@ -12,7 +12,15 @@ from dataclasses import dataclass
 
 from model.reports.heading import Heading, build_heading
 from model.reports.text import clean, clean_lines
-from model.rules.bands import GROUP_TITLE, group_of, judge_ramp, judge_reading, ramp_band, time_band
+from model.rules.bands import (
+    GROUP_TITLE,
+    group_of,
+    judge_ramp,
+    judge_reading,
+    ramp_band,
+    ramp_band_text,
+    time_band,
+)
 from model.rules.findings import CAUTION, device_text
 from model.rules.limits import rule_set
 from model.site.models import SiteFile
@@ -137,7 +145,7 @@ def build_sheet(site: SiteFile, *, generated: dt.datetime | None = None) -> Shee
             _mark(jr.flag, ramp_v, True),
             jr.flag,
             False,
-            short=f"{rb.low_ma:g} < I ≤ {rb.high_ma:g} mA",
+            short=ramp_band_text(rb, "inequality"),
         )
         button = reading.button if reading is not None else None
         bmark = "" if button is None else (MARK_FAIL if button == "failed" else MARK_PASS)

@@ -29,6 +29,7 @@ from model.site.history import find_visit, known_visits_text
 from model.site.messages import error_text
 from model.site.models import Reading, SiteFile, Visit, blank
 from model.site.numbers import parse_number
+from model.site.sheet_columns import DEVICE_COLUMN, VALUE_COLUMNS
 from model.site.terms import (
     DID_NOT_TRIP,
     RCD_KINDS,
@@ -41,16 +42,6 @@ from model.site.terms import (
 )
 from model.storage.codec import SiteLoadError, dumps_site, parse_site
 
-DEVICE_COLUMN = "device"
-#: Value columns of the test-sheet layout -> reading keys.
-VALUE_COLUMNS: dict[str, str] = {
-    **{f"{t} [ms]": t for t in TEST_NAMES},
-    "ramp [mA]": "ramp_ma",
-    "button": "button",
-    "waveform": "waveform",
-    "note": "note",
-    "not_tested": "not_tested",
-}
 KEY_COLUMN: dict[str, str] = {v: k for k, v in VALUE_COLUMNS.items()}
 IMPORT_KEYS: tuple[str, ...] = tuple(VALUE_COLUMNS.values())
 MAX_CSV_BYTES = 10 * 1024 * 1024

@@ -26,6 +26,7 @@ from model.reports.remedial import RemedialDoc
 from model.reports.sheet import SheetCell, SheetDoc
 from model.reports.text import num_text
 from model.rules.bands import GROUPS
+from model.site.sheet_columns import DEVICE_COLUMN, RAMP_COLUMN, time_column
 from model.site.terms import DID_NOT_TRIP, TEST_NAMES
 
 ENCODING = "utf-8-sig"
@@ -50,13 +51,23 @@ def value_cell(value: float | str | None) -> str:
 
 def sheet_columns() -> list[str]:
     """The header row of the test-sheet CSV, in order."""
-    cols = ["device", "board", "label", "kind", "idn [mA]", "type", "delay", "visit", "waveform"]
+    cols = [
+        DEVICE_COLUMN,
+        "board",
+        "label",
+        "kind",
+        "idn [mA]",
+        "type",
+        "delay",
+        "visit",
+        "waveform",
+    ]
     for g in GROUPS:
         for t in TEST_NAMES:
             if t.startswith(g + "_"):
-                cols += [f"{t} [ms]", f"{t} mark"]
+                cols += [time_column(t), f"{t} mark"]
         cols += [f"{g} band", f"{g} required"]
-    cols += ["ramp [mA]", "ramp mark", "ramp band", "button", "button mark", "not_tested", "note"]
+    cols += [RAMP_COLUMN, "ramp mark", "ramp band", "button", "button mark", "not_tested", "note"]
     return cols
 
 
