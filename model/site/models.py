@@ -22,6 +22,8 @@ from pydantic import (
 
 from model.site.nodes import ALLOWED_CHILDREN, Node
 from model.site.terms import (
+    FORMAT_NAME,
+    FORMAT_VERSION,
     RCD_KINDS,
     TEST_VALUE_KEYS,
     ButtonResult,
@@ -258,3 +260,16 @@ def _cycles(sf: SiteFile, by_id: dict[str, Any]) -> list[str]:
         for p in path:
             state[p] = 2
     return out
+
+
+def site_to_dict(site: SiteFile) -> dict[str, Any]:
+    """The JSON form of a site, defaults left out, keys in file order.
+
+    What a site file holds before it becomes text: the site file
+    (:mod:`model.storage.codec`) and the edits of the recovery journal
+    (:mod:`model.site.ops`) both write a site in this form.
+    """
+    d = site.model_dump(mode="json", exclude_defaults=True)
+    d["format"] = FORMAT_NAME
+    d["version"] = FORMAT_VERSION
+    return {k: d[k] for k in ("format", "version", "site", "nodes", "visits") if k in d}

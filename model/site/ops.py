@@ -23,9 +23,8 @@ from typing import Annotated, Any, Literal
 
 from pydantic import BaseModel, ConfigDict, Field, TypeAdapter, ValidationError
 
-from model.site.jsonform import site_to_dict
 from model.site.messages import describe_validation_error, one_line
-from model.site.models import Reading, SiteFile, SiteInfo, Visit
+from model.site.models import Reading, SiteFile, SiteInfo, Visit, site_to_dict
 from model.site.nodes import Node
 from model.site.terms import RCD_KINDS, NodeId
 

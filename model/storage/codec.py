@@ -25,9 +25,8 @@ from typing import Any
 
 from pydantic import ValidationError
 
-from model.site.jsonform import site_to_dict
 from model.site.messages import describe_validation_error, one_line
-from model.site.models import SiteFile
+from model.site.models import SiteFile, site_to_dict
 from model.site.terms import FORMAT_NAME, FORMAT_VERSION
 
 

@@ -15,7 +15,7 @@ from dataclasses import dataclass
 from typing import Any
 
 from bench.gen_site import generate_site
-from model.site.jsonform import site_to_dict
+from model.site.models import site_to_dict
 
 TOKEN = "__RAW_TOKEN__"
 

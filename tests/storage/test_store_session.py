@@ -12,8 +12,7 @@ from typing import Any
 import pytest
 
 from bench.gen_site import generate_site
-from model.site.jsonform import site_to_dict
-from model.site.models import Reading, SiteFile, SiteInfo, Visit
+from model.site.models import Reading, SiteFile, SiteInfo, Visit, site_to_dict
 from model.site.ops import InvalidEdit
 from model.site.terms import DID_NOT_TRIP
 from model.storage import codec

@@ -1,6 +1,6 @@
 """The ``tripwise`` command line.
 
-Each sub-command lives in its own module under ``tui/commands`` and exposes
+Each sub-command lives in its own module under ``tui/cli/commands`` and exposes
 ``register(subparsers)``; the module list below is the whole command set.
 Exit codes are public: 0 nothing found / done, 1 findings (or conflicts),
 2 the input could not be used (message on stderr, never a traceback).
@@ -42,10 +42,6 @@ def build_parser() -> argparse.ArgumentParser:
     for name in COMMAND_MODULES:
         importlib.import_module(name).register(sub)
     return parser
-
-
-class _Parser(argparse.ArgumentParser):
-    pass
 
 
 def main(argv: Sequence[str] | None = None) -> int:
