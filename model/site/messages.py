@@ -106,3 +106,25 @@ def describe_validation_error(exc: ValidationError, raw: Any) -> str:
     if len(out) > 5:
         out = [*out[:5], f"and {len(out) - 5} more"]
     return "; ".join(out)
+
+
+def plain_message(err: Mapping[str, Any], label: str, unit: str, given: Any) -> str:
+    """A pydantic error on one field, in plain words."""
+    kind = err.get("type", "")
+    ctx = err.get("ctx") or {}
+    u = f" {unit}" if unit else ""
+    you = f" (you entered {given:g})" if isinstance(given, float) else ""
+    if kind == "greater_than_equal":
+        return f"{label} must be at least {ctx['ge']:g}{u}{you}"
+    if kind == "greater_than":
+        return f"{label} must be more than {ctx['gt']:g}{u}{you}"
+    if kind == "less_than_equal":
+        return f"{label} must be at most {ctx['le']:g}{u}{you}"
+    if kind == "less_than":
+        return f"{label} must be less than {ctx['lt']:g}{u}{you}"
+    if kind == "string_too_short":
+        return f"{label} must not be empty"
+    if kind == "string_too_long":
+        return f"{label} is too long (at most {ctx['max_length']} characters)"
+    msg = error_text(err, "is not valid")
+    return f"{label}: {msg}"

@@ -15,7 +15,7 @@ from typing import Any
 from pydantic import BaseModel, ValidationError
 
 from model.site.fields import field_specs
-from model.site.messages import error_text
+from model.site.messages import plain_message
 from model.site.models import SiteInfo, TrendSettings
 from model.site.numbers import parse_number
 
@@ -81,28 +81,6 @@ def field_number(field: NumberField, text: str) -> float | None:
     if value is None and field.required:
         raise ValueError(f"{field.label} is needed ({field.unit})")
     return value
-
-
-def plain_message(err: Mapping[str, Any], label: str, unit: str, given: Any) -> str:
-    """A pydantic error on one field, in plain words."""
-    kind = err.get("type", "")
-    ctx = err.get("ctx") or {}
-    u = f" {unit}" if unit else ""
-    you = f" (you entered {given:g})" if isinstance(given, float) else ""
-    if kind == "greater_than_equal":
-        return f"{label} must be at least {ctx['ge']:g}{u}{you}"
-    if kind == "greater_than":
-        return f"{label} must be more than {ctx['gt']:g}{u}{you}"
-    if kind == "less_than_equal":
-        return f"{label} must be at most {ctx['le']:g}{u}{you}"
-    if kind == "less_than":
-        return f"{label} must be less than {ctx['lt']:g}{u}{you}"
-    if kind == "string_too_short":
-        return f"{label} must not be empty"
-    if kind == "string_too_long":
-        return f"{label} is too long (at most {ctx['max_length']} characters)"
-    msg = error_text(err, "is not valid")
-    return f"{label}: {msg}"
 
 
 def site_info_from_form(form: Mapping[str, Any]) -> tuple[SiteInfo | None, dict[str, str]]:
