@@ -11,6 +11,8 @@ from __future__ import annotations
 from dataclasses import dataclass
 from typing import Any, Literal
 
+from pydantic import ValidationError
+
 from model.rules.bands import (
     group_of,
     judge_button,
@@ -20,6 +22,7 @@ from model.rules.bands import (
     ramp_band_text,
     time_band,
 )
+from model.site.messages import plain_message
 from model.site.models import Reading
 from model.site.numbers import parse_number
 from model.site.terms import DID_NOT_TRIP, TEST_NAMES
@@ -51,6 +54,31 @@ def typed_value(name: str, text: str) -> float | str | None:
     return parse_number(text)
 
 
+#: What a numeric field holds and its unit, for messages in plain words.
+_NUMBER_FIELDS: dict[str, tuple[str, str]] = {
+    **{t: ("a trip time", "ms") for t in TEST_NAMES},
+    "ramp_ma": ("the ramp trip current", "mA"),
+}
+
+
+def value_problem(name: str, value: float | str | None) -> str | None:
+    """Why the site file would refuse this one typed number, in plain words; None if it is fine.
+
+    The limits are the model's own (:class:`~model.site.models.Reading`), so a
+    value is refused at the field the moment it is typed, for the same reason
+    it would be refused when recorded, and is never judged against a band first.
+    """
+    if name not in _NUMBER_FIELDS or not isinstance(value, float):
+        return None
+    try:
+        Reading.model_validate({name: value})
+    except ValidationError as exc:
+        errors = [e for e in exc.errors() if e.get("type") != "literal_error"] or exc.errors()
+        what, unit = _NUMBER_FIELDS[name]
+        return plain_message(errors[0], what, unit, value)
+    return None
+
+
 def entry_texts(reading: Reading | None) -> dict[str, str]:
     """The form's text for a recorded reading (empty fields where there is none)."""
     texts: dict[str, str] = {}
@@ -80,6 +108,9 @@ def reading_from_texts(texts: dict[str, str]) -> Reading | None:
     data: dict[str, Any] = {}
     for name in ENTRY_ORDER:
         value = typed_value(name, texts.get(name, ""))
+        problem = value_problem(name, value)
+        if problem:
+            raise ValueError(problem)
         if value not in (None, ""):
             data[name] = value
     reading = Reading.model_validate(data)
@@ -117,6 +148,10 @@ def judge_entry(node: Any, name: str, text: str, waveform: str, rules: str) -> E
         value = typed_value(name, text)
     except ValueError as exc:
         value, problem = None, str(exc)
+    else:
+        problem = value_problem(name, value) or ""
+        if problem:
+            value = None  # refused, so never judged against the band
     if name in TEST_NAMES:
         band = time_band(node, group_of(name), waveform, rules)
         need = "required" if band.required else "optional"

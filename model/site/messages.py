@@ -113,7 +113,8 @@ def plain_message(err: Mapping[str, Any], label: str, unit: str, given: Any) -> 
     kind = err.get("type", "")
     ctx = err.get("ctx") or {}
     u = f" {unit}" if unit else ""
-    you = f" (you entered {given:g})" if isinstance(given, float) else ""
+    # all the digits typed, never rounded or put as a power of ten (99999999, not 1e+08)
+    you = f" (you entered {given:.15g})" if isinstance(given, float) else ""
     if kind == "greater_than_equal":
         return f"{label} must be at least {ctx['ge']:g}{u}{you}"
     if kind == "greater_than":

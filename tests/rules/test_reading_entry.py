@@ -9,7 +9,6 @@ from __future__ import annotations
 from pathlib import Path
 
 import pytest
-from pydantic import ValidationError
 
 from model.rules.entry import (
     DEFAULT_TEST_WAVEFORM,
@@ -69,8 +68,8 @@ def test_form_text_and_reading_round_trip() -> None:
 
 def test_a_value_the_format_refuses_is_not_turned_into_a_reading() -> None:
     texts = {**entry_texts(None), "x1_0": "20000"}
-    # the site file allows trip times up to 10 000 ms
-    with pytest.raises(ValidationError, match="10000"):
+    # the site file allows trip times up to 10 000 ms; the reason is in plain words
+    with pytest.raises(ValueError, match="at most 10000 ms"):
         reading_from_texts(texts)
     with pytest.raises(ValueError, match="not a number"):
         reading_from_texts({**texts, "x1_0": "2 5"})
@@ -142,3 +141,33 @@ def test_unreadable_text_is_said_in_plain_words(site: SiteFile) -> None:
     assert v.mark == "unreadable" and v.flag is None
     assert v.verdict.startswith("'12..5' is not a number")
     assert v.band == "≤ 300 ms"  # the band is still shown beside it
+
+
+@pytest.mark.parametrize(
+    ("name", "text", "says"),
+    [
+        ("x1_0", "-5", "a trip time must be more than 0 ms (you entered -5)"),
+        ("x1_0", "0", "a trip time must be more than 0 ms (you entered 0)"),
+        # the site file keeps trip times up to 10 s; the digits are shown as typed
+        ("x5_0", "99999999", "a trip time must be at most 10000 ms (you entered 99999999)"),
+        ("ramp_ma", "-1", "the ramp trip current must be more than 0 mA (you entered -1)"),
+    ],
+)
+def test_a_value_the_file_would_refuse_is_refused_as_typed_never_judged(
+    site: SiteFile, name: str, text: str, says: str
+) -> None:
+    """A refused value is never shown as 'in band' (-5 ms is not within 300 ms)."""
+    v = judge_entry(site.node("rc1"), name, text, "AC", UK)
+    assert (v.mark, v.flag, v.verdict) == ("unreadable", None, says)
+    texts = entry_texts(None) | {name: text}
+    with pytest.raises(ValueError, match="must be") as err:
+        reading_from_texts(texts)
+    assert str(err.value) == says
+
+
+def test_the_largest_and_smallest_accepted_times_are_judged(site: SiteFile) -> None:
+    # IEC 61008-1 Table 1: a general device must break within 300 ms at 1 × IΔn
+    slow = judge_entry(site.node("rc1"), "x1_0", "10000", "AC", UK)
+    assert (slow.mark, slow.flag) == ("flagged", "reading.too-slow")
+    quick = judge_entry(site.node("rc1"), "x1_0", "0.5", "AC", UK)
+    assert quick.mark == "in band"

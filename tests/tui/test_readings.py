@@ -169,3 +169,34 @@ async def test_a_reading_the_session_refuses_is_shown_at_its_field(
         assert "No space left" in app.screen.verdicts["not_tested"]
         assert app.screen.pad.values["not_tested"] == "no access"
         assert app.site.latest_visit().readings.get("rb2") is None  # type: ignore[union-attr]
+
+
+@pytest.mark.parametrize(
+    ("keys", "shown", "says"),
+    [
+        ("1e3", "1e3", "'1e3' is not a number"),  # not quietly read as 13
+        ("-5", "-5", "a trip time must be more than 0 ms (you entered -5)"),  # not 5
+        ("99999999", "99999999", "at most 10000 ms (you entered 99999999)"),
+    ],
+)
+async def test_a_wrong_value_is_shown_as_typed_and_refused_with_the_reason(
+    oak_lane: Path, keys: str, shown: str, says: str
+) -> None:
+    before = oak_lane.read_bytes()
+    app = make_app(oak_lane)
+    async with app.run_test(size=(80, 24)) as pilot:
+        await app.settle()
+        screen = await _open_readings(app, pilot, "rb2")  # untested in the sample
+        screen.pad.go("x1_0")
+        await pilot.press(*keys)
+        assert screen.pad.values["x1_0"] == shown
+        assert says in screen.verdicts["x1_0"]
+        assert screen.flags["x1_0"] is None  # refused, never judged against the band
+        await pilot.press("enter")
+        # the cursor stays on the field, the reason is there, and nothing is recorded
+        assert screen.pad.current == "x1_0"
+        assert "not recorded" in screen.pad.render().plain
+        assert says in screen.verdicts["x1_0"]
+        assert app.site.latest_visit().readings.get("rb2") is None  # type: ignore[union-attr]
+        await app.settle()
+    assert oak_lane.read_bytes() == before

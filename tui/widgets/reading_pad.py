@@ -2,8 +2,10 @@
 
 Every key goes to this one widget, in order; it moves between fields itself, in
 the same step as the key, and asks its form (the reading screen) to judge and to
-record.  Keys it does not use are swallowed while typing (so a stray letter never
-triggers an app command), except control keys, which the screen's bindings take.
+record.  In a number field every printable character is kept as typed and judged
+(a stray letter is shown and refused, never dropped); keys a field does not use
+are swallowed (so a stray letter never triggers an app command), except control
+keys, which the screen's bindings take.
 """
 
 from __future__ import annotations
@@ -19,8 +21,6 @@ from model.site.terms import DID_NOT_TRIP
 
 #: The key that records "did not trip" in a time field.
 DID_NOT_TRIP_KEY = "n"
-
-NUMBER_CHARS = frozenset("0123456789.,")
 
 
 class ReadingForm(Protocol):
@@ -141,7 +141,10 @@ class ReadingPad(Widget, can_focus=True):
             self.values[name] = DID_NOT_TRIP
             self._changed(name)
             self._form.field_entered(name)
-        elif kind in ("time", "number") and ch is not None and ch in NUMBER_CHARS:
+        elif kind in ("time", "number") and event.is_printable and ch is not None:
+            # Every character typed is kept, a letter or a minus sign too: the value
+            # is then judged as typed ("1e3" is refused with the reason), never
+            # quietly read as something else ("13").
             keep = value if not self.fresh and value != DID_NOT_TRIP else ""
             self.values[name] = keep + ch
             self.fresh = False
