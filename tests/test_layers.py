@@ -16,6 +16,8 @@ function is seen as well as one at the top of a module.
 from __future__ import annotations
 
 import ast
+import subprocess
+import sys
 from pathlib import Path
 
 import pytest
@@ -87,6 +89,20 @@ def test_model_never_imports_the_interface() -> None:
             if top in ("tui", "textual", "textual_plotext", "plotext"):
                 bad.append(f"{name} imports {mod}")
     assert bad == []
+
+
+def test_every_core_module_loads_without_the_interface() -> None:
+    """At run time too: importing every module of model/ loads no textual and no tui."""
+    code = (
+        "import sys, pkgutil, importlib, model\n"
+        "for m in pkgutil.walk_packages(model.__path__, 'model.'):\n"
+        "    importlib.import_module(m.name)\n"
+        "print(','.join(sorted(k for k in sys.modules if k.split('.')[0] in ('textual', 'tui'))))\n"
+    )
+    out = subprocess.run(
+        [sys.executable, "-c", code], cwd=ROOT, capture_output=True, text=True, check=True
+    )
+    assert out.stdout.strip() == ""
 
 
 def test_lower_layers_never_import_higher_ones() -> None:

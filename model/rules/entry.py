@@ -24,7 +24,7 @@ from model.rules.bands import (
 )
 from model.site.messages import plain_message
 from model.site.models import Reading
-from model.site.numbers import parse_number
+from model.site.numbers import number_text, parse_number
 from model.site.terms import DID_NOT_TRIP, TEST_NAMES
 
 #: The fields in entry order (after the last comes the next device).
@@ -89,7 +89,7 @@ def entry_texts(reading: Reading | None) -> dict[str, str]:
         if value is None:
             texts[name] = ""
         elif isinstance(value, float):
-            texts[name] = f"{value:g}"
+            texts[name] = number_text(value)
         else:
             texts[name] = str(value)
     return texts

@@ -10,6 +10,7 @@ separators are refused.
 from __future__ import annotations
 
 import re
+from decimal import Decimal
 
 _NUMBER = re.compile(r"[+-]?(?:[0-9]+(?:[.,][0-9]*)?|[.,][0-9]+)")
 _AMBIGUOUS = re.compile(r"[+-]?[0-9]{1,3},[0-9]{3}")
@@ -34,3 +35,14 @@ def parse_number(text: str) -> float | None:
     if not _NUMBER.fullmatch(t):
         raise ValueError(f"{text.strip()!r} is not a number ({NUMBER_RULE})")
     return float(t.replace(",", "."))
+
+
+def number_text(value: float) -> str:
+    """A stored number as text to edit: every digit it has, never rounded, never an exponent.
+
+    :func:`parse_number` reads the text back as exactly ``value``, so opening a
+    form and saving it unchanged never changes a value (``1.2345678`` is not
+    shown as ``1.23457``, nor ``0.00001`` as ``1e-05``, which would be refused).
+    """
+    text = format(Decimal(repr(float(value))), "f")
+    return text.rstrip("0").rstrip(".") if "." in text else text

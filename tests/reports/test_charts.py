@@ -9,8 +9,6 @@ from __future__ import annotations
 
 import json
 import shutil
-import subprocess
-import sys
 from pathlib import Path
 
 import pytest
@@ -123,11 +121,3 @@ def test_bad_ids(site_path: Path) -> None:
         pair_chart_data(site, analysis, "rc3", "c-ws")
     with pytest.raises(KeyError):
         pair_chart_data(site, analysis, "rc3", "nope")
-
-
-def test_charts_module_does_not_import_textual() -> None:
-    code = "import sys, model.reports.charts; print('textual' in sys.modules)"
-    out = subprocess.run(
-        [sys.executable, "-c", code], cwd=ROOT, capture_output=True, text=True, check=True
-    )
-    assert out.stdout.strip() == "False"

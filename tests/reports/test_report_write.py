@@ -2,8 +2,6 @@
 
 from __future__ import annotations
 
-import subprocess
-import sys
 from pathlib import Path
 
 import pytest
@@ -60,16 +58,6 @@ def test_default_name_beside_the_site(tmp_path: Path) -> None:
     assert visit is not None
     name = default_name(path, site, "sheet", "csv")
     assert name == path.with_name(f"{path.stem}-sheet-{visit.date}.csv")
-
-
-def test_model_report_never_imports_textual() -> None:
-    code = (
-        "import sys, model.reports.writer, model.reports.render.pdf_remedial, "
-        "model.reports.render.pdf_sheet, model.reports.render.md, model.reports.render.csv, "
-        "model.reports.render.txt; sys.exit(1 if 'textual' in sys.modules else 0)"
-    )
-    done = subprocess.run([sys.executable, "-c", code], cwd=Path(__file__).parents[2], check=False)
-    assert done.returncode == 0
 
 
 def test_every_document_renders_for_bare_sites(tmp_path: Path) -> None:

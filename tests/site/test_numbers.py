@@ -8,8 +8,10 @@ through ``model.site.numbers.parse_number``, so they agree on what "0,5" and
 from __future__ import annotations
 
 import pytest
+from hypothesis import given
+from hypothesis import strategies as st
 
-from model.site.numbers import parse_number
+from model.site.numbers import number_text, parse_number
 
 
 @pytest.mark.parametrize(
@@ -57,3 +59,25 @@ def test_a_comma_before_three_digits_is_refused_as_ambiguous(text: str) -> None:
 def test_a_comma_before_other_digit_counts_is_a_decimal_mark() -> None:
     assert parse_number("1,0") == 1.0
     assert parse_number("1,0000") == 1.0
+
+
+@pytest.mark.parametrize(
+    ("value", "text"),
+    [
+        (30.0, "30"),
+        (0.5, "0.5"),
+        (1.2345678, "1.2345678"),  # never rounded to six figures
+        (0.00001, "0.00001"),  # never an exponent, which the parser refuses
+        (99999999.0, "99999999"),
+        (1e22, "10000000000000000000000"),
+        (-5.0, "-5"),
+    ],
+)
+def test_a_stored_number_is_edited_as_all_its_digits(value: float, text: str) -> None:
+    assert number_text(value) == text
+    assert parse_number(number_text(value)) == value  # saving the form unchanged keeps it
+
+
+@given(st.floats(allow_nan=False, allow_infinity=False, min_value=-1e30, max_value=1e30))
+def test_number_text_reads_back_exactly(value: float) -> None:
+    assert parse_number(number_text(value)) == value

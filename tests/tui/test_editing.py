@@ -8,7 +8,7 @@ import pytest
 
 from model.rules.impact import trip_impact
 from model.storage.session import LockHeld
-from model.storage.sites import load_site
+from model.storage.sites import load_site, save_site
 from tui.app.shell import make_app
 from tui.screens.confirm import ConfirmScreen
 from tui.screens.node_editor import NodeEditorScreen
@@ -261,3 +261,44 @@ async def test_a_new_node_with_a_used_id_is_refused_in_the_form(oak_lane: Path) 
         assert not isinstance(app.screen, NodeEditorScreen)
         assert app.index.parent("board9") == "cu"
         assert app.main.tree.selected_id() == "board9"
+
+
+@pytest.mark.parametrize(
+    ("typed", "says"),
+    [("1e3", "'1e3' is not a number"), ("abc", "'abc' is not a number"), ("-5", "-5")],
+)
+async def test_a_number_field_keeps_what_is_typed_and_refuses_it(
+    oak_lane: Path, typed: str, says: str
+) -> None:
+    """'1e3' is never quietly read as 13, nor '-5' as 5."""
+    before = oak_lane.read_bytes()
+    app = make_app(oak_lane)
+    async with app.run_test(size=(80, 24)) as pilot:
+        app.main.select("rc1")
+        await pilot.press("e")
+        editor = app.screen
+        assert isinstance(editor, NodeEditorScreen)
+        await pilot.press("enter", "ctrl+u", *typed)  # the label, then IΔn
+        assert says in editor.errors["idn_ma"]
+        await pilot.press("ctrl+s")
+        assert app.screen is editor  # refused: the form stays open
+        await pilot.press("escape")
+        assert app.site.node("rc1").idn_ma == 30  # the sample's value, unchanged
+    assert oak_lane.read_bytes() == before
+
+
+async def test_saving_a_form_unchanged_keeps_every_digit(oak_lane: Path) -> None:
+    site = load_site(oak_lane)
+    nodes = [
+        n.model_copy(update={"zs_ohm": 0.4123456789}) if n.id == "c-ck" else n for n in site.nodes
+    ]
+    save_site(site.model_copy(update={"nodes": nodes}), oak_lane)
+    app = make_app(oak_lane)
+    async with app.run_test(size=(80, 24)) as pilot:
+        app.main.select("c-ck")
+        await pilot.press("e")
+        assert isinstance(app.screen, NodeEditorScreen)
+        await pilot.press("ctrl+s")
+        await app.settle()
+        assert not isinstance(app.screen, NodeEditorScreen)
+        assert app.site.node("c-ck").zs_ohm == 0.4123456789  # not 0.412346

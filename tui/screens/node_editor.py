@@ -16,6 +16,7 @@ from textual.widgets import Button, Checkbox, Input, Label, Select, SelectionLis
 
 from model.site.fields import FieldSpec, check_form, field_specs, typed_value
 from model.site.nodes import NODE_CLASSES
+from model.site.numbers import number_text
 from tui.format import KIND_TITLES
 
 
@@ -97,10 +98,10 @@ class NodeEditorScreen(ModalScreen[str | None]):
                 *[(c, c, c in chosen) for c in spec.choices], id=wid, compact=True
             )
         if spec.kind == "number":
-            text = "" if value is None else f"{value:g}"
-            return Input(
-                text, placeholder=spec.unit or "number", restrict=r"[0-9.,]*", compact=True, id=wid
-            )
+            # all of the stored value, and whatever is typed kept as typed: the
+            # number is read (or refused with the reason) only when the form is checked
+            text = "" if value is None else number_text(value)
+            return Input(text, placeholder=spec.unit or "number", compact=True, id=wid)
         disabled = spec.name == "id" and not self._new
         return Input(
             "" if value is None else str(value),

@@ -12,6 +12,7 @@ from textual.widgets import Button, Checkbox, Input, Label, Select, Static, Text
 
 from model.rules.limits import RULE_SETS
 from model.site.models import SiteFile, SiteInfo
+from model.site.numbers import number_text
 from model.site.supply import (
     NUMBER_FIELDS,
     SUPPLY_NUMBERS,
@@ -25,7 +26,7 @@ from model.site.terms import Earthing, RuleSetName, choices_of
 
 
 def _fmt(value: float | None) -> str:
-    return "" if value is None else f"{value:g}"
+    return "" if value is None else number_text(value)
 
 
 class SiteDetailsScreen(ModalScreen[SiteInfo | None]):
