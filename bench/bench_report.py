@@ -106,7 +106,7 @@ def build_site() -> SiteFile:
             }
     raw = {
         "format": "tripwise.site",
-        "version": 1,
+        "version": 2,
         "site": {"name": "Benchmark block (invented)", "earthing": "TN-C-S", "ze_ohm": 0.3},
         "nodes": nodes,
         "visits": [

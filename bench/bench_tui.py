@@ -84,7 +84,7 @@ except ImportError:  # the shared generator is not on this branch: a small one o
         return SiteFile.model_validate(
             {
                 "format": "tripwise.site",
-                "version": 1,
+                "version": 2,
                 "site": {"name": f"Generated {n_nodes}", "earthing": "TN-C-S"},
                 "nodes": nodes,
                 "visits": [{"id": "v1", "date": "2026-11-01", "readings": readings}],

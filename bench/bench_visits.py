@@ -46,7 +46,7 @@ def big_site(boards: int, per_board: int, visits: int) -> dict[str, Any]:
         vs.append({"id": f"v{v}", "date": f"{2010 + v}-06-01", "readings": readings})
     return {
         "format": "tripwise.site",
-        "version": 1,
+        "version": 2,
         "site": {"name": "Bench (invented)", "earthing": "TN-S"},
         "nodes": nodes,
         "visits": vs,

@@ -175,7 +175,7 @@ def generate_site(n_nodes: int, seed: int = 0) -> SiteFile:
         visits.insert(0, {"id": "v2025-11-02", "date": "2025-11-02", "readings": b.readings()})
     doc = {
         "format": "tripwise.site",
-        "version": 1,
+        "version": 2,
         "site": {
             "name": f"Generated site {n_nodes}/{seed} (invented)",
             "address": "1 Invented Road",

@@ -48,7 +48,7 @@ def site_doc(
     base.update(info)
     return {
         "format": "tripwise.site",
-        "version": 1,
+        "version": 2,
         "site": base,
         "nodes": [node("o", None, "origin"), *nodes],
         "visits": visits or [],

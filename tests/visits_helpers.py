@@ -39,7 +39,7 @@ def site_dict(
         info["trend"] = trend
     return {
         "format": "tripwise.site",
-        "version": 1,
+        "version": 2,
         "site": info,
         "nodes": copy.deepcopy(NODES if nodes is None else nodes),
         "visits": [

@@ -1,6 +1,6 @@
 """The site file: the site's details, the tree of nodes and the visits' readings.
 
-This is the persisted form of a site file (format ``tripwise.site``, version 1).
+This is the persisted form of a site file (format ``tripwise.site``, version 2).
 Tree-wide rules (one origin, known parents, no cycles, readings only for
 residual-current devices) are checked on the whole document in
 :class:`SiteFile`.  The nodes are in :mod:`model.site.nodes`, the vocabulary in
@@ -166,7 +166,7 @@ class SiteFile(StrictModel):
     """A whole site file."""
 
     format: Literal["tripwise.site"] = Field(description="Always 'tripwise.site'.")
-    version: Literal[1] = Field(description="Format version.")
+    version: Literal[2] = Field(description="Format version.")
     site: SiteInfo
     nodes: list[Node] = Field(description="The protection tree as a flat list.")
     visits: list[Visit] = Field(default_factory=list, description="Visits, oldest first.")

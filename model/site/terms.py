@@ -22,7 +22,7 @@ from pydantic import (
 )
 
 FORMAT_NAME = "tripwise.site"
-FORMAT_VERSION = 1
+FORMAT_VERSION = 2
 
 #: What a node or visit id may be, as a pattern and in words.
 ID_PATTERN = r"^[A-Za-z0-9][A-Za-z0-9._-]{0,39}$"

@@ -155,7 +155,7 @@ def test_bad_file_message_and_exit_2(tmp_path: Path, name: str, mutate: Any, mes
 
 def test_json_syntax_error_gives_line_and_column(tmp_path: Path) -> None:
     p = tmp_path / "syntax.json"
-    p.write_text('{\n  "format": "tripwise.site",\n  "version": 1,,\n}', encoding="utf-8")
+    p.write_text('{\n  "format": "tripwise.site",\n  "version": 2,,\n}', encoding="utf-8")
     out = tripwise("check", str(p))
     assert out.returncode == 2 and "line 3, column 16" in out.stderr
 

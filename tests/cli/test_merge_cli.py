@@ -98,7 +98,7 @@ def test_existing_out_refused_unless_force(tmp_path: Path) -> None:
 def test_bad_input_exit_2(tmp_path: Path) -> None:
     base = sample_copy(tmp_path, dest="base.json")
     bad = tmp_path / "bad.json"
-    bad.write_text('{"format": "tripwise.site", "version": 1}', encoding="utf-8")
+    bad.write_text('{"format": "tripwise.site", "version": 2}', encoding="utf-8")
     p = run_cli("merge", str(base), str(bad))
     assert p.returncode == 2 and "bad.json" in p.stderr and "Traceback" not in p.stderr
     p = run_cli("merge", str(base), str(tmp_path / "missing.json"))

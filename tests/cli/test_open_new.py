@@ -28,7 +28,7 @@ def test_new_creates_an_empty_site_and_refuses_to_overwrite(tmp_path: Path) -> N
 
 def test_open_bad_file_is_one_line_and_exit_2(tmp_path: Path) -> None:
     bad = tmp_path / "broken.json"
-    bad.write_text('{"format": "tripwise.site", "version": 1, "site": {}}', encoding="utf-8")
+    bad.write_text('{"format": "tripwise.site", "version": 2, "site": {}}', encoding="utf-8")
     for args in (("open", str(bad)), (str(bad),), (str(tmp_path / "missing.json"),)):
         done = tripwise(*args)
         assert done.returncode == 2

@@ -131,7 +131,7 @@ def big_raw(boards: int = 8, per_board: int = 12) -> dict[str, Any]:
             }
     return {
         "format": "tripwise.site",
-        "version": 1,
+        "version": 2,
         "site": {"name": "Block of flats (invented)", "earthing": "TN-S", "ze_ohm": 0.35},
         "nodes": nodes,
         "visits": [

@@ -71,7 +71,7 @@ def test_every_document_renders_for_bare_sites(tmp_path: Path) -> None:
 
     bare = {
         "format": "tripwise.site",
-        "version": 1,
+        "version": 2,
         "site": {"name": "Empty shed (invented)", "earthing": "TN-S"},
         "nodes": [{"id": "o", "kind": "origin"}],
     }

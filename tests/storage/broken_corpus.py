@@ -16,6 +16,7 @@ from typing import Any
 
 from bench.gen_site import generate_site
 from model.site.models import site_to_dict
+from model.site.terms import FORMAT_VERSION
 
 TOKEN = "__RAW_TOKEN__"
 
@@ -179,7 +180,7 @@ def broken_cases(seed: int = 0) -> Iterator[BrokenCase]:
     ]
     for k, (data, expect) in enumerate(others):
         yield BrokenCase(f"other-{k}", data, expect)
-    for version in [2, 3, 99, 10**6]:
+    for version in [FORMAT_VERSION + 1, FORMAT_VERSION + 2, 99, 10**6]:
         doc = json.loads(texts[0])
         doc["version"] = version
         yield BrokenCase(f"newer-{version}", _dump(doc), "newer than this tripwise")

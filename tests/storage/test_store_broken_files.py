@@ -56,7 +56,7 @@ def test_every_broken_file_gives_one_clear_line(tmp_path: Path) -> None:
 def test_file_over_50_mb_is_refused_with_its_size(tmp_path: Path) -> None:
     p = tmp_path / "huge site.json"
     with open(p, "wb") as fh:
-        fh.write(b'{"format": "tripwise.site", "version": 1, "site": {"name": "big", "notes": "')
+        fh.write(b'{"format": "tripwise.site", "version": 2, "site": {"name": "big", "notes": "')
         chunk = b"x" * (1 << 20)
         for _ in range(60):
             fh.write(chunk)
@@ -80,7 +80,7 @@ def test_nothing_in_the_file_is_executed(tmp_path: Path) -> None:
     marker = tmp_path / "pwned"
     p = tmp_path / "s.json"
     p.write_text(
-        '{"format": "tripwise.site", "version": 1, "site": {"name": "__import__(\'pathlib\')'
+        '{"format": "tripwise.site", "version": 2, "site": {"name": "__import__(\'pathlib\')'
         f'.Path(\'{marker}\').touch()", "earthing": "TT"}}, "nodes": '
         '[{"id": "o", "kind": "origin", "label": "eval(\'1+1\')"}]}'
     )
@@ -119,12 +119,12 @@ def test_cli_check_exit_2_and_no_traceback(tmp_path: Path, case: BrokenCase) -> 
 
 def test_refused_numbers_say_where(tmp_path: Path) -> None:
     p = tmp_path / "s.json"
-    p.write_text('{"format": "tripwise.site",\n "version": 1,\n "site": {"u0_v": NaN}}')
+    p.write_text('{"format": "tripwise.site",\n "version": 2,\n "site": {"u0_v": NaN}}')
     with pytest.raises(SiteLoadError) as err:
         load_site(p)
     # RFC 8259 §6: NaN is not a JSON number; line 3, column 19 is where it stands
     assert "at line 3, column 19: NaN is not allowed" in str(err.value)
-    p.write_bytes(b'{"format": "tripwise.site",\n "version": 1,\n "x": "\xff"}')
+    p.write_bytes(b'{"format": "tripwise.site",\n "version": 2,\n "x": "\xff"}')
     with pytest.raises(SiteLoadError, match=r"not UTF-8 text at line 3 \(byte 50\)"):
         load_site(p)
 

@@ -11,7 +11,7 @@ from hypothesis import strategies as st
 
 from bench.gen_site import generate_site
 from model.site.models import Reading
-from model.site.terms import DID_NOT_TRIP
+from model.site.terms import DID_NOT_TRIP, FORMAT_VERSION
 from model.storage.codec import dumps_site
 from model.storage.session import EditSession
 from model.storage.sites import load_site, save_site
@@ -33,7 +33,7 @@ def test_save_load_round_trip(tmp_path: Path, n_nodes: int, seed: int) -> None:
     assert p.read_bytes() == first
     # the canonical text is also what a fresh dump gives, and it is plain JSON
     assert dumps_site(loaded).encode("utf-8") == first
-    assert json.loads(first)["version"] == 1
+    assert json.loads(first)["version"] == FORMAT_VERSION
 
 
 def test_generated_sites_have_requested_size_and_cascades() -> None:

@@ -399,11 +399,11 @@ def _v0_to_v1(doc: dict[str, Any]) -> dict[str, Any]:
 def test_newer_version_is_refused_and_not_touched(tmp_path: Path) -> None:
     p = tmp_path / "future.json"
     d = site_to_dict(generate_site(12, seed=1))
-    d["version"] = 2
+    d["version"] = 3
     p.write_text(json.dumps(d))
     before = p.read_bytes()
     for opener in (load_site, EditSession.open, lambda x: EditSession.open(x, read_only=True)):
-        with pytest.raises(SiteLoadError, match="format version 2 is newer than this tripwise"):
+        with pytest.raises(SiteLoadError, match="format version 3 is newer than this tripwise"):
             opener(p)
     assert p.read_bytes() == before
     assert sorted(x.name for x in tmp_path.iterdir()) == ["future.json"]
@@ -438,11 +438,32 @@ def test_version_0_is_migrated_in_memory_and_written_on_next_save(
     assert s.site.visits[-1].readings[dev].x1_0 == 20.0
     s.save()
     s.close()
-    assert json.loads(p.read_bytes())["version"] == 1
+    assert json.loads(p.read_bytes())["version"] == 2
     assert (tmp_path / "old site.json.v0.bak").read_bytes() == original
     assert backup_path(p).read_bytes() == original
     monkeypatch.delitem(codec.MIGRATIONS, 0)
-    assert load_site(p).visits[-1].readings[dev].x1_0 == 20.0  # a plain v1 file now
+    assert load_site(p).visits[-1].readings[dev].x1_0 == 20.0  # a plain current file now
+
+
+def test_a_version_1_file_opens_and_is_written_as_version_2_on_save(tmp_path: Path) -> None:
+    """Version 1 files (every file written before the format gained its optional
+    version 2 fields) open unchanged and are rewritten as version 2 only at a save."""
+    site = generate_site(30, seed=4)
+    d = site_to_dict(site)
+    d["version"] = 1
+    p = tmp_path / "v1.json"
+    p.write_text(json.dumps(d, indent=2))
+    original = p.read_bytes()
+    assert load_site(p) == site
+    s = EditSession.open(p)
+    assert any("format version 1" in w and "v1.json.v1.bak" in w for w in s.warnings)
+    visit, dev = _first(s)
+    s.set_reading(visit, dev, Reading(x1_0=21.0))
+    s.save()
+    s.close()
+    assert json.loads(p.read_bytes())["version"] == 2
+    assert (tmp_path / "v1.json.v1.bak").read_bytes() == original
+    assert load_site(p).visits[-1].readings[dev].x1_0 == 21.0
 
 
 def test_broken_migration_gives_a_clear_error(

@@ -43,7 +43,7 @@ async def test_build_small_site_by_keys(tmp_path: Path) -> None:
     expected = SiteFile.model_validate(
         {
             "format": "tripwise.site",
-            "version": 1,
+            "version": 2,
             "site": {"name": "Garage flat", "earthing": "TN-C-S"},
             "nodes": [
                 {"id": "supply", "kind": "origin", "label": "Supply intake"},

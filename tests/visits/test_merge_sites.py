@@ -72,7 +72,7 @@ def base_sites(draw: Any) -> dict[str, Any]:
         visits.append({"id": f"v{j}", "date": f"202{j}-05-0{j + 1}", "readings": rs})
     return {
         "format": "tripwise.site",
-        "version": 1,
+        "version": 2,
         "site": {"name": "Generated (invented)", "earthing": "TN-S"},
         "nodes": nodes,
         "visits": visits,
