@@ -98,6 +98,22 @@ TEST_NAMES: tuple[TestName, ...] = choices_of(TestName)
 #: The keys of a reading that hold a test value (as against its waveform or notes).
 TEST_VALUE_KEYS: tuple[str, ...] = (*TEST_NAMES, "ramp_ma", "button")
 
+_GROUP_WORDS = {"half": "½ × IΔn", "x1": "1 × IΔn", "x5": "5 × IΔn"}
+#: Every reading key in the trade's words, as printed for a client or shown on screen.
+TEST_LABELS: dict[str, str] = {
+    **{t: f"{_GROUP_WORDS[t.split('_')[0]]}, {t.split('_')[1]}°" for t in TEST_NAMES},
+    "ramp_ma": "ramp test",
+    "button": "test button",
+    "waveform": "test waveform",
+    "note": "note",
+    "not_tested": "not tested",
+}
+
+
+def reading_label(key: str) -> str:
+    """A reading key in the trade's words ('x1_180' -> '1 × IΔn, 180°'); unknown keys as given."""
+    return TEST_LABELS.get(key, key)
+
 RCD_KINDS: frozenset[str] = frozenset(choices_of(RcdKind))
 #: Kinds that give overcurrent protection.
 OVERCURRENT_KINDS = frozenset({"fuse", "mcb", "rcbo", "cbr"})

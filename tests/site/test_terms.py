@@ -56,3 +56,15 @@ def test_a_reading_has_values_exactly_under_the_test_value_keys() -> None:
 )
 def test_or_list(items: list[str], text: str) -> None:
     assert or_list(items) == text
+
+
+def test_reading_keys_have_the_trades_names() -> None:
+    from model.site.terms import TEST_NAMES, reading_label
+
+    # Common practice: tests are named by multiple of IΔn and the phase angle of
+    # the test current, as on any RCD test sheet.
+    assert reading_label("x1_180") == "1 × IΔn, 180°"
+    assert reading_label("half_0") == "½ × IΔn, 0°"
+    assert reading_label("ramp_ma") == "ramp test"
+    assert all("_" not in reading_label(k) for k in TEST_NAMES)
+    assert reading_label("unknown_key") == "unknown_key"
