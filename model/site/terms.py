@@ -114,6 +114,7 @@ def reading_label(key: str) -> str:
     """A reading key in the trade's words ('x1_180' -> '1 × IΔn, 180°'); unknown keys as given."""
     return TEST_LABELS.get(key, key)
 
+
 RCD_KINDS: frozenset[str] = frozenset(choices_of(RcdKind))
 #: Kinds that give overcurrent protection.
 OVERCURRENT_KINDS = frozenset({"fuse", "mcb", "rcbo", "cbr"})
