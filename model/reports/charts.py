@@ -26,7 +26,13 @@ from model.reports.analysis_view import site_index
 from model.rules.bands import GROUP_MULTIPLE, group_of
 from model.rules.envelope import DeviceCurve, band_curve
 from model.rules.findings import Analysis, CurrentRange, PairAnalysis, device_text
-from model.rules.limits import BREAK_TIMES, IEC_61008_T1, NON_OPERATING_FRACTION
+from model.rules.limits import (
+    ALT_5X_CURRENT_A,
+    ALT_5X_MAX_IDN_MA,
+    BREAK_TIMES,
+    IEC_61008_T1,
+    NON_OPERATING_FRACTION,
+)
 from model.site.models import SiteFile
 from model.site.terms import RCD_KINDS, TEST_NAMES
 
@@ -96,9 +102,15 @@ class PairChart:
 
 
 def _breakpoints_ma(idn_ma: float) -> list[float]:
-    """The currents at which a device's bands may step. [mA]"""
+    """The currents at which a device's bands may step. [mA]
+
+    Includes 0.25 A, where the IEC 61008-1 Table 1 note puts the 40 ms step of
+    a general device of IΔn <= 30 mA.
+    """
     out = [NON_OPERATING_FRACTION * idn_ma]
     out.extend(p.current_ma(idn_ma) for p in BREAK_TIMES)
+    if idn_ma <= ALT_5X_MAX_IDN_MA:
+        out.append(ALT_5X_CURRENT_A * 1000.0)
     return out
 
 
@@ -212,6 +224,13 @@ def pair_chart_data(
     visit = site.latest_visit()
     if visit is None:
         notes.append("no visits recorded: no readings to plot")
+    for label, node in ((up_label, up), (down_label, down)):
+        if DeviceCurve.of(node).alt_5x:
+            notes.append(
+                f"{label}: 40 ms guaranteed only from {ALT_5X_CURRENT_A * 1000:g} mA "
+                "(IEC 61008-1 Table 1 note: 0.25 A may replace 5 IΔn); a 5 IΔn test within "
+                "40 ms confirms it from 5 IΔn"
+            )
     if not in_series:
         notes.append(f"{up_label} is not upstream of {down_label}: they are not a series pair")
 

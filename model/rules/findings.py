@@ -17,6 +17,7 @@ Severity levels (our own four, worst first):
 
 from __future__ import annotations
 
+import math
 from dataclasses import asdict, dataclass, field
 from typing import Any, Literal
 
@@ -100,8 +101,10 @@ class PairAnalysis:
     i_max_ma: float
     ranges: tuple[CurrentRange, ...]
     measured: MeasuredMargin | None
-    verdict: Literal["selective", "selective-in-practice", "not-selective"]
+    verdict: Literal["selective", "selective-in-practice", "not-guaranteed", "not-selective"]
     explanation: str
+    #: What would close the gap, fitted to the pair ('' where the pair is selective).
+    action: str = ""
 
     def as_json(self) -> dict[str, Any]:
         return {
@@ -116,6 +119,7 @@ class PairAnalysis:
             "measured": None if self.measured is None else self.measured.as_json(),
             "verdict": self.verdict,
             "explanation": self.explanation,
+            "action": self.action,
         }
 
 
@@ -167,6 +171,21 @@ def fmt_ma(value_ma: float) -> str:
     if value_ma >= 1000:
         return f"{value_ma / 1000:.4g} A"
     return f"{value_ma:.3g} mA" if value_ma < 10 else f"{value_ma:.0f} mA"
+
+
+def fmt_ratio(ratio: float) -> str:
+    """An IΔn ratio for people, rounded down to 3 figures: '2.99:1', never '3:1' below 3.
+
+    Rounding down keeps a ratio that fails a limit from printing as one that
+    meets it (2.996 is '2.99:1').
+    """
+    if ratio <= 0 or not math.isfinite(ratio):
+        return f"{ratio:g}:1"
+    step = 10.0 ** (math.floor(math.log10(ratio)) - 2)
+    floored = (
+        math.floor(ratio / step * (1 + 1e-9)) * step
+    )  # as close to a limit as the check reads it
+    return f"{float(f'{floored:.3g}'):g}:1"
 
 
 def device_text(node: Any) -> str:

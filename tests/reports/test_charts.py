@@ -43,10 +43,13 @@ def at(chart: PairChart, values: list[float | None], current_ma: float) -> float
 
 def test_general_30ma_max_break_times(site_path: Path) -> None:
     chart = chart_for(site_path, "rc3", "rb1")  # rb1: 30 mA general RCBO
-    # IEC 61008-1 Table 1: general type, max break 300 ms at IΔn, 150 ms at 2 IΔn, 40 ms at 5 IΔn
+    # IEC 61008-1 Table 1: general type, max break 300 ms at IΔn, 150 ms at 2 IΔn, 40 ms at
+    # 5 IΔn, or at 0.25 A for IΔn <= 30 mA (Table 1 note): read at 250 mA, 150 ms below it
     assert at(chart, chart.down_max, 30.0) == 300.0
     assert at(chart, chart.down_max, 60.0) == 150.0
-    assert at(chart, chart.down_max, 150.0) == 40.0
+    assert at(chart, chart.down_max, 150.0) == 150.0
+    assert at(chart, chart.down_max, 250.0) == 40.0
+    assert any("0.25 A may replace 5 IΔn" in n for n in chart.notes)
     # step reading: just below IΔn a trip is not guaranteed (infinite -> None)
     below = max(c for c in chart.currents_ma if c < 30.0)
     assert at(chart, chart.down_max, below) is None
@@ -76,8 +79,9 @@ def test_type_s_100ma_min_and_max(site_path: Path) -> None:
 
 def test_ranges_points_and_shape(site_path: Path) -> None:
     chart = chart_for(site_path, "rc3", "rb1")
-    # the overlap of the two bands: from IΔno(up) = 50 mA to 5 IΔn(down) = 150 mA (Table 1)
-    assert chart.ranges == [(50.0, 150.0)]
+    # the overlap of the two bands: from IΔno(up) = 50 mA to 0.25 A, where the Table 1
+    # note lets a 30 mA general device first be held to 40 ms (IEC 61008-1 Table 1)
+    assert chart.ranges == [(50.0, 250.0)]
     assert chart.in_series
     assert chart.visit == "2026-11-14"
     assert chart.currents_ma == sorted(chart.currents_ma)
@@ -96,7 +100,7 @@ def test_ranges_points_and_shape(site_path: Path) -> None:
 
 def test_pair_without_readings_and_not_in_series(site_path: Path) -> None:
     rb2 = chart_for(site_path, "rc3", "rb2")
-    assert rb2.ranges == [(50.0, 150.0)]
+    assert rb2.ranges == [(50.0, 250.0)]  # IEC 61008-1 Table 1 and its 0.25 A note
     assert rb2.down_points == []
     assert any("no reading" in n for n in rb2.notes)
     apart = chart_for(site_path, "rc1", "rb1")

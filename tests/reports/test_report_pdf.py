@@ -150,13 +150,16 @@ def test_chart_bands_come_from_the_envelope(tmp_path: Path) -> None:
     c = doc.charts[0]
     assert c.down_text == "30 mA, Type A, general"
     cur = list(c.currents_ma)
-    # a general 30 mA device: no trip guaranteed below IΔn, 300 ms at IΔn, 40 ms at 5 IΔn
-    # (IEC 61008-1 Ed.3 Table 1); it cannot trip at or below 0.5 IΔn (IΔno).
+    # a general 30 mA device: no trip guaranteed below IΔn, 300 ms at IΔn, 150 ms from
+    # 2 IΔn and 40 ms only from 0.25 A (IEC 61008-1 Ed.3 Table 1 and its note on 0.25 A
+    # in place of 5 IΔn); it cannot trip at or below 0.5 IΔn (IΔno).
     down = {i: (lo, hi) for i, lo, hi in zip(cur, c.down_min, c.down_max, strict=True)}
     at = min(cur, key=lambda i: abs(i - 30.0 * 1.01))
     assert down[at][1] == pytest.approx(300.0)
     at5 = min(cur, key=lambda i: abs(i - 150.0 * 1.01))
-    assert down[at5][1] == pytest.approx(40.0)
+    assert down[at5][1] == pytest.approx(150.0)
+    at250 = min(cur, key=lambda i: abs(i - 250.0 * 1.01))
+    assert down[at250][1] == pytest.approx(40.0)
     below = min(cur, key=lambda i: abs(i - 14.0))
     assert down[below][0] is None  # None: an infinite time
 

@@ -13,7 +13,7 @@ from textual.widgets import Button, Static
 from model.reports.analysis_view import site_index
 from model.reports.charts import CHART_SOURCE, MeasuredPoint, PairChart, pair_chart_data
 from model.rules.bands import GROUP_TITLE, fmt_result, group_of
-from model.rules.findings import CAUTION, Analysis, PairAnalysis, device_text, fmt_ma
+from model.rules.findings import CAUTION, Analysis, PairAnalysis, device_text, fmt_ma, fmt_ratio
 from model.rules.limits import CASCADE_RATIO
 from model.site.models import SiteFile
 from tui.widgets.bandchart import BandChart
@@ -21,6 +21,7 @@ from tui.widgets.bandchart import BandChart
 VERDICT_TITLE = {
     "selective": "SELECTIVE",
     "selective-in-practice": "SELECTIVE IN PRACTICE",
+    "not-guaranteed": "NOT GUARANTEED",
     "not-selective": "NOT SELECTIVE",
 }
 
@@ -39,7 +40,7 @@ def points_text(points: list[MeasuredPoint]) -> str:
 def rule_text(p: PairAnalysis) -> str:
     delayed = "yes" if p.up_delayed else "no"
     head = (
-        f"upstream time-delayed: {delayed} · IΔn ratio {p.ratio:.3g}:1 "
+        f"upstream time-delayed: {delayed} · IΔn ratio {fmt_ratio(p.ratio)} "
         f"(needs {CASCADE_RATIO.value:g}:1 or more)"
     )
     if p.rule_ok:
@@ -110,6 +111,8 @@ class PairScreen(ModalScreen[None]):
         visit = self.chart.visit if self.chart else None
         rows.append(("Measured", measured_text(p, visit), ""))
         rows.append(("Verdict", f"{VERDICT_TITLE[p.verdict]}: {p.explanation}", f"-{p.verdict}"))
+        if p.action:
+            rows.append(("To close the gap", p.action, ""))
         if self.chart is not None:
             for role, nid, pts in (
                 ("Readings up", self.up_id, self.chart.up_points),

@@ -3,17 +3,26 @@
 from __future__ import annotations
 
 from collections.abc import Iterator
+from dataclasses import replace
 from typing import Any
 
 from model.rules.checks.context import Context
+from model.rules.checks.pair_verdict import (
+    confirm_note,
+    five_x_confirmed_ms,
+    pair_verdict,
+    remedies,
+)
 from model.rules.envelope import DeviceCurve, pair_bands, unsafe_ranges
 from model.rules.findings import (
     CurrentRange,
     Finding,
     MeasuredMargin,
     PairAnalysis,
+    Severity,
     device_text,
     fmt_ma,
+    fmt_ratio,
 )
 from model.rules.limits import CASCADE_RATIO, DEFAULT_MAX_FAULT_A, IEC_61008_T1
 from model.site.terms import DID_NOT_TRIP
@@ -25,6 +34,11 @@ DC_BLINDING_SOURCE = (
     "manufacturers' guidance derived from BS 7671 531.3.3; no regulation states it "
     "(medium confidence)"
 )
+
+
+def ratio_below(ratio: float) -> bool:
+    """IΔn(up) / IΔn(down) below 3 (a ratio equal to 3 within rounding passes)."""
+    return ratio < CASCADE_RATIO.value * (1 - 1e-9)
 
 
 def series_pairs(ctx: Context) -> list[tuple[str, str]]:
@@ -151,7 +165,20 @@ def analyse_pairs(ctx: Context) -> list[PairAnalysis]:
     downs = [curves[d] for _, d in pairs]
     imax = [faults[d] for _, d in pairs]
     bands = pair_bands(ups, downs, imax)
+    confirmed = {
+        r: ms for r in idx.rcds() if (ms := five_x_confirmed_ms(ctx, idx.by_id[r])) is not None
+    }
+    conf_rows = [row for row, (_, d) in enumerate(pairs) if d in confirmed]
+    conf_ranges: dict[int, list[tuple[float, float]]] = {}
+    if conf_rows:
+        conf_bands = pair_bands(
+            [ups[row] for row in conf_rows],
+            [replace(downs[row], five_x_confirmed=True) for row in conf_rows],
+            [imax[row] for row in conf_rows],
+        )
+        conf_ranges = {row: unsafe_ranges(conf_bands, k) for k, row in enumerate(conf_rows)}
     out: list[PairAnalysis] = []
+    remedy_rows = []
     for row, (u, d) in enumerate(pairs):
         up, down = idx.by_id[u], idx.by_id[d]
         ratio = float(up.idn_ma) / float(down.idn_ma)
@@ -159,23 +186,15 @@ def analyse_pairs(ctx: Context) -> list[PairAnalysis]:
         delayed = _delayed(up)
         if not delayed:
             notes.append("upstream is not time-delayed")
-        if ratio < CASCADE_RATIO.value:
-            notes.append(f"IΔn ratio {ratio:.3g}:1 is below {_RATIO}")
+        short = ratio_below(ratio)
+        if short:
+            notes.append(f"IΔn ratio {fmt_ratio(ratio)} is below {_RATIO}")
         ranges = unsafe_ranges(bands, row)
-        margin = measured_margin(ctx, up, down, ranges)
-        if not ranges:
-            verdict = "selective"
-            expl = "the bands do not overlap anywhere up to " + fmt_ma(imax[row])
-        elif margin is not None and margin.selective:
-            verdict = "selective-in-practice"
-            expl = "bands overlap, but the readings show a margin: " + margin.explanation
-        else:
-            verdict = "not-selective"
-            expl = "selectivity not guaranteed from " + ", ".join(
-                f"{fmt_ma(lo)} to {fmt_ma(hi)}" for lo, hi in ranges
-            )
-            if margin is not None:
-                expl += "; readings: " + margin.explanation
+        judged = conf_ranges.get(row, ranges) if ranges else ranges
+        note = confirm_note(down, confirmed[d]) if ranges and row in conf_ranges else ""
+        margin = measured_margin(ctx, up, down, judged)
+        v = pair_verdict(not notes, imax[row], ranges, judged, margin, note)
+        remedy_rows.append((ups[row], downs[row], imax[row], delayed, short, row in conf_ranges))
         out.append(
             PairAnalysis(
                 up=u,
@@ -187,10 +206,13 @@ def analyse_pairs(ctx: Context) -> list[PairAnalysis]:
                 i_max_ma=float(imax[row]),
                 ranges=tuple(CurrentRange(lo, hi) for lo, hi in ranges),
                 measured=margin,
-                verdict=verdict,  # type: ignore[arg-type]
-                explanation=expl,
+                verdict=v.verdict,  # type: ignore[arg-type]
+                explanation=v.explanation,
             )
         )
+    gaps = [i for i, p in enumerate(out) if p.verdict in ("not-guaranteed", "not-selective")]
+    for i, text in zip(gaps, remedies([remedy_rows[i] for i in gaps]), strict=True):
+        out[i] = replace(out[i], action=text)
     return out
 
 
@@ -232,7 +254,7 @@ def check_cascade(ctx: Context) -> Iterator[Finding]:
         )
     for p in ctx.pairs:
         up, down = idx.by_id[p.up], idx.by_id[p.down]
-        if p.ratio < CASCADE_RATIO.value:
+        if ratio_below(p.ratio):
             yield Finding(
                 rule="cascade.ratio-below-3",
                 severity="advisory",
@@ -240,27 +262,37 @@ def check_cascade(ctx: Context) -> Iterator[Finding]:
                 board=idx.board_of[p.down],
                 message=(
                     f"{idx.label(p.up)} ({up.idn_ma:g} mA) is upstream of {idx.label(p.down)} "
-                    f"({down.idn_ma:g} mA): ratio {p.ratio:.3g}:1, below {_RATIO}."
+                    f"({down.idn_ma:g} mA): ratio {fmt_ratio(p.ratio)}, below {_RATIO}."
                 ),
                 action="Use an upstream device of at least three times the downstream IΔn.",
                 source=CASCADE_RATIO.source,
                 basis="common-practice",
-                measured=f"{p.ratio:.3g}:1",
+                measured=fmt_ratio(p.ratio),
                 band=f"≥ {_RATIO}",
             )
-        if p.verdict == "not-selective":
+        if p.verdict in ("not-selective", "not-guaranteed"):
             ranges = ", ".join(r.text() for r in p.ranges)
+            pair_words = (
+                f"{idx.label(p.up)} ({device_text(up)}) and {idx.label(p.down)} "
+                f"({device_text(down)})"
+            )
+            if p.verdict == "not-guaranteed":
+                untested = p.measured is None or p.measured.selective is None
+                severity: Severity = "investigate" if untested else "advisory"
+                message = (
+                    f"{pair_words} meet the {_RATIO} and time-delay rule, but selectivity is "
+                    f"{p.explanation}."
+                )
+            else:
+                severity = "advisory"
+                message = f"{pair_words}: time-current bands overlap from {ranges}; both may trip."
             yield Finding(
                 rule="cascade.band-overlap",
-                severity="advisory",
+                severity=severity,
                 nodes=(p.up, p.down),
                 board=idx.board_of[p.down],
-                message=(
-                    f"{idx.label(p.up)} ({device_text(up)}) and {idx.label(p.down)} ({device_text(down)}): "
-                    f"time-current bands overlap from {ranges}; both may trip."
-                ),
-                action="Choose an upstream device whose band clears the downstream one "
-                "(greater IΔn and a time delay), or confirm with readings.",
+                message=message,
+                action=p.action,
                 source=IEC_61008_T1 + " (step-function reading between tabulated currents)",
                 basis="standard",
                 measured=p.measured.explanation if p.measured else None,
