@@ -149,20 +149,89 @@ CASCADE_RATIO = Rule(
 ADDITIONAL_IDN_MA = Rule(30.0, "mA", "BS 7671 411.3.3", "standard")
 #: Socket-outlets and outdoor mobile equipment up to this rating need it.
 ADDITIONAL_MAX_A = Rule(32.0, "A", "BS 7671 411.3.3(a)/(b)", "standard")
+#: Agricultural and horticultural premises: socket-outlets above 32 A need an
+#: RCD of IΔn not exceeding 100 mA, all other circuits one not exceeding 300 mA
+#: (socket-outlets up to 32 A: 30 mA).  Clause number from memory.
+AGRI_LARGE_SOCKET_IDN_MA = Rule(
+    100.0, "mA", "BS 7671 705.411.1(ii) (clause from memory)", "guidance"
+)
+AGRI_OTHER_IDN_MA = Rule(300.0, "mA", "BS 7671 705.411.1(iii) (clause from memory)", "guidance")
+
+
+@dataclass(frozen=True)
+class LocationRule:
+    """Why circuits serving a special location need a 30 mA RCD, under each rule set."""
+
+    reason: str
+    uk_source: str
+    iec_source: str
+    uk_basis: Basis
+
+
+#: Special locations whose circuits need additional protection by an RCD of
+#: IΔn <= 30 mA.  Bathrooms rest on the clause text (BS 7671 701.411.3.3);
+#: the other clause numbers are from memory, so those rules are guidance.
+#: A sauna's heater is exempt (703.411.3.3); a swimming pool's zone 0 and 1
+#: equipment is normally at SELV, which the site file does not record, so
+#: the rule asks for RCD protection of every circuit serving the pool and
+#: says that SELV circuits are the exception.  "Wet area" is not a location
+#: of BS 7671 Part 7: it is read as a room containing a bath or shower.
+LOCATION_RULES: dict[str, LocationRule] = {
+    "bathroom": LocationRule(
+        "serves a bathroom",
+        "BS 7671 701.411.3.3",
+        "IEC 60364-7-701 (clause from memory)",
+        "standard",
+    ),
+    "wet-area": LocationRule(
+        "serves a wet area (read as a room containing a bath or shower)",
+        "BS 7671 701.411.3.3 where the wet area contains a bath or shower (guidance otherwise)",
+        "IEC 60364-7-701 (clause from memory)",
+        "guidance",
+    ),
+    "sauna": LocationRule(
+        "serves a sauna (the sauna heater is exempt)",
+        "BS 7671 703.411.3.3 (clause from memory)",
+        "IEC 60364-7-703 (clause from memory)",
+        "guidance",
+    ),
+    "swimming-pool": LocationRule(
+        "serves a swimming pool's zones (SELV circuits excepted)",
+        "BS 7671 Section 702, 702.411.3.3 (clause from memory)",
+        "IEC 60364-7-702 (clause from memory)",
+        "guidance",
+    ),
+    "agricultural": LocationRule(
+        "socket-outlets up to 32 A in agricultural premises",
+        "BS 7671 705.411.1(i) (clause from memory)",
+        "IEC 60364-7-705 (clause from memory)",
+        "guidance",
+    ),
+}
 #: Default largest prospective earth-fault current where none is known.
 DEFAULT_MAX_FAULT_A = Rule(500.0, "A", IEC_61008_T1 + " (upper test current)", "standard")
 
 
-def zs_limit_ohm(idn_ma: float) -> float:
-    """Maximum Zs for a circuit whose fault protection is an RCD of ``idn_ma``.
+#: BS 7671 Table 41.5: maximum Zs for RCD-protected circuits, as tabulated. [Ω]
+#: The table rounds 50 V / IΔn (300 mA: 166.7 → 167 Ω); the tabulated value is
+#: the limit, so a Zs of exactly 167 Ω passes.
+ZS_TABLE_41_5: dict[float, float] = {30.0: 1667.0, 100.0: 500.0, 300.0: 167.0, 500.0: 100.0}
 
-    ``50 V / IΔn`` [Ω].
+
+def zs_limit_ohm(idn_ma: float) -> float:
+    """Maximum Zs for a circuit whose fault protection is an RCD of ``idn_ma``. [Ω]
+
+    The tabulated value for the ratings of Table 41.5, ``50 V / IΔn`` for any
+    other rating.
 
     References
     ----------
     BS 7671:2018+A2:2022 Table 41.5 (30 mA 1667 Ω, 100 mA 500 Ω, 300 mA 167 Ω,
     500 mA 100 Ω).
     """
+    tabulated = ZS_TABLE_41_5.get(float(idn_ma))
+    if tabulated is not None:
+        return tabulated
     return ZS_RCD_V.value / (idn_ma / 1000.0)
 
 
@@ -240,7 +309,7 @@ RULE_SETS: dict[str, RuleSet] = {
 IEC_INSTALLATION_SOURCES: dict[str, str] = {
     "cascade.upstream-not-delayed": "IEC 60364-5-53 536.4 (clause from memory; common practice worldwide)",
     "cascade.ratio-below-3": "IEC 60364-5-53 536.4 (clause from memory; common practice worldwide)",
-    "type.dc-load": "IEC 60364-5-53 531.3.3; IEC 60364-7-722 531.3.101 (clauses from memory)",
+    "type.dc-load": "IEC 60364-5-53 531.3.3; IEC 60364-7-722 722.531.3.101 (clauses from memory)",
     "leakage.over-30pct": "IEC 60364-5-53 531.3.2 (clause from memory; BS 7671 531.3.2(iii) wording)",
     "resilience.lighting-single-rcd": "IEC 60364-3 314 (division of installation)",
     "earthing.zs-limit": "IEC 60364-4-41 411.5.3 (50 V / IΔn; tabulated as BS 7671 Table 41.5)",

@@ -12,17 +12,18 @@ import dataclasses
 import gc
 from collections.abc import Callable, Iterable
 
+from model.rules.checks.additional import check_additional_protection
 from model.rules.checks.cascade import analyse_pairs, check_cascade
 from model.rules.checks.context import Context
 from model.rules.checks.coverage import (
     check_ac_unsuitable,
-    check_additional_protection,
     check_dc_load,
     check_leakage,
     check_lighting,
     check_no_overcurrent,
 )
 from model.rules.checks.earthing import check_earthing
+from model.rules.checks.ev import check_ev
 from model.rules.checks.readings import check_readings
 from model.rules.checks.trend import check_trend
 from model.rules.findings import Analysis, Finding
@@ -37,6 +38,7 @@ CHECKS: list[Check] = [
     check_ac_unsuitable,
     check_dc_load,
     check_additional_protection,
+    check_ev,
     check_no_overcurrent,
     check_earthing,
     check_leakage,
@@ -75,12 +77,18 @@ def analyse(site: SiteFile, index: SiteIndex | None = None) -> Analysis:
 
 
 def _iec_source(f: Finding) -> Finding:
-    """The finding with the IEC 60364 source of its installation rule, where one is known."""
+    """The finding with the IEC 60364 source of its installation rule, where one is known.
+
+    A clause quoted from memory is guidance: a finding resting on it alone is
+    advice (advisory), never required or urgent.
+    """
     src = IEC_INSTALLATION_SOURCES.get(f.rule)
     if src is None:
         return f
-    basis = "guidance" if f.rule == "earthing.ra-unstable" else f.basis
-    return dataclasses.replace(f, source=src, basis=basis)
+    if f.rule == "earthing.ra-unstable" or "from memory" in src:
+        severity = "advisory" if f.severity in ("urgent", "required") else f.severity
+        return dataclasses.replace(f, source=src, basis="guidance", severity=severity)
+    return dataclasses.replace(f, source=src)
 
 
 __all__ = ["analyse", "CHECKS", "Context"]

@@ -1,14 +1,15 @@
-"""What the residual-current protection covers: types, additional protection, leakage, lighting."""
+"""What the residual-current protection covers: types, leakage, lighting."""
 
 from __future__ import annotations
 
 from collections.abc import Iterator
 from typing import Any
 
+from model.rules.checks.additional import EV_LOADS, is_ev_point
 from model.rules.checks.cascade import DC_BLINDING_SOURCE
 from model.rules.checks.context import Context
 from model.rules.findings import Finding, Severity
-from model.rules.limits import ADDITIONAL_IDN_MA, ADDITIONAL_MAX_A, LEAKAGE_FRACTION
+from model.rules.limits import ADDITIONAL_IDN_MA, LEAKAGE_FRACTION
 
 #: Loads that can put smooth DC on the residual current (need Type B or DC detection).
 SMOOTH_DC_LOADS = frozenset({"ev-no-dc-detect", "drive-3ph", "inverter"})
@@ -16,6 +17,8 @@ SMOOTH_DC_LOADS = frozenset({"ev-no-dc-detect", "drive-3ph", "inverter"})
 DC_COMPONENT_LOADS = frozenset(
     {"ev-no-dc-detect", "ev-dc-detect-6ma", "inverter", "drive-1ph", "drive-3ph", "it-equipment"}
 )
+#: Circuit uses that are fixed equipment by nature (heating water or space).
+FIXED_HEATING_USES = frozenset({"shower", "water-heater", "heating"})
 #: The leakage limit as messages write it: '30 %' (of IΔn).
 _LEAKAGE_PCT = f"{100 * LEAKAGE_FRACTION.value:g} %"
 
@@ -27,8 +30,11 @@ def _is_general_30(node: Any) -> bool:
 def check_ac_unsuitable(ctx: Context) -> Iterator[Finding]:
     """``type.ac-unsuitable``: Type AC protecting anything but fixed equipment with no DC component.
 
-    Required where a circuit below has a load with a DC component, advisory
-    otherwise (an existing Type AC device on ordinary circuits).
+    Fixed equipment is a ``fixed-equipment`` circuit or a shower, water heater
+    or heating circuit; with no DC-producing load recorded it has no DC
+    component, and Type AC is allowed there.  One severity rule: required
+    where the rule set applies 531.3.3 as a standard, advisory where the rule
+    set presents it as common practice.
 
     References
     ----------
@@ -46,14 +52,15 @@ def check_ac_unsuitable(ctx: Context) -> Iterator[Finding]:
             cn = idx.by_id[c]
             if cn.kind != "circuit":
                 continue
-            if cn.use == "fixed-equipment" and not cn.loads:
+            if (cn.use == "fixed-equipment" or cn.use in FIXED_HEATING_USES) and not cn.loads:
                 continue
             unsuitable.append(c)
             if DC_COMPONENT_LOADS.intersection(cn.loads):
                 with_dc.append(c)
         if not unsuitable:
             continue
-        severity: Severity = "required" if with_dc else "advisory"
+        basis = "standard" if ctx.rules.name == "uk-bs7671-2022" else "common-practice"
+        severity: Severity = "required" if basis == "standard" else "advisory"
         names = ", ".join(idx.label(c) for c in unsuitable[:6])
         if len(unsuitable) > 6:
             names += f" and {len(unsuitable) - 6} more"
@@ -69,7 +76,7 @@ def check_ac_unsuitable(ctx: Context) -> Iterator[Finding]:
             ),
             action="Replace with a Type A device (Type F or B where the loads need it).",
             source=ctx.rules.type_ac_source,
-            basis="standard" if ctx.rules.name == "uk-bs7671-2022" else "common-practice",
+            basis=basis,
         )
 
 
@@ -99,7 +106,9 @@ def check_dc_load(ctx: Context) -> Iterator[Finding]:
         if not dc:
             continue
         path = idx.rcd_above[c]
-        if not any(str(idx.by_id[r].waveform) == "B" for r in path):
+        # an EV charger's own DC is judged by the EV rule (its own device must cope)
+        judged = [d for d in dc if not (d in EV_LOADS and is_ev_point(cn))]
+        if judged and not any(str(idx.by_id[r].waveform) == "B" for r in path):
             yield Finding(
                 rule="type.dc-load",
                 severity="required",
@@ -107,7 +116,7 @@ def check_dc_load(ctx: Context) -> Iterator[Finding]:
                 board=idx.board_of[c],
                 message=(
                     f"{idx.label(c)} feeds loads that can produce smooth DC residual current "
-                    f"({', '.join(dc)}) with no Type B device in its path."
+                    f"({', '.join(judged)}) with no Type B device in its path."
                 ),
                 action="Protect the circuit with a Type B RCD, or use equipment with its own "
                 "6 mA DC detection feeding from a Type A device.",
@@ -138,100 +147,6 @@ def check_dc_load(ctx: Context) -> Iterator[Finding]:
             "of this one, or make this device Type B.",
             source=DC_BLINDING_SOURCE,
             basis="guidance",
-        )
-
-
-def additional_reasons(ctx: Context, circuit: Any) -> list[tuple[str, str]]:
-    """Why a circuit needs 30 mA additional protection: (reason, source) pairs.
-
-    References
-    ----------
-    BS 7671 411.3.3 (sockets <= 32 A; mobile equipment outdoors <= 32 A);
-    411.3.4 (domestic lighting); 522.6.202/203 (concealed cables);
-    701.411.3.3 (bathrooms); 722.531.3.101 (EV charging).
-    """
-    uk = ctx.rules.name == "uk-bs7671-2022"
-
-    def src(uk_src: str, iec_src: str) -> str:
-        return uk_src if uk else iec_src + " (common practice)"
-
-    out: list[tuple[str, str]] = []
-    rated = circuit.rated_a
-    small = rated is None or rated <= ADDITIONAL_MAX_A.value
-    if circuit.use == "sockets" and small:
-        out.append(
-            (
-                f"socket-outlets up to {ADDITIONAL_MAX_A.text()}",
-                src("BS 7671 411.3.3(a)", "IEC 60364-4-41 411.3.3"),
-            )
-        )
-    outdoor = circuit.use == "outdoor" or (
-        "outdoor" in circuit.location and circuit.use not in ("fixed-equipment", "lighting")
-    )
-    if outdoor and small:
-        out.append(
-            ("mobile equipment used outdoors", src("BS 7671 411.3.3(b)", "IEC 60364-4-41 411.3.3"))
-        )
-    if circuit.use == "lighting" and ctx.site.site.domestic and ctx.rules.domestic_lighting:
-        out.append(("lighting in a dwelling", src("BS 7671 411.3.4", "IEC 60364-4-41 411.3.4")))
-    if circuit.concealed_shallow:
-        out.append(
-            (
-                "cables concealed less than 50 mm deep without protection",
-                src("BS 7671 522.6.202/522.6.203", "IEC 60364-5-52 522.6"),
-            )
-        )
-    if "bathroom" in circuit.location:
-        out.append(("serves a bathroom", src("BS 7671 701.411.3.3", "IEC 60364-7-701")))
-    if circuit.use == "ev-charger" or {"ev-no-dc-detect", "ev-dc-detect-6ma"} & set(circuit.loads):
-        out.append(("EV charging point", src("BS 7671 722.531.3.101", "IEC 60364-7-722")))
-    return out
-
-
-def check_additional_protection(ctx: Context) -> Iterator[Finding]:
-    """``coverage.additional-protection``: circuits that need a 30 mA general RCD and lack one.
-
-    Only a general-type (not time-delayed) protective device of IΔn <= 30 mA
-    in the circuit's path counts; an RCM never does.
-
-    References
-    ----------
-    BS 7671 411.3.3, 411.3.4, 522.6.202, 522.6.203, 701.411.3.3, 722.531.3.101.
-    """
-    idx = ctx.index
-    basis = ctx.rules.additional_basis
-    for c in idx.circuits():
-        cn = idx.by_id[c]
-        reasons = additional_reasons(ctx, cn)
-        if not reasons:
-            continue
-        if any(_is_general_30(idx.by_id[r]) for r in idx.rcd_above[c]):
-            continue
-        why = "; ".join(r for r, _ in reasons)
-        sources = "; ".join(dict.fromkeys(s for _, s in reasons))
-        path = idx.rcd_above[c]
-        have = (
-            "its only residual-current protection is "
-            + ", ".join(
-                f"{idx.label(r)} ({idx.by_id[r].idn_ma:g} mA {idx.by_id[r].delay})" for r in path
-            )
-            if path
-            else "it has no residual-current protection"
-        )
-        yield Finding(
-            rule="coverage.additional-protection",
-            severity="required",
-            nodes=(c, *path),
-            board=idx.board_of[c],
-            message=(
-                f"{idx.label(c)} needs additional protection by an RCD of "
-                f"{ADDITIONAL_IDN_MA.text()} or less "
-                f"({why}); {have}."
-            ),
-            action=f"Provide a general-type RCD or RCBO of IΔn ≤ {ADDITIONAL_IDN_MA.text()} "
-            "for this circuit.",
-            source=sources,
-            basis=basis,
         )
 
 
@@ -319,12 +234,48 @@ def check_leakage(ctx: Context) -> Iterator[Finding]:
             )
 
 
-def check_lighting(ctx: Context) -> Iterator[Finding]:
-    """``resilience.lighting-single-rcd``: one device's trip puts out all the lighting.
+#: Pair verdicts under which a fault below the downstream device cannot trip the upstream one.
+_DISCRIMINATES = frozenset({"selective", "selective-in-practice"})
 
-    Fires where the site has two or more lighting circuits and every one of
-    them has the same nearest residual-current device, which is the device a
-    fault on any of them trips first.
+
+def lighting_trip_devices(ctx: Context) -> tuple[list[str], list[str]]:
+    """(devices whose one trip can put out every lighting circuit, the lighting circuits).
+
+    A device counts where it is above every lighting circuit (two or more)
+    and, for each of them, is either the circuit's nearest RCD or is not
+    shown selective with that nearest RCD (so a fault there may trip it too).
+    Devices nearest first.
+    """
+    idx = ctx.index
+    lights = [c for c in idx.circuits() if idx.by_id[c].use == "lighting"]
+    if len(lights) < 2 or not all(idx.rcd_above[c] for c in lights):
+        return [], lights
+    common = set(idx.rcd_above[lights[0]]).intersection(*(idx.rcd_above[c] for c in lights[1:]))
+    if not common:
+        return [], lights
+    verdict = {(p.up, p.down): p.verdict for p in ctx.pairs}
+    devices = []
+    for dev in idx.rcd_above[lights[0]]:  # nearest first
+        if dev not in common:
+            continue
+        if all(
+            idx.rcd_above[c][0] == dev
+            or verdict.get((dev, idx.rcd_above[c][0])) not in _DISCRIMINATES
+            for c in lights
+        ):
+            devices.append(dev)
+    return devices, lights
+
+
+def check_lighting(ctx: Context) -> Iterator[Finding]:
+    """``resilience.lighting-single-rcd``: one device's trip can put out all the lighting.
+
+    Fires on the devices that are above every lighting circuit (two or more)
+    and are either each circuit's nearest RCD or not selective with it: a
+    fault on one lighting circuit, or elsewhere below such a device, can then
+    leave the site without lighting (for example a 30 mA general RCCB feeding
+    one lighting circuit directly and another through a sub-board's own 30 mA
+    RCCB).  Selectivity is the pair analysis's verdict.
 
     References
     ----------
@@ -332,25 +283,23 @@ def check_lighting(ctx: Context) -> Iterator[Finding]:
     danger and inconvenience in the event of a fault).
     """
     idx = ctx.index
-    lights = [c for c in idx.circuits() if idx.by_id[c].use == "lighting"]
-    if len(lights) < 2:
+    devices, lights = lighting_trip_devices(ctx)
+    if not devices:
         return
-    nearest = {idx.rcd_above[c][0] if idx.rcd_above[c] else None for c in lights}
-    if len(nearest) != 1:
-        return
-    (dev,) = nearest
-    if dev is None:
-        return
+    names = " or ".join(idx.label(d) for d in devices)
+    direct = all(idx.rcd_above[c][0] in devices for c in lights)
+    how = "" if direct else " (a fault below its downstream devices may trip it too: not selective)"
     yield Finding(
         rule="resilience.lighting-single-rcd",
         severity="advisory",
-        nodes=(dev, *lights),
-        board=idx.board_of[dev],
+        nodes=(*devices, *lights),
+        board=idx.board_of[devices[0]],
         message=(
-            f"All {len(lights)} lighting circuits are on {idx.label(dev)}: one trip leaves the "
-            "whole site without lighting."
+            f"All {len(lights)} lighting circuits depend on {names}: one trip can leave the "
+            f"whole site without lighting{how}."
         ),
-        action="Move a lighting circuit to a different RCD or RCBO so some lighting stays on.",
+        action="Move a lighting circuit to an RCD or RCBO that is not behind this one, or make "
+        "the devices in series selective, so some lighting stays on.",
         source="BS 7671 314.1/314.2; IEC 60364-3",
         basis="standard",
     )

@@ -27,8 +27,13 @@ def check_earthing(ctx: Context) -> Iterator[Finding]:
     ``earthing.tt-no-rcd``, ``earthing.ra-missing``.
 
     * TT: RA × IΔn <= 50 V for the device giving each circuit fault protection
-      (the most sensitive in its path); exactly 50 V passes.
-    * Zs <= 50 V / IΔn for an RCD-protected circuit (any earthing system).
+      (the most sensitive in its path); exactly 50 V passes.  Urgent where
+      U0 / RA is below IΔn (an earth fault may never reach the current that
+      operates the device); required for any smaller excess.
+    * Zs <= 50 V / IΔn (Table 41.5, tabulated values) where the RCD gives fault
+      protection: on TT, and elsewhere only for a circuit with no overcurrent
+      device in its path.  In TN the circuit's limit is that of its overcurrent
+      device, and Table 41.5 is not applied.
     * TT: RA above 200 Ω may not be stable.
     * TT: every circuit needs residual-current protection for fault protection.
 
@@ -91,7 +96,8 @@ def check_earthing(ctx: Context) -> Iterator[Finding]:
         ):
             ra_fail.setdefault(best, []).append(c)
         cn = idx.by_id[c]
-        if cn.zs_ohm is not None:
+        rcd_fault_protection = tt or not idx.ocpd_above[c]
+        if cn.zs_ohm is not None and rcd_fault_protection:
             limit = zs_limit_ohm(idn)
             if cn.zs_ohm > limit + 1e-9:
                 yield Finding(
@@ -101,7 +107,8 @@ def check_earthing(ctx: Context) -> Iterator[Finding]:
                     board=idx.board_of[c],
                     message=f"{idx.label(c)}: measured Zs {cn.zs_ohm:g} Ω exceeds "
                     f"{ZS_RCD_V.text()} / IΔn "
-                    f"= {limit:.4g} Ω for {idx.label(best)} ({idn:g} mA).",
+                    f"= {limit:.4g} Ω for {idx.label(best)} ({idn:g} mA), which gives the "
+                    "circuit its fault protection.",
                     action="Find and reduce the high loop impedance (connections, protective "
                     "conductor, electrode) and re-test.",
                     source=ZS_RCD_V.source,
@@ -111,16 +118,25 @@ def check_earthing(ctx: Context) -> Iterator[Finding]:
     for dev_id, circuits in ra_fail.items():
         dev = idx.by_id[dev_id]
         assert info.ra_ohm is not None
-        volts = tt_touch_voltage_v(info.ra_ohm, float(dev.idn_ma))
+        idn = float(dev.idn_ma)
+        volts = tt_touch_voltage_v(info.ra_ohm, idn)
+        fault_ma = info.u0_v / info.ra_ohm * 1000.0
+        never = fault_ma < idn
+        why = (
+            f" U0 / RA = {fault_ma:.3g} mA is below its IΔn: an earth fault may never operate it."
+            if never
+            else f" An earth fault (about {fault_ma:.3g} mA at U0 / RA) still operates it."
+        )
         yield Finding(
             rule="earthing.tt-ra",
-            severity="urgent",
+            severity="urgent" if never else "required",
             nodes=(dev_id, *circuits),
             board=idx.board_of[dev_id],
             message=(
                 f"RA × IΔn = {info.ra_ohm:g} Ω × {dev.idn_ma:g} mA = {volts:.3g} V, "
                 f"over {TT_TOUCH_V.text()}, "
-                f"for {idx.label(dev_id)}, which gives fault protection to {len(circuits)} circuit(s)."
+                f"for {idx.label(dev_id)}, which gives fault protection to {len(circuits)} "
+                f"circuit(s).{why}"
             ),
             action="Lower RA or protect these circuits with a more sensitive RCD so that "
             f"RA × IΔn ≤ {TT_TOUCH_V.text()}.",
