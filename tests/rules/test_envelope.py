@@ -130,7 +130,7 @@ def test_band_overlap_finding_and_its_near_miss(s_over_30: list[dict]) -> None:
     assert res.pairs[0].verdict == "not-guaranteed"
     # the action fits a delayed upstream device with 3:1: no "add a time delay"
     assert "time delay" not in f.action and "time-delayed" not in f.action
-    assert "upstream device of 500 mA would clear the bands" in f.action
+    assert "upstream device of 500 mA type S would clear the bands" in f.action
     # near miss: 500 mA S over 30 mA is selective across the whole range
     s_over_30[0]["idn_ma"] = 500.0
     assert not rules_of(run(s_over_30), "cascade.band-overlap")

@@ -77,7 +77,7 @@ def test_rule_met_but_bands_open_is_not_guaranteed_not_not_selective() -> None:
     )
     # the action never asks a delayed 3:1 upstream device for a delay and a greater IΔn
     assert "time-delayed" not in p.action and "three times" not in p.action
-    assert "upstream device of 500 mA would clear the bands" in p.action
+    assert "upstream device of 500 mA type S would clear the bands" in p.action
     # near miss: an undelayed upstream device fails the rule and stays "not selective"
     (q,) = run(pair(100, up_delay="general")).pairs
     assert q.verdict == "not-selective" and q.action.startswith("Use a time-delayed")

@@ -150,7 +150,7 @@ def remedies(
             [rows[i][2] for i in testable],
         )
         by_test = {i for k, i in enumerate(testable) if not unsafe_ranges(bands, k)}
-    for i, (_up, down, _imax, delayed, short, _confirmed) in enumerate(rows):
+    for i, (up, down, _imax, delayed, short, _confirmed) in enumerate(rows):
         readings = "or test both devices (AC, at IΔn and 5 IΔn) to show a margin in practice"
         if not delayed and short:
             out[i] = (
@@ -171,7 +171,8 @@ def remedies(
                     f"{FIVE_X_MAX_MS:g} ms would close the gap"
                 )
             if i in clears:
-                parts.append(f"an upstream device of {clears[i]:g} mA would clear the bands")
+                kind = "type S" if up.delay == "S" else "with the same set delay"
+                parts.append(f"an upstream device of {clears[i]:g} mA {kind} would clear the bands")
             lead = "; ".join(parts)
             out[i] = (
                 lead[:1].upper() + lead[1:] + "; or test" if lead else "Test"
