@@ -41,14 +41,37 @@ from model.site.terms import (
 
 
 class TrendSettings(StrictModel):
-    """Thresholds for flagging a trip time that has grown since the previous visit."""
+    """Thresholds for flagging a trip time that has grown since the previous visit.
+
+    A growth is judged against the test's band: it is flagged when it is more
+    than ``min_ms`` and either rises by more than ``limit_share_pct`` of the
+    band's maximum time or brings the time into the top ``top_pct`` of the
+    band.  Where the band has no maximum, or both band settings are empty,
+    the relative rule applies: more than ``growth_pct`` and more than ``min_ms``.
+    """
 
     growth_pct: Annotated[float, Field(gt=0, le=10_000)] = Field(
-        default=50.0, description="Growth that is flagged. [%]"
+        default=50.0,
+        description="Growth that is flagged where the band has no maximum time (or both "
+        "band settings are empty). [%]",
     )
     min_ms: Annotated[float, Field(ge=0, le=10_000)] = Field(
         default=10.0, description="Smallest growth that is flagged. [ms]"
     )
+    limit_share_pct: Annotated[float, Field(gt=0, le=100)] | None = Field(
+        default=25.0,
+        description="A rise by more than this share of the band's maximum time is flagged; "
+        "empty: not used. [%]",
+    )
+    top_pct: Annotated[float, Field(gt=0, le=100)] | None = Field(
+        default=20.0,
+        description="A time that rises into this top part of the band (from its minimum, or "
+        "0 ms, to its maximum) is flagged; empty: not used. [%]",
+    )
+
+    def band_rule(self) -> bool:
+        """True when growth is judged against the band (either band setting is set)."""
+        return self.limit_share_pct is not None or self.top_pct is not None
 
 
 class SiteInfo(StrictModel):
