@@ -166,8 +166,8 @@ def _time_band(
             True,
             None,
             None,
-            f"may trip at {tl.applied:g} × IΔn {waveform} (a trip is guaranteed only from "
-            f"{tl.factor:g} × IΔn); recorded, not judged",
+            f"may trip, not judged: with {waveform} current at {tl.applied:g} × IΔn "
+            f"(a trip is guaranteed only from {tl.factor:g} × IΔn)",
             tl.source,
             tl.basis,
             required,
