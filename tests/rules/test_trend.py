@@ -202,3 +202,25 @@ def test_top_fifth_of_an_s_band_runs_from_its_minimum() -> None:
 
     assert len(at(131.0)) == 1  # +21 ms, into the top fifth
     assert at(130.0) == []  # +20 ms, below a quarter of 150 ms and at the edge
+
+
+def test_a_version_1_file_keeps_its_settings_and_gets_the_band_rule() -> None:
+    # a version 1 file loads unchanged: its growth_pct and min_ms are kept, and the band
+    # rule (common practice, site setting) is added with its defaults
+    import json
+
+    from model.storage.codec import parse_site
+    from tests.visits_helpers import site_dict
+
+    doc = site_dict(
+        [
+            ("a", "2024-01-01", {"rc1": {"x1_0": 19.0}}),
+            ("b", "2025-01-01", {"rc1": {"x1_0": 38.0}}),
+        ],
+        trend={"growth_pct": 50.0, "min_ms": 10.0},
+    )
+    doc["version"] = 1
+    site = parse_site(json.dumps(doc))
+    t = site.site.trend
+    assert (t.growth_pct, t.min_ms, t.limit_share_pct, t.top_pct) == (50.0, 10.0, 25.0, 20.0)
+    assert trend(site) == []  # 19 -> 38 ms on a 300 ms band: scatter, no longer flagged
