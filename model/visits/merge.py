@@ -202,7 +202,8 @@ def _merge_reading(
         va, vb = getattr(ra, k), getattr(rb, k)
         if k == "further":  # equal on both sides here (else a whole-reading conflict)
             if va:
-                plan.keys[k] = Pick(*([[_dump(f) for f in va]] * 2))
+                dumped = [_dump(f) for f in va]
+                plan.keys[k] = Pick(dumped, dumped)
             continue
         if va == vb or blank(vb):
             plan.keys[k] = Pick(va, va)
