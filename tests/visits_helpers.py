@@ -82,6 +82,7 @@ SHEET_VALUE_COLUMNS = [
     "ramp [mA]",
     "button",
     "waveform",
+    "test_current",
     "note",
     "not_tested",
 ]
@@ -95,6 +96,7 @@ SHEET_KEYS = [
     "ramp_ma",
     "button",
     "waveform",
+    "test_current",
     "note",
     "not_tested",
 ]

@@ -9,6 +9,7 @@ from __future__ import annotations
 
 import datetime as dt
 from dataclasses import dataclass
+from typing import Any
 
 from model.reports.heading import Heading, build_heading
 from model.reports.text import clean, clean_lines
@@ -16,7 +17,7 @@ from model.rules.bands import (
     GROUP_TITLE,
     group_of,
     judge_ramp,
-    judge_reading,
+    judge_results,
     ramp_band,
     ramp_band_text,
     time_band,
@@ -85,6 +86,10 @@ class SheetRow:
     button_mark: str
     #: The reading's note; line breaks kept (renderers other than CSV join the lines).
     note: str
+    #: Half-wave or smooth DC: whether the test was at the rated multiple or scaled.
+    test_current: str | None = None
+    #: True for a row of a further test waveform's results (same device, same visit).
+    further: bool = False
 
 
 @dataclass(frozen=True)
@@ -113,68 +118,77 @@ def build_sheet(site: SiteFile, *, generated: dt.datetime | None = None) -> Shee
     for dev in idx.rcds():
         node = idx.node(dev)
         reading = visit.readings.get(dev) if visit is not None else None
-        waveform = reading.waveform if reading is not None else "AC"
-        judged = judge_reading(node, reading, rules) if reading is not None else {}
-        cells: list[SheetCell] = []
-        for t in TEST_NAMES:
-            g = group_of(t)
-            band = time_band(node, g, waveform, rules)
-            value = getattr(reading, t) if reading is not None else None
-            j = judged.get(t)
-            flag = j.flag if j is not None else None
-            title = f"{GROUP_TITLE[g]} {t.split('_')[1]}°"
-            cells.append(
-                SheetCell(
-                    t,
-                    title,
-                    value,
-                    band.text,
-                    _mark(flag, value, not band.may_trip),
-                    flag,
-                    band.required,
-                )
-            )
-        rb = ramp_band(node, waveform)
-        ramp_v = reading.ramp_ma if reading is not None else None
-        jr = judge_ramp(rb, ramp_v)
-        ramp = SheetCell(
-            "ramp_ma",
-            "Ramp",
-            ramp_v,
-            rb.text,
-            _mark(jr.flag, ramp_v, True),
-            jr.flag,
-            False,
-            short=ramp_band_text(rb, "inequality"),
-        )
-        button = reading.button if reading is not None else None
-        bmark = "" if button is None else (MARK_FAIL if button == "failed" else MARK_PASS)
-        rows.append(
-            SheetRow(
-                device_id=dev,
-                board=clean(idx.board_label(dev)),
-                label=clean(idx.label(dev)),
-                kind=str(node.kind),
-                idn_ma=float(node.idn_ma),
-                waveform_type=str(node.waveform),
-                delay=str(node.delay),
-                type_text=device_text(node),
-                recorded=reading is not None,
-                not_tested=None
-                if reading is None or reading.not_tested is None
-                else clean(reading.not_tested),
-                test_waveform=None if reading is None else reading.waveform,
-                tests=tuple(cells),
-                ramp=ramp,
-                button=button,
-                button_mark=bmark,
-                note="" if reading is None else clean_lines(reading.note),
-            )
-        )
+        rows.append(_row(idx, dev, node, reading, reading, rules))
+        for extra in reading.further if reading is not None else []:
+            rows.append(_row(idx, dev, node, reading, extra, rules))
     rs = rule_set(rules)
     return SheetDoc(
         heading=build_heading(site, visit, TITLE, generated),
         rows=tuple(rows),
         required_groups=tuple(GROUP_TITLE[g] for g in rs.required_tests),
         rules_source=rs.test_source,
+    )
+
+
+def _row(idx: SiteIndex, dev: str, node: Any, reading: Any, results: Any, rules: str) -> SheetRow:
+    """One row: a reading's own results (``results is reading``) or one further waveform's."""
+    own = results is reading
+    waveform = results.waveform if results is not None else "AC"
+    tc = results.test_current if results is not None else None
+    judged = judge_results(node, results, rules) if results is not None else {}
+    cells: list[SheetCell] = []
+    for t in TEST_NAMES:
+        g = group_of(t)
+        band = time_band(node, g, waveform, rules, tc)
+        value = getattr(results, t) if results is not None else None
+        j = judged.get(t)
+        flag = j.flag if j is not None else None
+        title = f"{GROUP_TITLE[g]} {t.split('_')[1]}°"
+        cells.append(
+            SheetCell(
+                t,
+                title,
+                value,
+                band.text,
+                _mark(flag, value, not band.may_trip),
+                flag,
+                band.required,
+            )
+        )
+    rb = ramp_band(node, waveform)
+    ramp_v = results.ramp_ma if results is not None else None
+    jr = judge_ramp(rb, ramp_v)
+    ramp = SheetCell(
+        "ramp_ma",
+        "Ramp",
+        ramp_v,
+        rb.text,
+        _mark(jr.flag, ramp_v, rb.applies),
+        jr.flag,
+        False,
+        short=ramp_band_text(rb, "inequality"),
+    )
+    button = reading.button if (reading is not None and own) else None
+    bmark = "" if button is None else (MARK_FAIL if button == "failed" else MARK_PASS)
+    return SheetRow(
+        device_id=dev,
+        board=clean(idx.board_label(dev)),
+        label=clean(idx.label(dev)),
+        kind=str(node.kind),
+        idn_ma=float(node.idn_ma),
+        waveform_type=str(node.waveform),
+        delay=str(node.delay),
+        type_text=device_text(node),
+        recorded=reading is not None,
+        not_tested=None
+        if reading is None or reading.not_tested is None or not own
+        else clean(reading.not_tested),
+        test_waveform=None if reading is None else waveform,
+        tests=tuple(cells),
+        ramp=ramp,
+        button=button,
+        button_mark=bmark,
+        note="" if reading is None or not own else clean_lines(reading.note),
+        test_current=tc,
+        further=not own,
     )

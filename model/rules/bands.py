@@ -12,12 +12,11 @@ from functools import lru_cache
 from typing import Any, Literal
 
 from model.rules.limits import (
-    IEC_61008_T1,
     NON_OPERATING_SOURCE,
-    break_limits_ms,
     operating_band,
     rule_set,
 )
+from model.rules.waveforms import WAVEFORM_TYPE_SOURCE, timed_limits, waveform_applies
 from model.site.terms import DID_NOT_TRIP, TEST_NAMES, choices_of
 
 TestGroup = Literal["half", "x1", "x5"]
@@ -43,7 +42,8 @@ class Band:
 
     ``must_trip`` False with ``may_trip`` False means the device must not trip;
     ``may_trip`` True means either outcome is within the product standard (so
-    the value is recorded but not judged).
+    the value is recorded but not judged).  ``applies`` False means the test
+    waveform is not a specified test of the device's type at all.
     """
 
     group: TestGroup
@@ -55,53 +55,88 @@ class Band:
     source: str
     basis: str
     required: bool
+    applies: bool = True
 
 
-def time_band(node: Any, group: TestGroup, waveform: str, rules: str) -> Band:
+#: Flags that record a failure of the device (as against a test that does not
+#: apply to it): these stay outstanding until a later passing test clears them.
+FAILURE_FLAGS: frozenset[str] = frozenset(
+    {
+        "reading.no-trip",
+        "reading.too-slow",
+        "reading.too-fast",
+        "reading.half-tripped",
+        "reading.ramp-out-of-band",
+        "reading.button-failed",
+    }
+)
+NOT_APPLICABLE = "reading.test-not-applicable"
+
+
+def time_band(
+    node: Any, group: TestGroup, waveform: str, rules: str, test_current: str | None = None
+) -> Band:
     """The band for a timed test on this device, with the test waveform used.
+
+    ``test_current`` says at which current a half-wave or smooth-DC test was
+    made ('rated' or 'scaled', see :class:`model.site.models.Reading`); not
+    recorded, the test is judged at the rated multiple, the smaller current.
 
     References
     ----------
     IEC 61008-1 Ed.3 Table 1 and IΔno = 0.5 IΔn; IEC 61009-1; BS 7671
-    Appendix 3 Table 3A; Type A half-wave band 0.35–1.4 IΔn (IEC 61008-1).
+    Appendix 3 Table 3A and 643.7.1; Type A half-wave band 0.35–1.4 IΔn and
+    its break-time currents (IEC 61008-1); IEC 62423; BS 7671 531.3.3.
     """
     d = node.__dict__
     return _time_band(
         float(d["idn_ma"]),
+        str(d.get("waveform", "A")),
         str(d.get("delay", "general")),
         d.get("delay_ms"),
         d.get("max_break_ms"),
         group,
         waveform,
         rules,
+        test_current == "scaled",
     )
 
 
 @lru_cache(maxsize=4096)
 def _time_band(
     idn: float,
+    dtype: str,
     delay: str,
     dms: float | None,
     bms: float | None,
     group: TestGroup,
     waveform: str,
     rules: str,
+    scaled: bool,
 ) -> Band:
     rs = rule_set(rules)
-    required = group in rs.required_tests
+    if not waveform_applies(dtype, waveform):
+        return Band(
+            group,
+            False,
+            True,
+            None,
+            None,
+            f"not a specified test for Type {dtype} (a {waveform} test current)",
+            WAVEFORM_TYPE_SOURCE,
+            "standard",
+            False,
+            applies=False,
+        )
+    # The required test is the AC test (BS 7671 643.7.1 note).
+    required = group in rs.required_tests and waveform == "AC"
+    op = operating_band(waveform, idn)
     if group == "half":
-        op = operating_band(waveform, idn)
-        if op.low >= 0.5:
+        applied = 0.5 * (op.time_multiplier if scaled else 1.0)
+        if applied <= op.low:
+            src = NON_OPERATING_SOURCE if waveform == "AC" else op.source
             return Band(
-                "half",
-                False,
-                False,
-                None,
-                None,
-                "must not trip",
-                NON_OPERATING_SOURCE,
-                "common-practice",
-                required,
+                "half", False, False, None, None, "must not trip", src, "common-practice", required
             )
         return Band(
             "half",
@@ -114,26 +149,34 @@ def _time_band(
             op.basis,
             required,
         )
-    mult = GROUP_MULTIPLE[group]
-    if delay == "set":
-        lo = float(dms) if (dms is not None and group == "x1") else None
-        hi = float(bms) if bms is not None else None
+    tl = timed_limits(
+        GROUP_MULTIPLE[group],
+        waveform,
+        idn,
+        delay,
+        scaled=scaled,
+        delay_ms=dms,
+        declared_max_ms=bms,
+    )
+    at = "" if waveform == "AC" else f" at {tl.applied:g} × IΔn {waveform}"
+    if not tl.must_trip:
         return Band(
             group,
-            True,
             False,
-            lo,
-            hi,
-            _range_text(lo, hi) + " (declared setting)",
-            "IEC 60947-2 Annex B (declared setting)",
-            "guidance",
+            True,
+            None,
+            None,
+            f"may trip, not judged: with {waveform} current at {tl.applied:g} × IΔn "
+            f"(a trip is guaranteed only from {tl.factor:g} × IΔn)",
+            tl.source,
+            tl.basis,
             required,
         )
-    lo_ms, hi_ms = break_limits_ms(mult, delay)
-    source = IEC_61008_T1 + ("; " + rs.test_source if required else "")
-    return Band(
-        group, True, False, lo_ms, hi_ms, _range_text(lo_ms, hi_ms), source, "standard", required
-    )
+    text = _range_text(tl.min_ms, tl.max_ms) + at
+    if delay == "set":
+        text += " (declared setting)"
+    source = tl.source + ("; " + rs.test_source if required else "")
+    return Band(group, True, False, tl.min_ms, tl.max_ms, text, source, tl.basis, required)
 
 
 def _range_text(lo: float | None, hi: float | None) -> str:
@@ -158,6 +201,10 @@ def judge_time(band: Band, value: float | str | None) -> Judgement:
     """Judge one timed result against its band.  ``value`` is ms or 'did not trip'."""
     if value is None:
         return Judgement(None, "not recorded")
+    if not band.applies:
+        return Judgement(NOT_APPLICABLE, f"recorded, but {band.text}")
+    if band.group != "half" and band.may_trip:
+        return Judgement(None, f"{fmt_result(value)}: {band.text}")
     if band.group == "half":
         if band.may_trip:
             return Judgement(None, "recorded (not judged for this waveform)")
@@ -200,6 +247,8 @@ class RampBand:
     high_ma: float
     source: str
     basis: str
+    #: False when the test waveform is not a specified test of the device's type.
+    applies: bool = True
 
     @property
     def text(self) -> str:
@@ -235,12 +284,18 @@ def ramp_band(node: Any, waveform: str) -> RampBand:
     """
     idn = float(node.idn_ma)
     op = operating_band(waveform, idn)
+    if not waveform_applies(str(node.__dict__.get("waveform", "A")), waveform):
+        return RampBand(
+            op.low * idn, op.high * idn, WAVEFORM_TYPE_SOURCE, "standard", applies=False
+        )
     return RampBand(op.low * idn, op.high * idn, op.source, op.basis)
 
 
 def judge_ramp(band: RampBand, ramp_ma: float | None) -> Judgement:
     if ramp_ma is None:
         return Judgement(None, "not recorded")
+    if not band.applies:
+        return Judgement(NOT_APPLICABLE, "recorded, but not a specified test for this type")
     if ramp_ma > band.high_ma:
         return Judgement("reading.ramp-out-of-band", f"{ramp_ma:g} mA is above {band.high_ma:g} mA")
     if ramp_ma <= band.low_ma:
@@ -285,14 +340,23 @@ def fmt_value(key: str, value: float | str | None) -> str:
     return str(value)
 
 
-def judge_reading(node: Any, reading: Any, rules: str) -> dict[str, Judgement]:
-    """Every recorded value of one reading judged against its band (keys: test names, 'ramp_ma', 'button')."""
+def judge_results(node: Any, results: Any, rules: str) -> dict[str, Judgement]:
+    """One set of results (one test waveform) judged: keys the test names and 'ramp_ma'."""
     out: dict[str, Judgement] = {}
-    bands = {g: time_band(node, g, reading.waveform, rules) for g in GROUPS}
-    values = reading.__dict__
+    tc = results.test_current
+    bands = {g: time_band(node, g, results.waveform, rules, tc) for g in GROUPS}
+    values = results.__dict__
     for t in TEST_NAMES:
         out[t] = judge_time(bands[_GROUP_OF[t]], values[t])
-    out["ramp_ma"] = judge_ramp(ramp_band(node, reading.waveform), reading.ramp_ma)
+    out["ramp_ma"] = judge_ramp(ramp_band(node, results.waveform), results.ramp_ma)
+    return out
+
+
+def judge_reading(node: Any, reading: Any, rules: str) -> dict[str, Judgement]:
+    """Every recorded value of one reading's own waveform judged against its band
+    (keys: test names, 'ramp_ma', 'button'); the results in ``further`` are
+    judged by :func:`judge_results`."""
+    out = judge_results(node, reading, rules)
     out["button"] = judge_button(reading.button)
     return out
 

@@ -28,11 +28,20 @@ from model.site.numbers import number_text, parse_number
 from model.site.terms import DID_NOT_TRIP, TEST_NAMES
 
 #: The fields in entry order (after the last comes the next device).
-ENTRY_ORDER: tuple[str, ...] = (*TEST_NAMES, "ramp_ma", "button", "waveform", "note")
+ENTRY_ORDER: tuple[str, ...] = (
+    *TEST_NAMES,
+    "ramp_ma",
+    "button",
+    "waveform",
+    "test_current",
+    "note",
+)
 #: Every field of the form: the entry order, then the reason a device was not tested.
 ENTRY_FIELDS: tuple[str, ...] = (*ENTRY_ORDER, "not_tested")
 #: Fields whose text is taken as it is (the others are numbers or 'did not trip').
-_TEXT_FIELDS = frozenset({"note", "not_tested", "button", "waveform"})
+_TEXT_FIELDS = frozenset({"note", "not_tested", "button", "waveform", "test_current"})
+#: Fields that belong to one test waveform's results (a page of the form).
+PAGE_FIELDS: tuple[str, ...] = (*TEST_NAMES, "ramp_ma", "waveform", "test_current")
 #: Fields judged against a band (a value in them is either flagged or in band).
 _JUDGED = frozenset({*TEST_NAMES, "ramp_ma", "button"})
 
@@ -79,13 +88,23 @@ def value_problem(name: str, value: float | str | None) -> str | None:
     return None
 
 
-def entry_texts(reading: Reading | None) -> dict[str, str]:
-    """The form's text for a recorded reading (empty fields where there is none)."""
+def entry_texts(reading: Reading | None, waveform: str | None = None) -> dict[str, str]:
+    """The form's text for a recorded reading (empty fields where there is none).
+
+    ``waveform`` picks the page of the form: the results taken with that test
+    waveform (the reading's own by default); the test button, note and
+    not-tested reason are the reading's whatever the page.
+    """
+    page = waveform or (reading.waveform if reading is not None else DEFAULT_TEST_WAVEFORM)
+    results = reading.results_for(page) if reading is not None else None
     texts: dict[str, str] = {}
     for name in ENTRY_FIELDS:
-        value = getattr(reading, name) if reading is not None else None
-        if name == "waveform" and value is None:
-            value = DEFAULT_TEST_WAVEFORM
+        if name == "waveform":
+            value: Any = page
+        elif name in PAGE_FIELDS:
+            value = getattr(results, name) if results is not None else None
+        else:
+            value = getattr(reading, name) if reading is not None else None
         if value is None:
             texts[name] = ""
         elif isinstance(value, float):
@@ -95,24 +114,66 @@ def entry_texts(reading: Reading | None) -> dict[str, str]:
     return texts
 
 
+def next_field(name: str, texts: dict[str, str]) -> str | None:
+    """The field after ``name`` in entry order; None after the last.
+
+    The test current convention only matters for a half-wave or smooth-DC
+    test, so with AC test current the form steps over it.
+    """
+    i = ENTRY_ORDER.index(name) + 1
+    while i < len(ENTRY_ORDER):
+        nxt = ENTRY_ORDER[i]
+        if nxt != "test_current" or chosen_waveform(texts) != DEFAULT_TEST_WAVEFORM:
+            return nxt
+        i += 1
+    return None
+
+
 def chosen_waveform(texts: dict[str, str]) -> str:
     """The test current the form's bands are for."""
     return texts.get("waveform") or DEFAULT_TEST_WAVEFORM
 
 
-def reading_from_texts(texts: dict[str, str]) -> Reading | None:
-    """The form as a Reading; None when nothing is recorded (no value and no note).
-
-    Raises ValueError (a ``ValidationError`` when the model refuses a value).
-    """
+def _typed(texts: dict[str, str], names: tuple[str, ...]) -> dict[str, Any]:
     data: dict[str, Any] = {}
-    for name in ENTRY_ORDER:
+    for name in names:
         value = typed_value(name, texts.get(name, ""))
         problem = value_problem(name, value)
         if problem:
             raise ValueError(problem)
         if value not in (None, ""):
             data[name] = value
+    return data
+
+
+def reading_from_texts(
+    texts: dict[str, str], base: Reading | None = None, page: str | None = None
+) -> Reading | None:
+    """The form as a Reading; None when nothing is recorded (no value and no note).
+
+    ``base`` is the reading recorded so far and ``page`` the test waveform
+    whose results the form was showing (see :func:`entry_texts`): the form's
+    page replaces those results and every other waveform's results of
+    ``base`` are kept.  Raises ValueError (a ``ValidationError`` when the
+    model refuses a value).
+    """
+    data = _typed(texts, ENTRY_ORDER)
+    further = [f.model_dump(exclude_defaults=True) for f in (base.further if base else [])]
+    if base is not None and page is not None and page != base.waveform:
+        own = {k: v for k, v in data.items() if k not in PAGE_FIELDS}
+        results = {k: v for k, v in data.items() if k in PAGE_FIELDS}
+        results.setdefault("waveform", chosen_waveform(texts))
+        kept = [f for f in further if f.get("waveform") != page]
+        if len(results) > 1:  # more than the waveform itself
+            at = next((i for i, f in enumerate(further) if f.get("waveform") == page), len(kept))
+            kept.insert(at, results)
+        base_own = base.model_dump(exclude_defaults=True, exclude={"further"})
+        for k in ("button", "note", "not_tested"):
+            base_own.pop(k, None)
+        data = {**base_own, **own}
+        further = kept
+    if further:
+        data["further"] = further
     reading = Reading.model_validate(data)
     if not reading.has_values() and not reading.note:
         return None
@@ -138,7 +199,9 @@ class EntryVerdict:
     mark: Mark
 
 
-def judge_entry(node: Any, name: str, text: str, waveform: str, rules: str) -> EntryVerdict:
+def judge_entry(
+    node: Any, name: str, text: str, waveform: str, rules: str, test_current: str | None = None
+) -> EntryVerdict:
     """Judge the text typed in one field of a device's reading form."""
     flag: str | None = None
     band_text = verdict = problem = need = ""
@@ -153,7 +216,7 @@ def judge_entry(node: Any, name: str, text: str, waveform: str, rules: str) -> E
         if problem:
             value = None  # refused, so never judged against the band
     if name in TEST_NAMES:
-        band = time_band(node, group_of(name), waveform, rules)
+        band = time_band(node, group_of(name), waveform, rules, test_current or None)
         need = "required" if band.required else "optional"
         band_text, may_trip = band.text, band.may_trip
         j = judge_time(band, value)
@@ -169,6 +232,8 @@ def judge_entry(node: Any, name: str, text: str, waveform: str, rules: str) -> E
         flag, verdict = j.flag, (j.text if value else "")
     elif name == "waveform":
         band_text = "sets the bands above"
+    elif name == "test_current":
+        band_text = "half-wave/DC: r × IΔn, s scaled"
     elif name == "not_tested":
         band_text = "reason, instead of values"
     mark: Mark = ""

@@ -45,6 +45,7 @@ from model.rules.limits import (
     BREAK_TIMES,
     NON_OPERATING_FRACTION,
 )
+from model.rules.waveforms import set_delay_times_ms
 
 FloatArray = npt.NDArray[np.float64]
 
@@ -108,7 +109,16 @@ class DeviceArrays:
         absolute = np.array(
             [b.abs_a * 1000.0 if b.abs_a is not None else np.nan for b in BREAK_TIMES]
         )
-        tab = np.where(np.isnan(mult)[None, :], absolute[None, :], mult[None, :] * idn[:, None])
+        # The absolute 5 A … 500 A columns apply only above 5 IΔn: for IΔn over
+        # 1 A a column below 5 IΔn is read at 5 IΔn, so the band is never
+        # faster at a lower current than at a higher one.
+        top = max(b.multiple for b in BREAK_TIMES if b.multiple is not None)
+        floor = (top * idn)[:, None]
+        tab = np.where(
+            np.isnan(mult)[None, :],
+            np.maximum(absolute[None, :], floor),
+            mult[None, :] * idn[:, None],
+        )
         # IEC 61008-1 Table 1 note: 0.25 A in place of 5 IΔn (general, IΔn <= 30 mA)
         alt = np.array([d.alt_5x for d in devices], dtype=bool).reshape(p)
         if alt.any():
@@ -121,8 +131,10 @@ class DeviceArrays:
         tmin = np.where((code == S_TYPE)[:, None], s_min[None, :], 0.0)
         set_rows = code == SET
         if set_rows.any():
-            dms = np.array([d.delay_ms or 0.0 for d in devices])
-            bms = np.array([d.max_break_ms if d.max_break_ms else np.inf for d in devices])
+            # The declared setting, read as the reading check reads it.
+            declared = [set_delay_times_ms(d.delay_ms, d.max_break_ms) for d in devices]
+            dms = np.array([lo or 0.0 for lo, _ in declared])
+            bms = np.array([hi if hi else np.inf for _, hi in declared])
             tmin = np.where(set_rows[:, None], dms[:, None], tmin)
             tmax = np.where(set_rows[:, None], bms[:, None], tmax)
         order = np.argsort(tab, axis=1, kind="stable")

@@ -9,7 +9,7 @@ from __future__ import annotations
 
 from collections.abc import Iterable
 
-from model.site.models import SiteFile, Visit
+from model.site.models import Reading, SiteFile, Visit
 
 
 def ordered_visits(site: SiteFile) -> list[Visit]:
@@ -72,3 +72,12 @@ def new_visit_id(date: str, taken: Iterable[str]) -> str:
     while f"{date}-{n}" in used:
         n += 1
     return f"{date}-{n}"
+
+
+def previous_reading(site: SiteFile, visit_id: str, device: str) -> tuple[Visit, Reading] | None:
+    """The latest reading of ``device`` with values on a visit earlier than ``visit_id``."""
+    for v in visits_before(site, visit_id):
+        r = v.readings.get(device)
+        if r is not None and r.has_values():
+            return v, r
+    return None

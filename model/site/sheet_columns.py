@@ -26,6 +26,7 @@ VALUE_COLUMNS: dict[str, str] = {
     RAMP_COLUMN: "ramp_ma",
     "button": "button",
     "waveform": "waveform",
+    "test_current": "test_current",
     "note": "note",
     "not_tested": "not_tested",
 }

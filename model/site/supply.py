@@ -53,6 +53,18 @@ TREND_NUMBERS: tuple[NumberField, ...] = (
         TrendSettings, "growth_pct", "Trend: growth flagged", "trip time growth since last visit"
     ),
     _number(TrendSettings, "min_ms", "Trend: smallest growth", "growth below this is not flagged"),
+    _number(
+        TrendSettings,
+        "limit_share_pct",
+        "Trend: rise vs limit",
+        "rise over this share of the band's maximum is flagged; empty: off",
+    ),
+    _number(
+        TrendSettings,
+        "top_pct",
+        "Trend: top of band",
+        "a time rising into this top part of the band is flagged; empty: off",
+    ),
 )
 NUMBER_FIELDS: tuple[NumberField, ...] = SUPPLY_NUMBERS + TREND_NUMBERS
 _BY_KEY = {f.key: f for f in NUMBER_FIELDS}
@@ -110,7 +122,7 @@ def site_info_from_form(form: Mapping[str, Any]) -> tuple[SiteInfo | None, dict[
         "ra_ohm": numbers["ra_ohm"],
         "rules": form["rules"],
         "domestic": form["domestic"],
-        "trend": {"growth_pct": numbers["growth_pct"], "min_ms": numbers["min_ms"]},
+        "trend": {f.key: numbers[f.key] for f in TREND_NUMBERS},
         "notes": form["notes"],
     }
     try:

@@ -61,6 +61,11 @@ LoadFlag = Literal[
 ]
 LocationFlag = Literal["bathroom", "outdoor", "agricultural", "swimming-pool", "sauna", "wet-area"]
 TestWaveform = Literal["AC", "half-wave", "smooth-dc"]
+#: The current a timed test with other than sinusoidal current was made at:
+#: ``rated``, the marked multiple of IΔn (a half-wave "1×" test at IΔn), or
+#: ``scaled``, that multiple times the waveform's factor (1.4 or 2 for half-wave,
+#: 2 for smooth DC), as the product standards test break times.
+TestCurrent = Literal["rated", "scaled"]
 TestName = Literal["half_0", "half_180", "x1_0", "x1_180", "x5_0", "x5_180"]
 ButtonResult = Literal["worked", "failed"]
 #: Kinds that are residual-current *protective* devices (an RCM is not).
@@ -105,6 +110,8 @@ TEST_LABELS: dict[str, str] = {
     "ramp_ma": "ramp test",
     "button": "test button",
     "waveform": "test waveform",
+    "test_current": "test current",
+    "further": "further test waveforms",
     "note": "note",
     "not_tested": "not tested",
 }

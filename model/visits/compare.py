@@ -23,7 +23,7 @@ from model.site.history import (
     visits_before,
 )
 from model.site.models import Reading, SiteFile, Visit
-from model.site.terms import DID_NOT_TRIP, TEST_VALUE_KEYS
+from model.site.terms import DID_NOT_TRIP, TEST_NAMES, TEST_VALUE_KEYS
 from model.site.tree import SiteIndex
 
 #: The values compared, in the order shown.
@@ -186,6 +186,32 @@ def _value_change(key: str, old: Reading | None, new: Reading | None) -> ValueCh
     return ValueChange(key, a, b, change, pct, unit)
 
 
+def _further_changes(old: Reading | None, new: Reading | None) -> tuple[ValueChange, ...]:
+    """The values of further test waveforms, keyed 'x1_0 (half-wave)'."""
+    waves: list[str] = []
+    for r in (old, new):
+        for f in r.further if r is not None else []:
+            if f.waveform not in waves:
+                waves.append(f.waveform)
+    out: list[ValueChange] = []
+    for wf in waves:
+        a = old.results_for(wf) if old is not None else None
+        b = new.results_for(wf) if new is not None else None
+        for k in (*TEST_NAMES, "ramp_ma", "test_current"):
+            va = None if a is None else getattr(a, k)
+            vb = None if b is None else getattr(b, k)
+            if va is None and vb is None:
+                continue
+            unit = value_unit(k)
+            na, nb = numeric_value(va), numeric_value(vb)
+            change = pct = None
+            if na is not None and nb is not None and unit:
+                change = nb - na
+                pct = 100.0 * change / na if na else None
+            out.append(ValueChange(f"{k} ({wf})", va, vb, change, pct, unit))
+    return tuple(out)
+
+
 def _match(
     old: list[Finding], new: list[Finding]
 ) -> tuple[list[Finding], list[Finding], list[Finding]]:
@@ -245,7 +271,7 @@ def compare_visits(
             _value_change(k, old, new)
             for k in COMPARED_KEYS
             if (old is not None and old.recorded(k)) or (new is not None and new.recorded(k))
-        )
+        ) + _further_changes(old, new)
         devices.append(
             DeviceComparison(dev, idx.label(dev), idx.board_of.get(dev, idx.root), presence, values)
         )
@@ -298,7 +324,8 @@ def compare_text(cmp: VisitComparison, width: int = 100) -> str:
         lines.append(f"  {d.label} ({d.device}){tag}")
         for v in d.values:
             lines.append(
-                f"    {v.key:<10} {fmt_value(v.key, v.old):>14} → {fmt_value(v.key, v.new):<14} "
+                f"    {v.key:<10} {fmt_value(v.key.split(' ')[0], v.old):>14} → "
+                f"{fmt_value(v.key.split(' ')[0], v.new):<14} "
                 f"{change_text(v)}"
             )
     if cmp.untested:

@@ -21,73 +21,38 @@ from __future__ import annotations
 import csv
 import io
 from dataclasses import dataclass, field
-from typing import Any, Literal
+from typing import Any
 
 from pydantic import ValidationError
 
 from model.site.history import find_visit, known_visits_text
 from model.site.messages import error_text
 from model.site.models import Reading, SiteFile, Visit, blank
-from model.site.numbers import parse_number
 from model.site.sheet_columns import DEVICE_COLUMN, VALUE_COLUMNS
 from model.site.terms import (
-    DID_NOT_TRIP,
     RCD_KINDS,
-    TEST_NAMES,
     TEST_VALUE_KEYS,
-    ButtonResult,
-    TestWaveform,
     choices_of,
-    or_list,
 )
 from model.storage.codec import SiteLoadError, dumps_site, parse_site
+from model.visits.import_cells import (
+    CsvImportError,
+    KeyChange,
+    RowError,
+    Status,
+    cell_value,
+    clean,
+    decode,
+    plan_further_row,
+    show,
+)
 
 KEY_COLUMN: dict[str, str] = {v: k for k, v in VALUE_COLUMNS.items()}
 IMPORT_KEYS: tuple[str, ...] = tuple(VALUE_COLUMNS.values())
-MAX_CSV_BYTES = 10 * 1024 * 1024
-
-#: Cell text (any case) -> the choice it records.
-_WAVEFORMS: dict[str, str] = {w.lower(): w for w in choices_of(TestWaveform)}
-_BUTTON: dict[str, str] = {b.lower(): b for b in choices_of(ButtonResult)}
 
 
 class ImportTargetError(ValueError):
     """The site or visit to import into cannot be used; ``str()`` is one line."""
-
-
-@dataclass(frozen=True, slots=True)
-class RowError:
-    """One problem in the CSV: its row (the header is row 1), column and why."""
-
-    row: int
-    column: str | None
-    message: str
-
-    def text(self) -> str:
-        where = f"row {self.row}" + (f", column {self.column!r}" if self.column else "")
-        return f"{where}: {self.message}"
-
-
-class CsvImportError(ValueError):
-    """The CSV has problems; ``errors`` lists every one.  Nothing was applied."""
-
-    def __init__(self, errors: list[RowError]) -> None:
-        self.errors = errors
-        super().__init__(f"{len(errors)} problem(s) in the CSV: " + errors[0].text())
-
-
-Status = Literal["added", "changed", "unchanged"]
-
-
-@dataclass(frozen=True, slots=True)
-class KeyChange:
-    """What the import does to one value of one device."""
-
-    device: str
-    key: str
-    old: Any
-    new: Any
-    status: Status
 
 
 @dataclass
@@ -113,62 +78,6 @@ class ImportPlan:
         return out
 
 
-def _clean(cell: str) -> str:
-    s = cell.strip()
-    if s.startswith("'"):
-        s = s[1:].strip()
-    return s
-
-
-def _number(text: str) -> float | None:
-    try:
-        return parse_number(text)
-    except ValueError:
-        return None
-
-
-def _cell_value(key: str, text: str) -> tuple[Any, str | None]:
-    """(value, error) for one non-empty cell."""
-    if key in TEST_NAMES:
-        if text.lower() == DID_NOT_TRIP:
-            return DID_NOT_TRIP, None
-        v = _number(text)
-        if v is None:
-            return None, f"{text!r} is not a trip time in ms or {DID_NOT_TRIP!r}"
-        return v, None
-    if key == "ramp_ma":
-        v = _number(text)
-        if v is None:
-            return None, f"{text!r} is not a current in mA"
-        return v, None
-    if key == "button":
-        b = _BUTTON.get(text.lower())
-        return (b, None) if b else (None, f"{text!r} is not {or_list(map(repr, _BUTTON.values()))}")
-    if key == "waveform":
-        w = _WAVEFORMS.get(text.lower())
-        return (w, None) if w else (None, f"{text!r} is not {or_list(_WAVEFORMS.values())}")
-    return text, None  # note, not_tested
-
-
-def _show(v: Any) -> str:
-    if v is None:
-        return "—"
-    if isinstance(v, float):
-        return f"{v:g}"
-    return str(v)
-
-
-def _decode(data: bytes | str) -> str:
-    if isinstance(data, str):
-        return data.lstrip("\ufeff")
-    if len(data) > MAX_CSV_BYTES:
-        raise CsvImportError([RowError(0, None, f"file is over {MAX_CSV_BYTES // 2**20} MB")])
-    try:
-        return data.decode("utf-8-sig")
-    except UnicodeDecodeError as exc:
-        raise CsvImportError([RowError(0, None, f"not UTF-8 text (byte {exc.start})")]) from None
-
-
 def _target_visit(site: SiteFile, visit_id: str | None) -> Visit:
     """The visit to import into: the one named, or the latest."""
     if visit_id is None:
@@ -184,7 +93,7 @@ def _target_visit(site: SiteFile, visit_id: str | None) -> Visit:
 
 def _records(data: bytes | str) -> list[list[str]]:
     """The CSV's rows, the header first (which must not be empty)."""
-    text = _decode(data)
+    text = decode(data)
     try:
         records = list(csv.reader(io.StringIO(text, newline="")))
     except csv.Error as exc:
@@ -236,7 +145,7 @@ def plan_import(site: SiteFile, data: bytes | str, visit_id: str | None = None) 
     """
     visit = _target_visit(site, visit_id)
     records = _records(data)
-    header = [_clean(c) for c in records[0]]
+    header = [clean(c) for c in records[0]]
     device_col, columns = _columns(header)
     ignored = [h for i, h in enumerate(header) if i != device_col and i not in columns and h]
 
@@ -249,9 +158,9 @@ def plan_import(site: SiteFile, data: bytes | str, visit_id: str | None = None) 
     for rec_no, rec in enumerate(records[1:], start=2):
         if not any(c.strip() for c in rec):
             continue
-        dev_cell = _clean(rec[device_col]) if device_col < len(rec) else ""
+        dev_cell = clean(rec[device_col]) if device_col < len(rec) else ""
         if not dev_cell and not any(
-            _clean(rec[i]) for i, name in columns.items() if name != "note" and i < len(rec)
+            clean(rec[i]) for i, name in columns.items() if name != "note" and i < len(rec)
         ):
             # no device and no values: the sheet's closing statement row, or a note line
             continue
@@ -261,16 +170,10 @@ def plan_import(site: SiteFile, data: bytes | str, visit_id: str | None = None) 
             row_errors.append(
                 RowError(rec_no, None, f"{len(rec)} cells but the header has {len(header)} columns")
             )
-        dev = _clean(rec[device_col]) if device_col < len(rec) else ""
+        dev = clean(rec[device_col]) if device_col < len(rec) else ""
         node = by_id.get(dev)
         if not dev:
             row_errors.append(RowError(rec_no, DEVICE_COLUMN, "no device id"))
-        elif dev in given_in:
-            row_errors.append(
-                RowError(
-                    rec_no, DEVICE_COLUMN, f"device {dev!r} is already given in row {given_in[dev]}"
-                )
-            )
         elif node is None:
             row_errors.append(RowError(rec_no, DEVICE_COLUMN, f"no device {dev!r} in this site"))
         elif node.kind not in RCD_KINDS:
@@ -281,23 +184,33 @@ def plan_import(site: SiteFile, data: bytes | str, visit_id: str | None = None) 
                     f"{dev!r} is a {node.kind}; readings are for residual-current devices",
                 )
             )
-        if dev and dev not in given_in:
-            given_in[dev] = rec_no
         values: dict[str, Any] = {}
         for i, col in columns.items():
-            cell = _clean(rec[i]) if i < len(rec) else ""
+            cell = clean(rec[i]) if i < len(rec) else ""
             if not cell:
                 continue
             key = VALUE_COLUMNS[col]
-            v, err = _cell_value(key, cell)
+            v, err = cell_value(key, cell)
             if err:
                 row_errors.append(RowError(rec_no, col, err))
             else:
                 values[key] = v
+        first = given_in.get(dev)
+        if first is not None and not row_errors:
+            # a further row of a device: another test waveform's results
+            base = new_readings.get(dev) or visit.readings.get(dev)
+            further = plan_further_row(rec_no, first, dev, base, values, row_errors)
+            if further is not None:
+                new_readings[dev], more = further
+                changes.extend(more)
+            errors.extend(row_errors)
+            continue
+        if dev and dev not in given_in:
+            given_in[dev] = rec_no
         if row_errors:
             errors.extend(row_errors)
             continue
-        old = visit.readings.get(dev)
+        old = new_readings.get(dev) or visit.readings.get(dev)
         if old is None and not any(k != "waveform" for k in values):
             continue  # an untested device's empty row: nothing to record
         merged = {} if old is None else old.model_dump(exclude_defaults=True)
@@ -374,6 +287,7 @@ def preview_text(plan: ImportPlan) -> str:
         if ch.device != current:
             current = ch.device
             lines.append(f"  {ch.device}")
-        what = f"{_show(ch.old)} → {_show(ch.new)}" if ch.status == "changed" else _show(ch.new)
-        lines.append(f"    {ch.status:<9} {KEY_COLUMN[ch.key]:<14} {what}")
+        what = f"{show(ch.old)} → {show(ch.new)}" if ch.status == "changed" else show(ch.new)
+        col = KEY_COLUMN[ch.key] + (f" ({ch.waveform})" if ch.waveform else "")
+        lines.append(f"    {ch.status:<9} {col:<14} {what}")
     return "\n".join(lines) + "\n"

@@ -170,13 +170,21 @@ def _merge_reading(
     if ra == rb:
         return ReadingPlan(whole=Pick(_dump(ra), _dump(ra)))
     where = f"visits {visit_id} readings {dev}"
-    if ra.waveform != rb.waveform or (ra.not_tested is None) != (rb.not_tested is None):
+    if (
+        ra.waveform != rb.waveform
+        or ra.test_current != rb.test_current
+        or ra.further != rb.further
+        or (ra.not_tested is None) != (rb.not_tested is None)
+    ):
         cid = f"reading:{visit_id}/{dev}"
-        why = (
-            f"test waveform {ra.waveform} / {rb.waveform}"
-            if ra.waveform != rb.waveform
-            else "not tested in one copy, tested in the other"
-        )
+        if ra.waveform != rb.waveform:
+            why = f"test waveform {ra.waveform} / {rb.waveform}"
+        elif ra.test_current != rb.test_current:
+            why = f"test current {ra.test_current} / {rb.test_current}"
+        elif ra.further != rb.further:
+            why = "results with further test waveforms differ"
+        else:
+            why = "not tested in one copy, tested in the other"
         add(
             Conflict(
                 cid,
@@ -192,6 +200,11 @@ def _merge_reading(
     plan = ReadingPlan(waveform=ra.waveform)
     for k in READING_KEYS:
         va, vb = getattr(ra, k), getattr(rb, k)
+        if k == "further":  # equal on both sides here (else a whole-reading conflict)
+            if va:
+                dumped = [_dump(f) for f in va]
+                plan.keys[k] = Pick(dumped, dumped)
+            continue
         if va == vb or blank(vb):
             plan.keys[k] = Pick(va, va)
         elif blank(va):

@@ -22,7 +22,7 @@ from model.site.terms import FORMAT_NAME, FORMAT_VERSION, TEST_VALUE_KEYS
 from model.visits.merge_conflicts import CHOICES, Accounted, Choice, Conflict, MergeError
 
 #: The values of a reading, each merged on its own.
-READING_KEYS: tuple[str, ...] = (*TEST_VALUE_KEYS, "note", "not_tested")
+READING_KEYS: tuple[str, ...] = (*TEST_VALUE_KEYS, "test_current", "further", "note", "not_tested")
 
 
 def recorded_keys(r: Reading) -> list[str]:

@@ -47,9 +47,24 @@ def _value(cell: str) -> float | str | None:
 def _assert_equals_readings(site: SiteFile, rows: list[dict[str, str]]) -> None:
     idx = SiteIndex.build(site)
     visit = site.latest_visit()
-    assert [r["device"] for r in rows] == idx.rcds()  # one row per RCD, tree order
+    # one row per RCD, tree order, then one row per further test waveform of its reading
+    want = []
+    for d in idx.rcds():
+        r0 = visit.readings.get(d) if visit else None
+        want += [d] * (1 + (len(r0.further) if r0 is not None else 0))
+    assert [r["device"] for r in rows] == want
+    seen: set[str] = set()
     for r in rows:
         reading = visit.readings.get(r["device"]) if visit else None
+        if reading is not None and r["device"] in seen:
+            further = reading.results_for(r["waveform"])
+            assert further is not None and further is not reading
+            for t in TEST_NAMES:
+                assert _value(r[f"{t} [ms]"]) == getattr(further, t), (r["device"], t)
+            assert (r["test_current"] or None) == further.test_current
+            assert r["button"] == r["note"] == r["not_tested"] == ""
+            continue
+        seen.add(r["device"])
         if reading is None:
             assert all(r[f"{t} [ms]"] == "" for t in TEST_NAMES)
             assert r["ramp [mA]"] == r["button"] == r["not_tested"] == ""

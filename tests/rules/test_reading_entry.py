@@ -34,7 +34,7 @@ def site() -> SiteFile:
 
 
 def test_fields_in_entry_order() -> None:
-    assert (*TEST_NAMES, "ramp_ma", "button", "waveform", "note") == ENTRY_ORDER
+    assert (*TEST_NAMES, "ramp_ma", "button", "waveform", "test_current", "note") == ENTRY_ORDER
     assert (*ENTRY_ORDER, "not_tested") == ENTRY_FIELDS
 
 
@@ -171,3 +171,29 @@ def test_the_largest_and_smallest_accepted_times_are_judged(site: SiteFile) -> N
     assert (slow.mark, slow.flag) == ("flagged", "reading.too-slow")
     quick = judge_entry(site.node("rc1"), "x1_0", "0.5", "AC", UK)
     assert quick.mark == "in band"
+
+
+def test_a_second_waveform_page_keeps_the_first() -> None:
+    # an AC and a half-wave test on one visit (BS 7671 643.7.1 note: the AC test is the
+    # required one; IEC 61008-1 Type A half-wave test at 1.4 IΔn when scaled)
+    from model.site.models import Reading
+
+    base = Reading.model_validate({"x1_0": 22.0, "button": "worked"})
+    page = entry_texts(base, "half-wave")
+    assert page["x1_0"] == "" and page["waveform"] == "half-wave" and page["button"] == "worked"
+    page.update(x1_0="27", test_current="scaled")
+    r = reading_from_texts(page, base, "half-wave")
+    assert r is not None and r.x1_0 == 22.0 and r.button == "worked"
+    assert r.results_for("half-wave").x1_0 == 27.0  # type: ignore[union-attr]
+    assert r.results_for("half-wave").test_current == "scaled"  # type: ignore[union-attr]
+    # the AC page again shows the AC values; editing it keeps the half-wave results
+    ac = entry_texts(r, "AC")
+    assert ac["x1_0"] == "22" and ac["test_current"] == ""
+    ac["x5_0"] = "11"
+    r2 = reading_from_texts(ac, r, "AC")
+    assert r2 is not None and r2.x5_0 == 11.0 and r2.further == r.further
+    # emptying the half-wave page removes those results
+    empty = entry_texts(r2, "half-wave")
+    empty.update(x1_0="", test_current="")
+    r3 = reading_from_texts(empty, r2, "half-wave")
+    assert r3 is not None and r3.further == []

@@ -1,7 +1,9 @@
 """``reading.trend``: growth of a trip time between visits, and a device that passed then fails.
 
-The growth thresholds are the site's own settings (default 50 % and 10 ms):
-a fact of practice, not a published limit.  The pass/fail bands are those of
+The growth thresholds are the site's own settings (default: a rise over a
+quarter of the band's maximum, or into the top fifth of the band, by over
+10 ms; the relative rule 50 % and 10 ms where the band has no maximum or the
+band settings are empty): a fact of practice, not a published limit.  The pass/fail bands are those of
 IEC 61008-1 Ed.3 Table 1 (general type: 1 × IΔn at most 300 ms, 5 × IΔn at
 most 40 ms).
 """
@@ -16,9 +18,11 @@ from model.rules.checks import CHECKS, analyse
 from model.rules.checks.context import Context
 from model.rules.checks.trend import check_trend
 from model.rules.findings import Finding
-from tests.visits_helpers import make_site
+from tests.visits_helpers import NODES, make_site
 
 V1, V2, V3 = ("v2019", "2019-03-01"), ("v2022", "2022-03-01"), ("v2025", "2025-03-01")
+#: The relative rule alone (both band settings empty), as a site may choose.
+REL: dict[str, Any] = {"trend": {"limit_share_pct": None, "top_pct": None}}
 
 
 def trend(site: Any) -> list[Finding]:
@@ -34,14 +38,14 @@ def history(r1: dict[str, Any], r2: dict[str, Any], r3: dict[str, Any], **kw: An
 
 def test_registered_in_checks() -> None:
     assert check_trend in CHECKS
-    site = history({"x1_180": 20.0}, {"x1_180": 20.0}, {"x1_180": 31.0})
+    site = history({"x1_180": 20.0}, {"x1_180": 20.0}, {"x1_180": 31.0}, **REL)
     assert [f.rule for f in analyse(site).findings].count("reading.trend") == 1
 
 
 @pytest.mark.parametrize(
     ("before", "after", "fires"),
     [
-        # common practice, site default 50 % and 10 ms, both must be exceeded
+        # common practice, the relative rule 50 % and 10 ms, both must be exceeded
         (20.0, 29.0, False),  # +45 %, +9 ms: under both
         (20.0, 31.0, True),  # +55 %, +11 ms: over both
         (40.0, 55.0, False),  # +37.5 %, +15 ms: ms over, % under
@@ -52,7 +56,7 @@ def test_registered_in_checks() -> None:
 )
 def test_growth_threshold_against_previous_visit(before: float, after: float, fires: bool) -> None:
     # the 2019 value is far lower: only the previous visit (2022) counts
-    site = history({"x1_180": 5.0}, {"x1_180": before}, {"x1_180": after})
+    site = history({"x1_180": 5.0}, {"x1_180": before}, {"x1_180": after}, **REL)
     found = trend(site)
     assert bool(found) is fires
     if fires:
@@ -71,31 +75,31 @@ def test_growth_threshold_against_previous_visit(before: float, after: float, fi
 
 def test_site_settings_are_used() -> None:
     # site's own trend settings: 20 % and 5 ms (common practice: a site's choice)
-    kw = {"trend": {"growth_pct": 20.0, "min_ms": 5.0}}
+    kw = {"trend": {"growth_pct": 20.0, "min_ms": 5.0, "limit_share_pct": None, "top_pct": None}}
     assert trend(history({}, {"x1_0": 20.0}, {"x1_0": 25.0}, **kw)) == []  # +25 %, 5 ms not > 5
     assert len(trend(history({}, {"x1_0": 20.0}, {"x1_0": 26.0}, **kw))) == 1  # +30 %, +6 ms
-    # the same 20 -> 26 ms is under the default 50 % / 10 ms
+    # the same 20 -> 26 ms is under the relative 50 % / 10 ms and far from the band
     assert trend(history({}, {"x1_0": 20.0}, {"x1_0": 26.0})) == []
 
 
 def test_previous_visit_with_that_test_is_used() -> None:
     # 2022 has no x1_180 at all: compare with 2019
-    site = history({"x1_180": 20.0}, {"x5_0": 12.0}, {"x1_180": 31.0})
+    site = history({"x1_180": 20.0}, {"x5_0": 12.0}, {"x1_180": 31.0}, **REL)
     (f,) = trend(site)
     assert "20 ms (2019-03-01, visit v2019)" in f.message
 
 
 def test_like_with_like_test_waveform() -> None:
     # the 2022 test was made with half-wave current; compare the AC result with 2019's AC one
-    site = history({"x1_0": 30.0}, {"x1_0": 12.0, "waveform": "half-wave"}, {"x1_0": 31.0})
+    site = history({"x1_0": 30.0}, {"x1_0": 12.0, "waveform": "half-wave"}, {"x1_0": 31.0}, **REL)
     assert trend(site) == []  # 30 -> 31 ms: no growth to speak of
-    site = history({"x1_0": 12.0}, {"x1_0": 30.0, "waveform": "half-wave"}, {"x1_0": 31.0})
+    site = history({"x1_0": 12.0}, {"x1_0": 30.0, "waveform": "half-wave"}, {"x1_0": 31.0}, **REL)
     (f,) = trend(site)
     assert "12 ms (2019-03-01, visit v2019)" in f.message
 
 
 def test_several_tests_grown_make_one_finding() -> None:
-    site = history({}, {"x1_0": 20.0, "x5_0": 10.0}, {"x1_0": 40.0, "x5_0": 25.0})
+    site = history({}, {"x1_0": 20.0, "x5_0": 10.0}, {"x1_0": 40.0, "x5_0": 25.0}, **REL)
     (f,) = trend(site)
     assert "x1_0 20 ms" in f.message and "x5_0 10 ms" in f.message
 
@@ -142,7 +146,7 @@ def test_latest_is_by_date_not_list_order() -> None:
         (V1[0], V1[1], {"rc1": {"x1_180": 5.0}}),
         (V2[0], V2[1], {"rc1": {"x1_180": 20.0}}),
     ]
-    (f,) = trend(make_site(visits))
+    (f,) = trend(make_site(visits, **REL))
     assert f.visit == "v2025" and "20 ms (2022-03-01, visit v2022)" in f.message
 
 
@@ -154,3 +158,69 @@ def test_other_device_history_does_not_leak() -> None:
         ]
     )
     assert trend(site) == []
+
+
+# ---------------------------------------------------------------- growth against the band
+@pytest.mark.parametrize(
+    ("before", "after", "fires"),
+    [
+        # IEC 61008-1 Table 1: 30 mA general, 300 ms at IΔn; site default: a rise over
+        # 25 % of the limit (75 ms) or into the top fifth (over 240 ms), by over 10 ms
+        (19.0, 38.0, False),  # normal scatter: +19 ms, far from the limit
+        (19.0, 94.0, False),  # +75 ms: not more than a quarter of 300 ms
+        (19.0, 95.0, True),  # +76 ms
+        (200.0, 241.0, True),  # into the top fifth (over 240 ms)
+        (200.0, 240.0, False),  # at the edge, not into it
+        (235.0, 244.0, False),  # into the top fifth, but only +9 ms
+        (245.0, 260.0, False),  # already in the top fifth: no rise into it
+    ],
+)
+def test_growth_is_judged_against_the_band(before: float, after: float, fires: bool) -> None:
+    site = history({}, {"x1_0": before}, {"x1_0": after})
+    found = trend(site)
+    assert bool(found) is fires
+    if fires:
+        assert "25 % of the band's maximum" in found[0].message
+        assert "top 20 %" in (found[0].band or "")
+
+
+def test_top_fifth_of_an_s_band_runs_from_its_minimum() -> None:
+    # IEC 61008-1 Table 1, type S at 5 IΔn: 50–150 ms, so its top fifth is above 130 ms
+    nodes = [dict(n) for n in NODES]
+    nodes[2].update(idn_ma=100, delay="S")
+
+    def at(x5: float) -> list[Finding]:
+        return trend(
+            make_site(
+                [
+                    ("a", "2024-01-01", {"rc1": {"x1_0": 200.0, "x5_0": 110.0}}),
+                    ("b", "2025-01-01", {"rc1": {"x1_0": 200.0, "x5_0": x5}}),
+                ],
+                nodes,
+            )
+        )
+
+    assert len(at(131.0)) == 1  # +21 ms, into the top fifth
+    assert at(130.0) == []  # +20 ms, below a quarter of 150 ms and at the edge
+
+
+def test_a_version_1_file_keeps_its_settings_and_gets_the_band_rule() -> None:
+    # a version 1 file loads unchanged: its growth_pct and min_ms are kept, and the band
+    # rule (common practice, site setting) is added with its defaults
+    import json
+
+    from model.storage.codec import parse_site
+    from tests.visits_helpers import site_dict
+
+    doc = site_dict(
+        [
+            ("a", "2024-01-01", {"rc1": {"x1_0": 19.0}}),
+            ("b", "2025-01-01", {"rc1": {"x1_0": 38.0}}),
+        ],
+        trend={"growth_pct": 50.0, "min_ms": 10.0},
+    )
+    doc["version"] = 1
+    site = parse_site(json.dumps(doc))
+    t = site.site.trend
+    assert (t.growth_pct, t.min_ms, t.limit_share_pct, t.top_pct) == (50.0, 10.0, 25.0, 20.0)
+    assert trend(site) == []  # 19 -> 38 ms on a 300 ms band: scatter, no longer flagged

@@ -36,6 +36,8 @@ def form_of(info: SiteInfo, **typed: Any) -> dict[str, Any]:
         "domestic": info.domestic,
         "growth_pct": fmt(info.trend.growth_pct),
         "min_ms": fmt(info.trend.min_ms),
+        "limit_share_pct": fmt(info.trend.limit_share_pct),
+        "top_pct": fmt(info.trend.top_pct),
         "notes": info.notes,
     }
     form.update(typed)
@@ -57,13 +59,23 @@ def test_which_impedance_each_earthing_system_shows() -> None:
 
 def test_number_fields_take_unit_and_need_from_the_model() -> None:
     fields = {f.key: f for f in NUMBER_FIELDS}
-    assert list(fields) == ["u0_v", "ze_ohm", "ra_ohm", "growth_pct", "min_ms"]
+    assert list(fields) == [
+        "u0_v",
+        "ze_ohm",
+        "ra_ohm",
+        "growth_pct",
+        "min_ms",
+        "limit_share_pct",
+        "top_pct",
+    ]
     assert [(f.label, f.unit, f.required) for f in NUMBER_FIELDS] == [
         ("U0", "V", True),
         ("Ze", "Ω", False),
         ("RA", "Ω", False),
         ("Trend: growth flagged", "%", True),
         ("Trend: smallest growth", "ms", True),
+        ("Trend: rise vs limit", "%", False),
+        ("Trend: top of band", "%", False),
     ]
 
 

@@ -200,3 +200,39 @@ async def test_a_wrong_value_is_shown_as_typed_and_refused_with_the_reason(
         assert app.site.latest_visit().readings.get("rb2") is None  # type: ignore[union-attr]
         await app.settle()
     assert oak_lane.read_bytes() == before
+
+
+async def test_previous_visit_value_beside_each_field_and_a_second_waveform(
+    oak_lane: Path,
+) -> None:
+    app = make_app(oak_lane)
+    async with app.run_test(size=(120, 40)) as pilot:
+        await app.settle()
+        app.main.select("rc1")
+        await pilot.press("r")
+        screen = app.screen
+        assert isinstance(screen, ReadingScreen) and screen.device_id == "rc1"
+        # the sample's latest visit is 2026-11-14; its earlier one, 2023-05-09, had 21 ms at 1× 0°
+        assert screen.previous is not None and screen.previous[0].date == "2023-05-09"
+        pad = screen.pad.render().plain
+        x1_row = next(line for line in pad.splitlines() if "1× IΔn   0°" in line)
+        assert "was 21 ms" in x1_row
+        header = screen.query_one("#rd-device").render().plain  # type: ignore[attr-defined]
+        assert "AC test current" in header and "2023-05-09" in header
+        # a second waveform on the same visit: ^W to half-wave, then 1× at 0°
+        await pilot.press("ctrl+w")
+        assert screen.page == "half-wave" and screen.pad.values["x1_0"] == ""
+        await pilot.press("down", "down", "2", "7", "enter")
+        # IEC 61008-1 Type A: a half-wave "1×" test at IΔn need not trip: recorded, not judged
+        assert screen.flags["x1_0"] is None
+        await app.settle()
+        reading = app.site.latest_visit().readings["rc1"]  # type: ignore[union-attr]
+        assert reading.x1_0 == 22.0  # the AC result kept
+        hw = reading.results_for("half-wave")
+        assert hw is not None and hw.x1_0 == 27.0
+        # back to AC (^W twice: smooth DC, then AC): the AC values are shown again
+        await pilot.press("ctrl+w", "ctrl+w")
+        assert screen.page == "AC" and screen.pad.values["x1_0"] == "22"
+        await pilot.press("ctrl+s")
+    saved = load_site(oak_lane).latest_visit()
+    assert saved is not None and saved.readings["rc1"].further[0].x1_0 == 27.0

@@ -119,3 +119,24 @@ def test_text_names_both_visits_and_caution() -> None:
     text = compare_text(compare_visits(three_visits()))
     assert "visit v2 (2022-03-01) → visit v3 (2025-03-01)" in text
     assert "+298 ms" in text and "not a certificate" in text
+
+
+def test_further_waveform_values_are_compared() -> None:
+    site = make_site(
+        [
+            (
+                "a",
+                "2024-01-01",
+                {"rc1": {"x1_0": 20.0, "further": [{"waveform": "half-wave", "x1_0": 25.0}]}},
+            ),
+            (
+                "b",
+                "2025-01-01",
+                {"rc1": {"x1_0": 21.0, "further": [{"waveform": "half-wave", "x1_0": 30.0}]}},
+            ),
+        ]
+    )
+    d = compare_visits(site).device("rc1")
+    (v,) = [v for v in d.values if v.key == "x1_0 (half-wave)"]
+    assert (v.old, v.new, v.change, v.unit) == (25.0, 30.0, 5.0, "ms")
+    assert "x1_0 (half-wave)" in compare_text(compare_visits(site))

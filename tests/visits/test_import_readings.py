@@ -172,3 +172,33 @@ def test_blank_lines_and_bom_are_fine(tmp_path: Path) -> None:
     data = ("\ufeff" + sheet_csv([{"device": "rc1", "x1_0": 20.0}]) + "\r\n,,,\r\n").encode()
     plan = plan_import(site, data)
     assert plan.rows == 1 and plan.site.visits[0].readings["rc1"].x1_0 == 20.0
+
+
+def test_a_further_row_brings_another_waveforms_results() -> None:
+    # an AC and a half-wave test on one visit (BS 7671 643.7.1 note: the AC one is required)
+    site = make_site([("v1", "2025-01-01", {"rc1": {"x1_0": 22.0, "button": "worked"}})])
+    csv_text = sheet_csv(
+        [
+            {"device": "rc1", "x5_0": 11.0},
+            {"device": "rc1", "waveform": "half-wave", "test_current": "scaled", "x1_0": 27.0},
+        ]
+    )
+    plan = plan_import(site, csv_text)
+    r = plan.site.visits[0].readings["rc1"]
+    assert (r.x1_0, r.x5_0, r.button, r.waveform) == (22.0, 11.0, "worked", "AC")
+    hw = r.results_for("half-wave")
+    assert hw is not None and (hw.x1_0, hw.test_current) == (27.0, "scaled")
+    assert ("rc1", "x1_0", "added", "half-wave") in {
+        (c.device, c.key, c.status, c.waveform) for c in plan.changes
+    }
+    # near miss: the same waveform twice, and a button on a further row, are refused
+    bad = sheet_csv(
+        [
+            {"device": "rc1", "x5_0": 11.0},
+            {"device": "rc1", "waveform": "AC", "x1_0": 27.0},
+            {"device": "rc1", "waveform": "smooth-dc", "x1_0": 27.0, "button": "failed"},
+        ]
+    )
+    with pytest.raises(CsvImportError) as info:
+        plan_import(site, bad)
+    assert [(e.row, e.column) for e in info.value.errors] == [(3, "waveform"), (4, "button")]

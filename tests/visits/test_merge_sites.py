@@ -319,3 +319,16 @@ def test_node_whose_parent_is_missing_is_a_conflict() -> None:
     assert all(n.id != "x9" for n in res.resolve("ours").nodes)
     with pytest.raises(MergeError, match="ghost"):
         res.resolve("theirs")
+
+
+def test_further_waveform_results_survive_a_merge() -> None:
+    # nothing recorded is dropped: equal further results are kept, differing ones conflict
+    hw = {"waveform": "half-wave", "test_current": "scaled", "x1_0": 25.0}
+    a = make_site([("v", "2025-01-01", {"rc1": {"x1_0": 20.0, "further": [hw]}})])
+    b = make_site([("v", "2025-01-01", {"rc1": {"x1_0": 20.0, "x5_0": 9.0, "further": [hw]}})])
+    merged = merge_sites(a, b).merged().visits[0].readings["rc1"]
+    assert merged.x5_0 == 9.0 and merged.further[0].x1_0 == 25.0
+    c = make_site([("v", "2025-01-01", {"rc1": {"x1_0": 20.0}})])
+    res = merge_sites(a, c)
+    assert [x.id for x in res.conflicts] == ["reading:v/rc1"]
+    assert res.resolve("ours").visits[0].readings["rc1"].further[0].test_current == "scaled"

@@ -42,6 +42,8 @@ KEY_MAP: list[tuple[str, str, str]] = [
     ("readings", "n", "in a time field: did not trip (and go on)"),
     ("readings", "w  f", "test button: worked / failed (and go on)"),
     ("readings", "a  h  d", "test waveform: AC / half-wave / smooth DC (and go on)"),
+    ("readings", "r  s", "half-wave/DC test made at the rated multiple / scaled current"),
+    ("readings", "ctrl+w", "show the next test waveform's results (AC, half-wave, DC)"),
     ("readings", "enter on the note", "record and go to the next untested device"),
     ("readings", "ctrl+t", "not tested: give a reason instead of values"),
     ("readings", "ctrl+n  ctrl+p", "next / previous device"),

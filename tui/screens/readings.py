@@ -22,56 +22,33 @@ from textual.screen import Screen
 from textual.widgets import Static
 
 from model.rules.entry import (
-    ENTRY_ORDER,
     EntryVerdict,
     chosen_waveform,
     entry_texts,
     judge_entry,
+    next_field,
     reading_from_texts,
 )
 from model.site.editing import is_untested, next_untested
-from model.site.fields import errors_by_field, field_choices
-from model.site.models import Reading
+from model.site.fields import errors_by_field
+from model.site.history import previous_reading
+from model.site.models import Reading, Visit
+from model.site.terms import TestWaveform, choices_of
 from tui.app.view import site_view
-from tui.format import LIVE_TEST_CAUTION, node_summary, node_title
+from tui.format import LIVE_TEST_CAUTION
+from tui.screens.reading_fields import (
+    BAD,
+    CHOICES,
+    FLAG_WORDS,
+    OK,
+    PAD_FIELDS,
+    header_text,
+    previous_text,
+)
 from tui.widgets.caution_bar import CautionBar
 from tui.widgets.key_bar import KeyBar
 from tui.widgets.reading_pad import ReadingPad
 from tui.widgets.top_bar import TopBar
-
-#: Each field of the pad: (name, kind, title), in the order of model.rules.entry.ENTRY_FIELDS.
-_PAD_FIELDS: list[tuple[str, str, str]] = [
-    ("half_0", "time", "½× IΔn   0°"),
-    ("half_180", "time", "½× IΔn 180°"),
-    ("x1_0", "time", "1× IΔn   0°"),
-    ("x1_180", "time", "1× IΔn 180°"),
-    ("x5_0", "time", "5× IΔn   0°"),
-    ("x5_180", "time", "5× IΔn 180°"),
-    ("ramp_ma", "number", "ramp trip"),
-    ("button", "choice", "test button"),
-    ("waveform", "choice", "test current"),
-    ("note", "text", "note"),
-    ("not_tested", "text", "not tested"),
-]
-
-#: The one-key answers of the choice fields, in the order of the model's choices.
-_CHOICE_KEYS: dict[str, tuple[str, ...]] = {"button": ("w", "f"), "waveform": ("a", "h", "d")}
-_CHOICES: dict[str, list[tuple[str, str]]] = {
-    name: list(zip(_CHOICE_KEYS[name], field_choices(Reading, name), strict=True))
-    for name in _CHOICE_KEYS
-}
-
-FLAG_WORDS: dict[str, str] = {
-    "reading.too-slow": "too slow",
-    "reading.too-fast": "too fast",
-    "reading.no-trip": "DID NOT TRIP",
-    "reading.half-tripped": "tripped at ½×",
-    "reading.ramp-out-of-band": "out of band",
-    "reading.button-failed": "button failed",
-}
-
-_OK = "#7bd88f"
-_BAD = "bold #ff4d5e"
 
 
 class ReadingScreen(Screen[str]):
@@ -82,6 +59,7 @@ class ReadingScreen(Screen[str]):
         Binding("ctrl+n", "device(1)", "Next device"),
         Binding("ctrl+p", "device(-1)", "Prev device"),
         Binding("ctrl+t", "not_tested", "Not tested"),
+        Binding("ctrl+w", "page", "Other test current"),
     ]
 
     class Record(Message):
@@ -127,6 +105,10 @@ class ReadingScreen(Screen[str]):
         #: "required" or "optional" for each test under the site's rule set.
         self.need: dict[str, str] = {}
         self._undo_taken = False
+        #: The test waveform whose results the form shows (a reading may hold several).
+        self.page: str = "AC"
+        #: The device's latest reading with values on an earlier visit, shown beside each field.
+        self.previous: tuple[Visit, Reading] | None = None
         #: Readings sent up that the app has not answered yet.
         self._unanswered = 0
         #: Every device looked done, but a reading was still unanswered: close
@@ -137,11 +119,11 @@ class ReadingScreen(Screen[str]):
         yield TopBar(id="top-bar")
         with Vertical(id="reading-body"):
             yield Static("", id="rd-device", markup=False)
-            yield ReadingPad(self, _PAD_FIELDS, _CHOICES, id="reading-pad")
+            yield ReadingPad(self, PAD_FIELDS, CHOICES, id="reading-pad")
             yield Static("", id="rd-status", markup=False)
             yield Static(
-                "digits ⏎ next · n did not trip · w/f button · a/h/d current · "
-                "⏎ on note: next device · req = required by the rule set",
+                "digits ⏎ next · n did not trip · w/f button · a/h/d current · r/s at "
+                "rated/scaled · ^W other current · ⏎ on note: next device · req = required",
                 id="rd-hint",
                 markup=False,
             )
@@ -167,33 +149,30 @@ class ReadingScreen(Screen[str]):
         """Fill the form from the latest visit's reading of this device and start at the top."""
         self.device_id = device_id
         self._undo_taken = False
-        visit = site_view(self).site.latest_visit()
-        reading = visit.readings.get(device_id) if visit is not None else None
-        self.pad.values.update(entry_texts(reading))
+        self._load_page(None)
         self.pad.go("half_0")
         self._show_header()
         self._judge_all()
 
-    def _show_header(self) -> None:
+    def _recorded(self) -> Reading | None:
+        visit = site_view(self).site.latest_visit()
+        return visit.readings.get(self.device_id) if visit is not None else None
+
+    def _load_page(self, waveform: str | None) -> None:
+        """Show the results of one test waveform (the reading's own when None)."""
         view = site_view(self)
-        idx = view.index
-        node = self._node()
         visit = view.site.latest_visit()
-        rcds = idx.rcds()
-        left = sum(1 for d in rcds if is_untested(visit, d))
-        t = Text(no_wrap=True, overflow="ellipsis")
-        t.append(node_title(node), style="bold")
-        t.append(f"  {node.kind} {node_summary(node)}", style="#d9c28a")
-        t.append(f"  ·  {idx.path_text(self.device_id)}", style="#8fa7b3")
-        t2 = Text(no_wrap=True, overflow="ellipsis", style="#8fa7b3")
-        pos = rcds.index(self.device_id) + 1 if self.device_id in rcds else 0
-        t2.append(f"device {pos} of {len(rcds)} · {left} untested")
-        if visit is not None:
-            t2.append(f" · visit {visit.date}")
-            if visit.inspector:
-                t2.append(f" ({visit.inspector})")
-        t2.append(f" · rules {view.site.site.rules}")
-        self.query_one("#rd-device", Static).update(Text("\n").join([t, t2]))
+        reading = self._recorded()
+        self.pad.values.update(entry_texts(reading, waveform))
+        self.page = self.pad.values["waveform"]
+        self.previous = (
+            previous_reading(view.site, visit.id, self.device_id) if visit is not None else None
+        )
+
+    def _show_header(self) -> None:
+        box = self.query_one("#rd-device", Static)
+        width = box.size.width or self.app.size.width - 2
+        box.update(header_text(site_view(self), self.device_id, self.page, self.previous, width))
 
     # ------------------------------------------------------------- judging
     def _judge(self, name: str) -> None:
@@ -201,7 +180,7 @@ class ReadingScreen(Screen[str]):
         values = self.pad.values
         rules = site_view(self).site.site.rules
         v: EntryVerdict = judge_entry(
-            self._node(), name, values[name], chosen_waveform(values), rules
+            self._node(), name, values[name], chosen_waveform(values), rules, values["test_current"]
         )
         self.flags[name] = v.flag
         self.need[name] = v.need
@@ -209,13 +188,14 @@ class ReadingScreen(Screen[str]):
         self.verdicts[name] = v.verdict
         text = Text(no_wrap=True, overflow="ellipsis")
         if v.mark == "unreadable":
-            text.append(f"✖ {v.verdict}", style=_BAD)
+            text.append(f"✖ {v.verdict}", style=BAD)
         elif v.mark == "flagged" and v.flag is not None:
-            text.append(f"✖ {FLAG_WORDS.get(v.flag, v.flag)}", style=_BAD)
+            text.append(f"✖ {FLAG_WORDS.get(v.flag, v.flag)}", style=BAD)
         elif v.mark == "in band":
-            text.append("✓ in band" if name != "button" else f"✓ {values[name]}", style=_OK)
+            text.append("✓ in band" if name != "button" else f"✓ {values[name]}", style=OK)
         elif v.mark == "recorded":
             text = Text("· recorded", style="#8fa7b3")
+        text.append_text(previous_text(self.previous, name, chosen_waveform(values)))
         self._verdict_text[name] = text
         self._show_status()
 
@@ -225,13 +205,13 @@ class ReadingScreen(Screen[str]):
             return
         name = self.pad.current
         text = self.verdicts.get(name, "")
-        style = _BAD if self.flags.get(name) else "#8fa7b3"
+        style = BAD if self.flags.get(name) else "#8fa7b3"
         self.query_one("#rd-status", Static).update(
             Text(f"{self.pad.titles.get(name, name).strip()}: {text}" if text else "", style=style)
         )
 
     def _judge_all(self) -> None:
-        for name, _, _ in _PAD_FIELDS:
+        for name, _, _ in PAD_FIELDS:
             self._judge(name)
         self.pad.refresh()
 
@@ -242,7 +222,7 @@ class ReadingScreen(Screen[str]):
         return need, band, self._verdict_text.get(name, Text())
 
     def field_changed(self, name: str) -> None:
-        if name == "waveform":
+        if name in ("waveform", "test_current"):
             self._judge_all()
         else:
             self._judge(name)
@@ -259,9 +239,9 @@ class ReadingScreen(Screen[str]):
             return
         if not self._commit(name):
             return
-        i = ENTRY_ORDER.index(name)
-        if i + 1 < len(ENTRY_ORDER):
-            self.pad.go(ENTRY_ORDER[i + 1])
+        nxt = next_field(name, self.pad.values)
+        if nxt is not None:
+            self.pad.go(nxt)
             self._show_status()
         else:
             self._next_untested()
@@ -270,7 +250,7 @@ class ReadingScreen(Screen[str]):
     def _commit(self, field: str) -> bool:
         """Send the form up to be recorded; show at the field why it cannot be."""
         try:
-            reading = reading_from_texts(self.pad.values)
+            reading = reading_from_texts(self.pad.values, self._recorded(), self.page)
         except ValueError as exc:
             msgs = errors_by_field(exc) if isinstance(exc, ValidationError) else {}
             self._refuse(field, msgs.get(field) or next(iter(msgs.values()), str(exc)))
@@ -279,6 +259,7 @@ class ReadingScreen(Screen[str]):
         if visit is not None and visit.readings.get(self.device_id) == reading:
             return True  # nothing changed
         self._record(field, reading)
+        self.page = chosen_waveform(self.pad.values)
         return True
 
     def _record(self, field: str, reading: Reading | None) -> None:
@@ -334,7 +315,7 @@ class ReadingScreen(Screen[str]):
     def _refuse(self, field: str, message: str) -> None:
         self.flags[field] = None
         self.verdicts[field] = message
-        self._verdict_text[field] = Text(f"✖ not recorded: {message}", style=_BAD)
+        self._verdict_text[field] = Text(f"✖ not recorded: {message}", style=BAD)
         self.pad.refresh()
         self.app.bell()
 
@@ -366,6 +347,16 @@ class ReadingScreen(Screen[str]):
             return
         i = rcds.index(self.device_id)
         self.load_device(rcds[(i + step) % len(rcds)])
+
+    def action_page(self) -> None:
+        """Show the next test waveform's results (AC, half-wave, smooth DC), to enter
+        a second waveform's results on the same visit."""
+        waves: tuple[TestWaveform, ...] = choices_of(TestWaveform)
+        nxt = waves[(waves.index(self.page) + 1) % len(waves)]  # type: ignore[arg-type]
+        self._load_page(nxt)
+        self.pad.go("half_0")
+        self._show_header()
+        self._judge_all()
 
     def action_not_tested(self) -> None:
         self.pad.go("not_tested")

@@ -92,6 +92,8 @@ class SiteDetailsScreen(ModalScreen[SiteInfo | None]):
                     "ra_ohm": info.ra_ohm,
                     "growth_pct": info.trend.growth_pct,
                     "min_ms": info.trend.min_ms,
+                    "limit_share_pct": info.trend.limit_share_pct,
+                    "top_pct": info.trend.top_pct,
                 }
                 yield from self._numbers(SUPPLY_NUMBERS, values)
                 yield from self._row(

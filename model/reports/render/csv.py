@@ -61,6 +61,7 @@ def sheet_columns() -> list[str]:
         "delay",
         "visit",
         "waveform",
+        "test_current",
     ]
     for g in GROUPS:
         for t in TEST_NAMES:
@@ -120,6 +121,7 @@ def sheet_csv(doc: SheetDoc) -> bytes:
             r.delay,
             text_cell(visit if r.recorded else ""),
             r.test_waveform or "",
+            r.test_current or "",
         ]
         for g in GROUPS:
             group_cells = [cells[t] for t in TEST_NAMES if t.startswith(g + "_")]

@@ -6,6 +6,7 @@ from collections.abc import Iterator
 from typing import Any
 
 from model.rules.bands import (
+    FAILURE_FLAGS,
     GROUP_TITLE,
     fmt_value,
     group_of,
@@ -17,7 +18,7 @@ from model.rules.bands import (
 from model.rules.checks.context import Context
 from model.rules.findings import Finding
 from model.site.history import visits_before
-from model.site.models import Reading, Visit
+from model.site.models import Reading, TrendSettings, Visit
 from model.site.terms import TEST_NAMES
 
 #: The tests a device must trip on; a growing trip time there means something.
@@ -34,12 +35,16 @@ _SOURCE = (
 def check_trend(ctx: Context) -> Iterator[Finding]:
     """``reading.trend``: change since the previous visit, on the latest visit.
 
-    (a) A trip time at one test (same key, e.g. ``x1_180``, and the same test
-    waveform) has grown since the latest earlier visit with that test by more
-    than ``site.trend.growth_pct`` per cent *and* more than
-    ``site.trend.min_ms``.  (b) A device whose reading on the previous visit
-    (the latest earlier one with values for it) was within every band now
-    has a value outside one.
+    (a) A trip time at one test (same key, e.g. ``x1_180``, the same test
+    waveform and test current) has grown since the latest earlier visit with
+    that test by more than ``site.trend.min_ms``, and, judged against the
+    test's band, either by more than ``limit_share_pct`` of the band's maximum
+    time or into the top ``top_pct`` of the band (from its minimum, or 0 ms,
+    to its maximum) from below it.  Where the band has no maximum, or both
+    band settings are empty, the relative rule applies instead: more than
+    ``growth_pct`` per cent and more than ``min_ms``.  (b) A device whose
+    reading on the previous visit (the latest earlier one with values for it)
+    was within every band now has a value outside one.
 
     References
     ----------
@@ -60,7 +65,8 @@ def check_trend(ctx: Context) -> Iterator[Finding]:
         if reading is None or reading.not_tested is not None:
             continue
         node = idx.by_id[dev]
-        yield from _growth(ctx, dev, node, reading, latest, earlier, trend.growth_pct, trend.min_ms)
+        for res in reading.result_sets():
+            yield from _growth(ctx, dev, node, res, latest, earlier, trend)
         yield from _newly_failing(ctx, dev, node, reading, latest, earlier)
 
 
@@ -69,30 +75,73 @@ def _when(v: Visit) -> str:
     return v.date if v.id == v.date else f"{v.date}, visit {v.id}"
 
 
+def grown_too_much(
+    then: float, now: float, band_min: float | None, band_max: float | None, trend: TrendSettings
+) -> bool:
+    """True when a trip time's growth from ``then`` to ``now`` [ms] is worth flagging.
+
+    References
+    ----------
+    Common practice (site settings, no published limit); the band from IEC
+    61008-1 Ed.3 Table 1.
+    """
+    rise = now - then
+    if rise <= trend.min_ms:
+        return False
+    if band_max is None or not trend.band_rule():
+        return 100.0 * rise / then > trend.growth_pct
+    if trend.limit_share_pct is not None and rise > trend.limit_share_pct / 100.0 * band_max:
+        return True
+    if trend.top_pct is not None:
+        low = band_min or 0.0
+        edge = band_max - trend.top_pct / 100.0 * (band_max - low)
+        return now > edge >= then
+    return False
+
+
+def rule_text(trend: TrendSettings) -> str:
+    """The site's growth rule in words, for findings and reports."""
+    parts = []
+    if trend.limit_share_pct is not None:
+        parts.append(f"a rise over {trend.limit_share_pct:g} % of the band's maximum")
+    if trend.top_pct is not None:
+        parts.append(f"a rise into the top {trend.top_pct:g} % of the band")
+    relative = f"growth over {trend.growth_pct:g} % and over {trend.min_ms:g} ms"
+    if not parts:
+        return f"{relative} is flagged (site setting)"
+    return (
+        f"{' or '.join(parts)}, by over {trend.min_ms:g} ms, is flagged; with no maximum, "
+        f"{relative} (site setting)"
+    )
+
+
 def _growth(
     ctx: Context,
     dev: str,
     node: Any,
-    reading: Reading,
+    res: Any,
     latest: Visit,
     earlier: list[Visit],
-    growth_pct: float,
-    min_ms: float,
+    trend: TrendSettings,
 ) -> Iterator[Finding]:
     grown: list[tuple[str, Visit, float, float]] = []
+    wf = res.waveform
     for key in TREND_TESTS:
-        now = numeric_value(getattr(reading, key))
+        now = numeric_value(getattr(res, key))
         if now is None:
             continue
+        band = time_band(node, group_of(key), wf, ctx.rules.name, res.test_current)
+        if not band.applies:
+            continue
         for prev_visit in earlier:
-            prev = prev_visit.readings.get(dev)
-            if prev is None or prev.waveform != reading.waveform:
+            r = prev_visit.readings.get(dev)
+            prev = None if r is None else r.results_for(wf)
+            if prev is None or prev.test_current != res.test_current:
                 continue
             then = numeric_value(getattr(prev, key))
             if then is None:
                 continue
-            grown_ms = now - then
-            if 100.0 * grown_ms / then > growth_pct and grown_ms > min_ms:
+            if grown_too_much(then, now, band.min_ms, band.max_ms, trend):
                 grown.append((key, prev_visit, then, now))
             break  # only the latest earlier visit with this test counts
     if not grown:
@@ -105,10 +154,11 @@ def _growth(
     bands = sorted(
         {
             f"{GROUP_TITLE[group_of(k)]} "
-            + time_band(node, group_of(k), reading.waveform, ctx.rules.name).text
+            + time_band(node, group_of(k), wf, ctx.rules.name, res.test_current).text
             for k, _, _, _ in grown
         }
     )
+    rule = rule_text(trend)
     yield Finding(
         rule="reading.trend",
         severity="investigate",
@@ -116,9 +166,9 @@ def _growth(
         board=ctx.index.board_of[dev],
         message=(
             f"{ctx.index.label(dev)}: trip time grown since the previous visit "
-            f"({reading.waveform} test current; now {_when(latest)}): "
+            f"({wf} test current; now {_when(latest)}): "
             + "; ".join(items)
-            + f". The site flags growth over {growth_pct:g} % and over {min_ms:g} ms "
+            + f". The site flags {rule.removesuffix(' (site setting)')} "
             f"(bands: {', '.join(bands)})."
         ),
         action="Re-test; a device that is slowing down may be failing. Consider replacing it "
@@ -129,7 +179,7 @@ def _growth(
             f"{k}: {then:g} ms ({pv.date}) → {now:g} ms ({latest.date})"
             for k, pv, then, now in grown
         ),
-        band=f"growth over {growth_pct:g} % and over {min_ms:g} ms is flagged (site setting)",
+        band=rule,
         visit=latest.id,
     )
 
@@ -148,11 +198,11 @@ def _newly_failing(
         return
     rules = ctx.rules.name
     now = judge_reading(node, reading, rules)
-    failing = [(k, j) for k, j in now.items() if j.flag is not None]
+    failing = [(k, j) for k, j in now.items() if j.flag in FAILURE_FLAGS]
     if not failing:
         return
     before = judge_reading(node, prev, rules)
-    if any(j.flag for j in before.values()):
+    if any(j.flag in FAILURE_FLAGS for j in before.values()):
         return
     label = ctx.index.label(dev)
     keys = [k for k, _ in failing]
