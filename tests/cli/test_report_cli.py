@@ -28,12 +28,13 @@ def test_default_file_name_beside_the_site(tmp_path: Path) -> None:
     date = load_site(site_path).latest_visit().date
     done = _run("report", str(site_path))
     assert done.returncode == 0, done.stderr
-    out = tmp_path / f"oak lane (copy)-remedial-{date}.pdf"
+    # named after the site ('Oak Lane House (invented demo)'), not the file
+    out = tmp_path / f"oak-lane-house-invented-demo-remedial-{date}.pdf"
     assert out.is_file() and str(out) in done.stdout
     assert squash(STATEMENT) in squash(pypdf.PdfReader(out).pages[0].extract_text())
     for kind, fmt in (("sheet", "csv"), ("sheet", "md"), ("remedial", "txt")):
         assert _run("report", str(site_path), "--kind", kind, "--format", fmt).returncode == 0
-        assert (tmp_path / f"oak lane (copy)-{kind}-{date}.{fmt}").is_file()
+        assert (tmp_path / f"oak-lane-house-invented-demo-{kind}-{date}.{fmt}").is_file()
 
 
 def test_refuses_to_overwrite_without_force(tmp_path: Path) -> None:
@@ -66,7 +67,7 @@ def test_unicode_site_name_and_path(tmp_path: Path) -> None:
     site_path = write_awkward(tmp_path, "Café Ω.json")
     done = _run("report", str(site_path), "--kind", "sheet")
     assert done.returncode == 0, done.stderr
-    (out,) = tmp_path.glob("Café Ω-sheet-*.pdf")
+    (out,) = tmp_path.glob("maison-élodie-sons-invented-sheet-*.pdf")
     text = "".join(p.extract_text() for p in pypdf.PdfReader(out).pages)
     assert "Maison Élodie & <Sons> (invented)" in text
 
