@@ -119,3 +119,17 @@ def test_print_reports_lp_failure(tmp_path: Path) -> None:
     done = _run("print", str(_sample(tmp_path)), "-d", "nowhere", env=env)
     assert done.returncode == 2
     assert "lp refused the job" in done.stderr and "does not exist" in done.stderr
+
+
+def test_report_of_an_earlier_visit_and_a_bad_visit(tmp_path: Path) -> None:
+    site_path = _sample(tmp_path)
+    done = _run("report", str(site_path), "--visit", "2023-05-09", "--format", "md")
+    assert done.returncode == 0, done.stderr
+    out = tmp_path / "oak-lane-house-invented-demo-remedial-2023-05-09.md"
+    assert out.is_file() and str(out) in done.stdout
+    assert "a later visit (2026-11-14) exists" in " ".join(out.read_text("utf-8").split())
+    bad = _run("report", str(site_path), "--visit", "v9")
+    assert bad.returncode == 2
+    assert "no visit 'v9'" in bad.stderr and "known visits: 2023-05-09, 2026-11-14" in bad.stderr
+    assert len(bad.stderr.strip().splitlines()) == 1 and "Traceback" not in bad.stderr
+    assert sorted(p.name for p in tmp_path.iterdir()) == sorted([out.name, site_path.name])
