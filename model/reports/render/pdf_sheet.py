@@ -54,6 +54,8 @@ LEAD_COLUMNS: tuple[tuple[str, float], ...] = (
     ("Type", 22.0),
     ("Test\ncurrent", 14.0),
 )
+#: The device id, in the band row, spans the lead columns before the test current.
+_ID_SPAN = len(LEAD_COLUMNS) - 1
 TEST_W = 19.5
 RAMP_W = 25.0
 BUTTON_W = 13.5
@@ -126,12 +128,11 @@ def _value_row(table: Table, r: SheetRow, shade: bool, span: str) -> None:
 
 
 def _band_row(table: Table, r: SheetRow, shade: bool, span: str) -> None:
-    """The device's second row: its id, then the band of each test (once for 0° and 180°)."""
+    """The device's second row: its id (under device, board and type), then the band of
+    each test (once for 0° and 180°)."""
     row = table.row()
     bottom = CellBordersLayout.BOTTOM
-    row.cell(r.device_id, style=_shade(_BAND, shade), border=bottom)
-    row.cell("", style=_shade(_BAND, shade), border=bottom)
-    row.cell("", style=_shade(_BAND, shade), border=bottom)
+    row.cell(r.device_id, style=_shade(_BAND, shade), colspan=_ID_SPAN, border=bottom)
     n_tests = len(r.tests)
     if span:
         row.cell("", style=_shade(_BAND, shade), colspan=_span_cols(n_tests), border=bottom)
