@@ -39,9 +39,23 @@ class Heading:
     generated: str
     version: str
     statement: str = STATEMENT
+    #: The latest visit of the site when the document is of an earlier one (else None).
+    later_visit_id: str | None = None
+    later_visit_date: str | None = None
 
     def generated_line(self) -> str:
         return f"Generated {self.generated} by tripwise {self.version}"
+
+    def visit_note(self) -> str:
+        """'' for the latest visit; for an earlier one, a line saying so (printed at the top)."""
+        if self.later_visit_id is None:
+            return ""
+        this = _visit_words(self.visit_id, self.visit_date)
+        later = _visit_words(self.later_visit_id, self.later_visit_date)
+        return (
+            f"Readings of the visit {this}; a later visit ({later}) exists. The findings are "
+            "those of the site as it stood with the readings up to this visit."
+        )
 
     def facts(self) -> list[tuple[str, str]]:
         """(name, value) pairs for the heading block; empty values left out."""
@@ -58,10 +72,22 @@ class Heading:
         return [(k, v) for k, v in rows if v]
 
 
+def _visit_words(visit_id: str | None, date: str | None) -> str:
+    """'2023-05-09', or 'v2 of 2023-05-09' when the id is not the date."""
+    return f"{date}" if visit_id == date else f"{visit_id} of {date}"
+
+
 def build_heading(
-    site: SiteFile, visit: Visit | None, title: str, generated: dt.datetime | None
+    site: SiteFile,
+    visit: Visit | None,
+    title: str,
+    generated: dt.datetime | None,
+    later: Visit | None = None,
 ) -> Heading:
-    """The heading of one document of ``visit``; ``generated`` None means now (UTC)."""
+    """The heading of one document of ``visit``; ``generated`` None means now (UTC).
+
+    ``later`` is the site's latest visit when the document is of an earlier one.
+    """
     info = site.site
     return Heading(
         title=title,
@@ -76,6 +102,8 @@ def build_heading(
         instrument="" if visit is None else clean(visit.instrument),
         generated=_utc(generated).strftime("%Y-%m-%d %H:%M UTC"),
         version=__version__,
+        later_visit_id=None if later is None else later.id,
+        later_visit_date=None if later is None else later.date,
     )
 
 

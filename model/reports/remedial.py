@@ -15,10 +15,20 @@ from model.reports.charts import PairChart, pair_chart_data
 from model.reports.heading import Heading, build_heading
 from model.reports.text import clean
 from model.rules.findings import CAUTION, Analysis, Finding
-from model.site.models import SiteFile
+from model.site.models import SiteFile, Visit
 from model.site.tree import SiteIndex
 
 TITLE = "Remedial work list"
+
+#: The names of an item's rows, in words a client and an electrician read without a glossary.
+FOUND = "Found"
+MEASURED = "Measured"
+LIMIT = "Limit"
+ACTION = "Action"
+REFERENCE = "Reference"
+CHART = "Chart"
+#: The heading of the list of check ids (the appendix of Markdown and text; csv column ``rule``).
+CHECK_IDS_TITLE = "Check ids (for reference; README lists what each check looks for)"
 
 BASIS_TEXT = {
     "standard": "",
@@ -61,6 +71,19 @@ class RemedialItem:
     def source_text(self) -> str:
         note = self.basis_note
         return f"{self.source} ({note})" if note else self.source
+
+    def rows(self, chart_where: str) -> list[tuple[str, str, bool]]:
+        """(name, text, emphasised) rows of the item, in order; ``chart_where`` says where
+        the charts are ('end of this document', 'in the PDF')."""
+        out: list[tuple[str, str, bool]] = [(FOUND, self.message, False)]
+        if self.measured or self.band:
+            out.append((MEASURED, self.measured or "—", False))
+            out.append((LIMIT, self.band or "—", False))
+        out.append((ACTION, self.action, True))
+        out.append((REFERENCE, self.source_text(), False))
+        if self.charts:
+            out.append((CHART, f"{self.charts_text()} ({chart_where})", False))
+        return out
 
 
 @dataclass(frozen=True)
@@ -115,7 +138,11 @@ def _printed_chart(
 
 
 def build_remedial(
-    site: SiteFile, analysis: Analysis, *, generated: dt.datetime | None = None
+    site: SiteFile,
+    analysis: Analysis,
+    *,
+    generated: dt.datetime | None = None,
+    later: Visit | None = None,
 ) -> RemedialDoc:
     """The remedial-work list: one item per finding, grouped by board, worst first."""
     idx = site_index(site, analysis)
@@ -135,7 +162,7 @@ def build_remedial(
         label = clean(idx.label(board)) if bnode is not None else clean(board)
         groups.append(BoardGroup(board, label, place, tuple(items)))
     return RemedialDoc(
-        heading=build_heading(site, visit, TITLE, generated),
+        heading=build_heading(site, visit, TITLE, generated, later),
         counts=analysis.counts(),
         groups=tuple(groups),
         charts=tuple(charts),

@@ -24,7 +24,7 @@ from model.rules.bands import (
 )
 from model.rules.findings import CAUTION, device_text
 from model.rules.limits import rule_set
-from model.site.models import SiteFile
+from model.site.models import SiteFile, Visit
 from model.site.terms import DID_NOT_TRIP, TEST_NAMES
 from model.site.tree import SiteIndex
 
@@ -109,7 +109,9 @@ def _mark(flag: str | None, value: object, judged: bool) -> str:
     return MARK_PASS if judged else MARK_NOT_JUDGED
 
 
-def build_sheet(site: SiteFile, *, generated: dt.datetime | None = None) -> SheetDoc:
+def build_sheet(
+    site: SiteFile, *, generated: dt.datetime | None = None, later: Visit | None = None
+) -> SheetDoc:
     """The test sheet of the latest visit: one row per residual-current device, tree order."""
     idx = SiteIndex.build(site)
     visit = site.latest_visit()
@@ -123,7 +125,7 @@ def build_sheet(site: SiteFile, *, generated: dt.datetime | None = None) -> Shee
             rows.append(_row(idx, dev, node, reading, extra, rules))
     rs = rule_set(rules)
     return SheetDoc(
-        heading=build_heading(site, visit, TITLE, generated),
+        heading=build_heading(site, visit, TITLE, generated, later),
         rows=tuple(rows),
         required_groups=tuple(GROUP_TITLE[g] for g in rs.required_tests),
         rules_source=rs.test_source,

@@ -13,6 +13,8 @@ this module does not load the PDF library.
 from __future__ import annotations
 
 import datetime as dt
+import re
+import unicodedata
 from collections.abc import Callable
 from pathlib import Path
 from typing import Any, Literal
@@ -22,7 +24,8 @@ from model.reports.remedial import build_remedial
 from model.reports.sheet import build_sheet
 from model.rules.checks import analyse
 from model.rules.findings import Analysis
-from model.site.models import SiteFile
+from model.site.history import cut_at, find_visit, known_visits_text
+from model.site.models import SiteFile, Visit
 from model.storage.files import SaveError, write_atomic
 
 Kind = Literal["remedial", "sheet"]
@@ -46,11 +49,62 @@ class ReportExists(ReportError, FileExistsError):
     """The target file exists and overwriting was not asked for."""
 
 
-def default_name(site_path: Path, site: SiteFile, kind: str, fmt: str) -> Path:
-    """``<site stem>-<kind>-<visit date>.<ext>`` beside the site file."""
-    visit = site.latest_visit()
-    date = visit.date if visit is not None else "no-visit"
-    return Path(site_path).with_name(f"{Path(site_path).stem}-{kind}-{date}.{fmt}")
+class UnknownVisit(ReportError, KeyError):
+    """The visit asked for is not in the site.  ``str()`` lists the known visit ids."""
+
+    def __str__(self) -> str:
+        return str(self.args[0])
+
+
+_UNSAFE = re.compile(r"[^\w]+")
+SLUG_MAX = 60
+
+
+def site_slug(site_path: Path, site: SiteFile) -> str:
+    """The site's name made safe for a file name; the site file's stem when nothing is left.
+
+    Letters and digits (any script) are kept and lower-cased; every other run
+    of characters becomes one '-'; at most 60 characters:
+    'Kestrel Hill Primary School (invented demo)' -> 'kestrel-hill-primary-school-invented-demo'.
+    """
+    name = unicodedata.normalize("NFC", site.site.name).casefold()
+    slug = _UNSAFE.sub("-", name.replace("_", "-")).strip("-")[:SLUG_MAX].strip("-")
+    return slug or Path(site_path).stem
+
+
+def report_visit(site: SiteFile, visit_id: str | None) -> tuple[SiteFile, Visit | None]:
+    """The site as it stood at ``visit_id`` (its later visits left out), and the latest visit
+    when that is a later one (else None).  ``visit_id`` None means the latest visit.
+
+    Raises :class:`UnknownVisit` naming the known visit ids.
+    """
+    latest = site.latest_visit()
+    if visit_id is None or (latest is not None and latest.id == visit_id):
+        return site, None
+    if find_visit(site, visit_id) is None:
+        raise UnknownVisit(
+            f"no visit {visit_id!r} in this site; known visits: {known_visits_text(site)}"
+        )
+    return cut_at(site, visit_id), latest
+
+
+def default_name(
+    site_path: Path, site: SiteFile, kind: str, fmt: str, visit_id: str | None = None
+) -> Path:
+    """``<site name slug>-<kind>-<visit date>.<ext>`` beside the site file.
+
+    The visit is ``visit_id`` (default the latest); a second visit on one day
+    (id ``DATE-2``) gives its id in place of the date, so the two do not collide.
+    """
+    visit = site.latest_visit() if visit_id is None else find_visit(site, visit_id)
+    if visit is None:
+        stamp = "no-visit"
+    elif visit.id.startswith(visit.date) and visit.id != visit.date:
+        stamp = visit.id
+    else:
+        stamp = visit.date
+    name = f"{site_slug(site_path, site)}-{kind}-{stamp}.{fmt}"
+    return Path(site_path).with_name(name)
 
 
 def render(
@@ -60,19 +114,31 @@ def render(
     *,
     generated: dt.datetime | None = None,
     analysis: Analysis | None = None,
+    visit: str | None = None,
 ) -> bytes:
-    """The bytes of one document in one format."""
+    """The bytes of one document in one format, of ``visit`` (default the latest).
+
+    A document of an earlier visit is built from the site as it stood then
+    (:func:`report_visit`) and says in its heading that a later visit exists;
+    ``analysis`` is used only for the latest visit.
+    """
     if kind not in KINDS:
         raise ReportError(f"unknown report kind {kind!r}; choose {' or '.join(KINDS)}")
     if fmt not in FORMATS:
         raise ReportError(f"unknown format {fmt!r}; choose one of {', '.join(FORMATS)}")
+    shown, later = report_visit(site, visit)
+    if later is not None:
+        analysis = None
     renderer = _renderer(kind, fmt)
     if kind == "remedial":
         doc: Any = build_remedial(
-            site, analysis if analysis is not None else analyse(site), generated=generated
+            shown,
+            analysis if analysis is not None else analyse(shown),
+            generated=generated,
+            later=later,
         )
     else:
-        doc = build_sheet(site, generated=generated)
+        doc = build_sheet(shown, generated=generated, later=later)
     return renderer(doc)
 
 
@@ -106,8 +172,9 @@ def write_report(
     *,
     force: bool = False,
     generated: dt.datetime | None = None,
+    visit: str | None = None,
 ) -> Path:
-    """Render one document and write it to ``out_path``; return the path written.
+    """Render one document of ``visit`` (default the latest) to ``out_path``; return the path.
 
     The document is rendered in memory first, then written by
     :func:`model.storage.files.write_atomic` (the one atomic writer; a link at
@@ -115,6 +182,7 @@ def write_report(
     does not touch an existing one.  Without ``force`` an existing file is
     never replaced (:class:`ReportExists`).
     """
+    report_visit(site, visit)  # an unknown visit is refused before anything else
     out = Path(out_path)
     if out.is_dir():
         raise ReportError(f"{out}: is a folder; give a file name")
@@ -122,7 +190,7 @@ def write_report(
         raise ReportExists(f"{out}: already exists; use --force to replace it (nothing written)")
     if not out.parent.is_dir():
         raise ReportError(f"{out.parent}: no such folder")
-    data = render(site, kind, fmt, generated=generated)
+    data = render(site, kind, fmt, generated=generated, visit=visit)
     try:
         write_atomic(out, data, replace=force, backup=False, follow_links=False)
     except FileExistsError:

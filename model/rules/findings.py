@@ -167,10 +167,23 @@ class Analysis:
 
 
 def fmt_ma(value_ma: float) -> str:
-    """A residual current for people: '150 mA', '5 A', '1.5 A'."""
-    if value_ma >= 1000:
-        return f"{value_ma / 1000:.4g} A"
-    return f"{value_ma:.3g} mA" if value_ma < 10 else f"{value_ma:.0f} mA"
+    """A computed current for people, one format everywhere (charts, documents, app, CLI).
+
+    Up to 1 A in mA, from 1 A in A; three significant figures below 100 of
+    the unit, whole numbers from 100 up; never an exponent:
+    6 mA, 10.5 mA, 150 mA, 1 A, 1.5 A, 22.5 A, 1095 A, 10950 A.
+    A recorded value is printed as recorded, not through this.
+    """
+    if not math.isfinite(value_ma):
+        return "—"
+    value, unit = (value_ma / 1000.0, "A") if value_ma >= 999.5 else (value_ma, "mA")
+    if abs(value) >= 99.95:
+        text = str(round(value))
+    else:
+        text = f"{value:.3g}"
+        if "e" in text:  # below 0.001 of the unit: plain decimals, no exponent
+            text = f"{value:.6f}".rstrip("0").rstrip(".") or "0"
+    return f"{text} {unit}"
 
 
 def fmt_ratio(ratio: float) -> str:

@@ -36,9 +36,16 @@ def test_open_bad_file_is_one_line_and_exit_2(tmp_path: Path) -> None:
         assert len(done.stderr.strip().splitlines()) == 1
 
 
-def test_demo_check_still_prints_the_check(tmp_path: Path) -> None:
+def test_demo_check_prints_the_check_and_copies_nothing(tmp_path: Path) -> None:
     env = {**os.environ, "XDG_DATA_HOME": str(tmp_path)}
-    done = tripwise("demo", "--check", env=env)
-    assert done.returncode == 1  # the invented sample has findings
-    assert "not a certificate" in done.stdout
-    assert list((tmp_path / "tripwise" / "demo").glob("*.json"))
+    for _ in range(2):  # run twice: still no copy
+        done = tripwise("demo", "--check", env=env)
+        assert done.returncode == 1  # the invented sample has findings
+        assert "not a certificate" in done.stdout
+        assert "nothing copied" in done.stderr
+    assert sorted(tmp_path.rglob("*")) == []
+    other = tripwise("demo", "kestrel-hill-school", "--check", env=env)
+    assert other.returncode == 1 and "Kestrel Hill" in other.stdout
+    unknown = tripwise("demo", "nowhere", "--check", env=env)
+    assert unknown.returncode == 2 and "oak-lane-house" in unknown.stderr
+    assert sorted(tmp_path.rglob("*")) == []

@@ -28,12 +28,13 @@ def test_default_file_name_beside_the_site(tmp_path: Path) -> None:
     date = load_site(site_path).latest_visit().date
     done = _run("report", str(site_path))
     assert done.returncode == 0, done.stderr
-    out = tmp_path / f"oak lane (copy)-remedial-{date}.pdf"
+    # named after the site ('Oak Lane House (invented demo)'), not the file
+    out = tmp_path / f"oak-lane-house-invented-demo-remedial-{date}.pdf"
     assert out.is_file() and str(out) in done.stdout
     assert squash(STATEMENT) in squash(pypdf.PdfReader(out).pages[0].extract_text())
     for kind, fmt in (("sheet", "csv"), ("sheet", "md"), ("remedial", "txt")):
         assert _run("report", str(site_path), "--kind", kind, "--format", fmt).returncode == 0
-        assert (tmp_path / f"oak lane (copy)-{kind}-{date}.{fmt}").is_file()
+        assert (tmp_path / f"oak-lane-house-invented-demo-{kind}-{date}.{fmt}").is_file()
 
 
 def test_refuses_to_overwrite_without_force(tmp_path: Path) -> None:
@@ -66,7 +67,7 @@ def test_unicode_site_name_and_path(tmp_path: Path) -> None:
     site_path = write_awkward(tmp_path, "Café Ω.json")
     done = _run("report", str(site_path), "--kind", "sheet")
     assert done.returncode == 0, done.stderr
-    (out,) = tmp_path.glob("Café Ω-sheet-*.pdf")
+    (out,) = tmp_path.glob("maison-élodie-sons-invented-sheet-*.pdf")
     text = "".join(p.extract_text() for p in pypdf.PdfReader(out).pages)
     assert "Maison Élodie & <Sons> (invented)" in text
 
@@ -118,3 +119,17 @@ def test_print_reports_lp_failure(tmp_path: Path) -> None:
     done = _run("print", str(_sample(tmp_path)), "-d", "nowhere", env=env)
     assert done.returncode == 2
     assert "lp refused the job" in done.stderr and "does not exist" in done.stderr
+
+
+def test_report_of_an_earlier_visit_and_a_bad_visit(tmp_path: Path) -> None:
+    site_path = _sample(tmp_path)
+    done = _run("report", str(site_path), "--visit", "2023-05-09", "--format", "md")
+    assert done.returncode == 0, done.stderr
+    out = tmp_path / "oak-lane-house-invented-demo-remedial-2023-05-09.md"
+    assert out.is_file() and str(out) in done.stdout
+    assert "a later visit (2026-11-14) exists" in " ".join(out.read_text("utf-8").split())
+    bad = _run("report", str(site_path), "--visit", "v9")
+    assert bad.returncode == 2
+    assert "no visit 'v9'" in bad.stderr and "known visits: 2023-05-09, 2026-11-14" in bad.stderr
+    assert len(bad.stderr.strip().splitlines()) == 1 and "Traceback" not in bad.stderr
+    assert sorted(p.name for p in tmp_path.iterdir()) == sorted([out.name, site_path.name])

@@ -57,7 +57,8 @@ def test_default_name_beside_the_site(tmp_path: Path) -> None:
     visit = site.latest_visit()
     assert visit is not None
     name = default_name(path, site, "sheet", "csv")
-    assert name == path.with_name(f"{path.stem}-sheet-{visit.date}.csv")
+    # the site's name ('Hollowmere Farm (invented demo)'), not the file's
+    assert name == path.with_name(f"hollowmere-farm-invented-demo-sheet-{visit.date}.csv")
 
 
 def test_every_document_renders_for_bare_sites(tmp_path: Path) -> None:
@@ -87,7 +88,12 @@ def test_every_document_renders_for_bare_sites(tmp_path: Path) -> None:
                 if fmt in ("md", "txt", "csv"):
                     assert squash(STATEMENT) in squash(data.decode("utf-8-sig"))
     site = parse_site(json.dumps(no_visit))
-    assert default_name(tmp_path / "a.json", site, "sheet", "pdf").name == "a-sheet-no-visit.pdf"
+    named = default_name(tmp_path / "a.json", site, "sheet", "pdf").name
+    assert named == "maison-élodie-sons-invented-sheet-no-visit.pdf"
+    nameless = parse_site(json.dumps({**bare, "site": {"name": " (?) ", "earthing": "TN-S"}}))
+    assert (
+        default_name(tmp_path / "a.json", nameless, "sheet", "pdf").name == "a-sheet-no-visit.pdf"
+    )
 
 
 def test_a_link_at_the_output_is_replaced_never_followed(tmp_path: Path) -> None:

@@ -15,6 +15,7 @@ from tui.screens.export import ExportScreen
 ROOT = Path(__file__).resolve().parents[2]
 SAMPLE = ROOT / "sample_sites" / "oak-lane-house.json"
 DATE = "2026-11-14"  # the latest visit of the invented Oak Lane sample
+NAME = "oak-lane-house-invented-demo"  # its site name, made safe for a file name
 
 _UNSET = object()
 
@@ -52,7 +53,7 @@ async def test_writes_the_default_pdf_and_dismisses_with_its_path(tmp_path: Path
         await pilot.pause()
         screen = app.screen
         assert isinstance(screen, ExportScreen)
-        expected = tmp_path / f"oak lane-remedial-{DATE}.pdf"
+        expected = tmp_path / f"{NAME}-remedial-{DATE}.pdf"
         assert screen.query_one("#export-target", Input).value == str(expected)
         await pilot.click("#export-write")
         await _settle(pilot)
@@ -68,7 +69,7 @@ async def test_choosing_sheet_and_csv_changes_the_name(tmp_path: Path) -> None:
         await pilot.click("#kind-sheet")
         await pilot.click("#format-csv")
         await pilot.pause()
-        expected = tmp_path / f"oak lane-sheet-{DATE}.csv"
+        expected = tmp_path / f"{NAME}-sheet-{DATE}.csv"
         assert app.screen.query_one("#export-target", Input).value == str(expected)
         await pilot.click("#export-write")
         await _settle(pilot)
@@ -78,7 +79,7 @@ async def test_choosing_sheet_and_csv_changes_the_name(tmp_path: Path) -> None:
 
 async def test_asks_before_overwriting(tmp_path: Path) -> None:
     site = _site(tmp_path)
-    existing = tmp_path / f"oak lane-remedial-{DATE}.pdf"
+    existing = tmp_path / f"{NAME}-remedial-{DATE}.pdf"
     existing.write_bytes(b"earlier report")
     app = Host(site)
     async with app.run_test(size=(110, 40)) as pilot:
@@ -133,3 +134,28 @@ async def test_failure_is_shown_and_nothing_written(tmp_path: Path) -> None:
         status = str(app.screen.query_one("#export-status", Static).render())
         assert "Not written" in status and "no such folder" in status
     assert not (tmp_path / "no").exists()
+
+
+async def test_an_earlier_visit_is_chosen_named_and_said_so(tmp_path: Path) -> None:
+    from textual.widgets import Select
+
+    app = Host(_site(tmp_path))
+    async with app.run_test(size=(80, 24)) as pilot:
+        await pilot.pause()
+        screen = app.screen
+        select = screen.query_one("#export-visit", Select)
+        assert select.value == DATE  # the latest visit is chosen to begin with
+        select.focus()
+        await pilot.press("enter", "down", "enter")  # open the list, the next (earlier) visit
+        await pilot.pause()
+        assert select.value == "2023-05-09"
+        expected = tmp_path / f"{NAME}-remedial-2023-05-09.txt"
+        await pilot.click("#format-txt")
+        await pilot.pause()
+        assert screen.query_one("#export-target", Input).value == str(expected)
+        screen.action_write()
+        await _settle(pilot)
+        assert app.result == expected
+    text = expected.read_text(encoding="utf-8")
+    assert "Visit date  2023-05-09" in text
+    assert "a later visit (2026-11-14) exists" in " ".join(text.split())

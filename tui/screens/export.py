@@ -1,4 +1,4 @@
-"""Export a document of the latest visit: the remedial-work list or the test sheet."""
+"""Export a document of a visit (the latest by default): the remedial-work list or the test sheet."""
 
 from __future__ import annotations
 
@@ -10,7 +10,7 @@ from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Horizontal, Vertical
 from textual.screen import ModalScreen
-from textual.widgets import Button, Input, Label, RadioButton, RadioSet, Static
+from textual.widgets import Button, Input, Label, RadioButton, RadioSet, Select, Static
 
 from model.reports.heading import STATEMENT
 from model.reports.writer import (
@@ -22,13 +22,17 @@ from model.reports.writer import (
     default_name,
     write_report,
 )
+from model.site.history import ordered_visits
 from model.site.models import SiteFile
 from model.storage.codec import SiteLoadError
 from model.storage.sites import load_site
 
 
 class ExportScreen(ModalScreen[Path | None]):
-    """Choose a document and a format, see the file name, write it; dismiss with the path.
+    """Choose a document, a format and a visit, see the file name, write it; dismiss with the path.
+
+    The visit list offers every visit, latest first; a document of an earlier
+    visit shows the site as it stood then and says that a later visit exists.
 
     An existing file is replaced only after a second press of Write.  The
     document is written by :func:`model.reports.writer.write_report` in a worker, so a
@@ -47,6 +51,8 @@ class ExportScreen(ModalScreen[Path | None]):
         self.site: SiteFile | None = None
         self.kind: str = KINDS[0]
         self.fmt: str = FORMATS[0]
+        #: The visit to report; None is the latest.
+        self.visit: str | None = None
         self._auto_name = True
         self._last_auto = ""
         self._confirm: Path | None = None
@@ -67,6 +73,9 @@ class ExportScreen(ModalScreen[Path | None]):
                     with RadioSet(id="export-format"):
                         for i, f in enumerate(FORMATS):
                             yield RadioButton(FORMAT_TITLE[f], value=i == 0, id=f"format-{f}")
+                with Vertical(classes="export-column"):
+                    yield Label("Visit (latest first)", classes="export-label", markup=False)
+                    yield Select[str]([], id="export-visit", allow_blank=True, prompt="no visit")
             yield Label("File", classes="export-label", markup=False)
             yield Input(id="export-target")
             yield Static("", id="export-status", markup=False)
@@ -85,6 +94,12 @@ class ExportScreen(ModalScreen[Path | None]):
         self.query_one("#export-site", Static).update(
             f"{self.site.site.name}  ·  {self.site_path.name}"
         )
+        visits = list(reversed(ordered_visits(self.site)))
+        choices = [v.date if v.id == v.date else f"{v.date} · {v.id}" for v in visits]
+        select = self.query_one("#export-visit", Select)
+        select.set_options(list(zip(choices, [v.id for v in visits], strict=True)))
+        if visits:
+            select.value = visits[0].id
         self._refresh_name()
         self.query_one("#export-write", Button).focus()
 
@@ -98,7 +113,7 @@ class ExportScreen(ModalScreen[Path | None]):
 
     def _default(self) -> Path:
         assert self.site is not None
-        return default_name(self.site_path, self.site, self.kind, self.fmt)
+        return default_name(self.site_path, self.site, self.kind, self.fmt, self.visit)
 
     def _refresh_name(self) -> None:
         if self.site is None:
@@ -124,6 +139,16 @@ class ExportScreen(ModalScreen[Path | None]):
     @on(RadioSet.Changed, "#export-format")
     def _format_changed(self, event: RadioSet.Changed) -> None:
         self.fmt = FORMATS[event.index]
+        self._refresh_name()
+
+    @on(Select.Changed, "#export-visit")
+    def _visit_changed(self, event: Select.Changed) -> None:
+        if self.site is None:
+            return
+        latest = self.site.latest_visit()
+        value = event.value
+        chosen = value if isinstance(value, str) else None
+        self.visit = None if latest is not None and chosen == latest.id else chosen
         self._refresh_name()
 
     @on(Input.Changed, "#export-target")
@@ -173,10 +198,12 @@ class ExportScreen(ModalScreen[Path | None]):
 
     @work(exclusive=True, group="export")
     async def _write(self, target: Path, force: bool) -> None:
-        kind, fmt = self.kind, self.fmt
+        kind, fmt, visit = self.kind, self.fmt, self.visit
         try:
             site = await asyncio.to_thread(load_site, self.site_path)
-            path = await asyncio.to_thread(write_report, site, kind, fmt, target, force=force)
+            path = await asyncio.to_thread(
+                write_report, site, kind, fmt, target, force=force, visit=visit
+            )
         except (ReportError, SiteLoadError) as exc:
             self._failed(str(exc))
             return

@@ -83,9 +83,9 @@ REMEDIAL_COLUMNS: tuple[str, ...] = (
     "nodes",
     "labels",
     "where",
-    "message",
+    "found",
     "measured",
-    "band",
+    "limit",
     "action",
     "source",
     "basis",
@@ -95,7 +95,8 @@ REMEDIAL_COLUMNS: tuple[str, ...] = (
 
 
 def _statement(doc: RemedialDoc | SheetDoc) -> str:
-    return f"{doc.heading.statement} {doc.heading.generated_line()}."
+    note = doc.heading.visit_note()
+    return f"{doc.heading.statement} {doc.heading.generated_line()}." + (f" {note}" if note else "")
 
 
 def _write(rows: list[list[str]]) -> bytes:

@@ -10,7 +10,7 @@ from __future__ import annotations
 import re
 
 from model.reports.heading import Heading
-from model.reports.remedial import RemedialDoc
+from model.reports.remedial import CHECK_IDS_TITLE, RemedialDoc
 from model.reports.sheet import (
     MARK_FAIL,
     MARK_NOT_JUDGED,
@@ -47,6 +47,7 @@ def _top(h: Heading) -> list[str]:
         "",
         f"# {esc(h.title)}: {esc(h.site_name)}",
         "",
+        *([f"**{esc(h.visit_note())}**", ""] if h.visit_note() else []),
         *[f"- **{esc(k)}:** {esc(v)}" for k, v in h.facts()],
         "",
     ]
@@ -76,18 +77,11 @@ def remedial_md(doc: RemedialDoc) -> bytes:
         place = f" ({esc(g.place)})" if g.place else ""
         lines += [f"## {esc(g.label)}{place}", ""]
         for i in g.items:
-            lines += [f"### {i.number}. {i.severity.upper()} · `{i.rule}`", ""]
+            lines += [f"### {i.number}. {i.severity.upper()}", ""]
             for label, where in zip(i.node_labels, i.where, strict=True):
                 lines.append(f"- **{esc(label)}**: {esc(where)}")
-            lines.append(f"- **What is wrong:** {esc(i.message)}")
-            if i.measured or i.band:
-                lines.append(
-                    f"- **Measured:** {esc(i.measured or '—')} · **band:** {esc(i.band or '—')}"
-                )
-            lines.append(f"- **To do:** {esc(i.action)}")
-            lines.append(f"- **Rests on:** {esc(i.source_text())}")
-            if i.charts:
-                lines.append(f"- The PDF's {i.charts_text()} show(s) the two bands.")
+            for name, text, _ in i.rows("in the PDF"):
+                lines.append(f"- **{esc(name)}:** {esc(text)}")
             lines += ["- [ ] Done. Notes: ______________________________________", ""]
     if doc.charts:
         lines += ["## Series pairs", ""]
@@ -98,6 +92,10 @@ def remedial_md(doc: RemedialDoc) -> bytes:
                 f"**{esc(c.down_label)}** ({esc(c.down_text)}): selectivity not guaranteed "
                 f"over {esc(ranges)}; {esc(c.explanation)}"
             )
+        lines.append("")
+    if doc.items:
+        lines += [f"## {esc(CHECK_IDS_TITLE)}", ""]
+        lines += [f"- {i.number}. `{i.rule}`" for i in doc.items]
         lines.append("")
     lines += _bottom(h, doc.caution)
     return "\n".join(lines).encode("utf-8")

@@ -25,6 +25,8 @@ MUTED: RGB = (108, 116, 128)
 RULE: RGB = (205, 211, 218)
 PANEL: RGB = (243, 245, 247)
 ACCENT: RGB = (0, 102, 110)
+#: The line that says a document is of an earlier visit.
+EARLIER: RGB = (150, 60, 0)
 SEVERITY_COLOUR: dict[str, RGB] = {
     "urgent": (180, 28, 40),
     "required": (200, 96, 0),
@@ -178,6 +180,8 @@ class ReportPdf(FPDF):
             self.ink(MUTED)
             self.set_xy(left, 7)
             visit = f" · visit {h.visit_date}" if h.visit_date else ""
+            if h.later_visit_id is not None:
+                visit += f" (a later visit {h.later_visit_id} exists)"
             self.cell(self.content_w, 4.5, f"{h.site_name}{visit}", align="R")
             # footer
             top = self.h - FOOT_H + 2
@@ -198,6 +202,9 @@ class ReportPdf(FPDF):
         self.set_y(self.t_margin + 1)
         self.para(self.l_margin, self.content_w, 9, h.title, 20, True, INK)
         self.para(self.l_margin, self.content_w, 6, h.site_name, 12.5, True, ACCENT)
+        if h.visit_note():
+            self.ln(0.8)
+            self.para(self.l_margin, self.content_w, 4.6, h.visit_note(), 9.4, True, EARLIER)
         self.ln(1.5)
         facts = [(k, v) for k, v in h.facts() if k != "Site"]
         col_w = self.content_w / 2

@@ -36,10 +36,6 @@ def _log_ticks(lo: float, hi: float) -> list[tuple[float, bool]]:
     return out
 
 
-def _fmt_current(v_ma: float) -> str:
-    return f"{v_ma / 1000:.3g} A" if v_ma >= 1000 else f"{v_ma:.3g} mA"
-
-
 def _fmt_ms(v: float) -> str:
     return f"{v / 1000:g} s" if v >= 1000 else f"{v:g} ms"
 
@@ -147,7 +143,7 @@ def draw_chart(pdf: ReportPdf, c: PairChart, x: float, y: float, width: float) -
         "downstream",
         f"{c.down_label} ({c.down_text}); diamond: reading",
     )
-    faults = "" if c.i_max_ma is None else f"; faults up to {_fmt_current(c.i_max_ma)}"
+    faults = "" if c.i_max_ma is None else f"; faults up to {fmt_ma(c.i_max_ma)}"
     _legend(
         pdf,
         x,

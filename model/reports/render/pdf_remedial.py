@@ -18,15 +18,7 @@ LABEL_W = 20.0
 
 
 def _item_rows(i: RemedialItem) -> list[tuple[str, str, bool]]:
-    rows: list[tuple[str, str, bool]] = [("Wrong", i.message, False)]
-    if i.measured or i.band:
-        rows.append(("Measured", i.measured or "—", False))
-        rows.append(("Band", i.band or "—", False))
-    rows.append(("To do", i.action, True))
-    rows.append(("Rests on", i.source_text(), False))
-    if i.charts:
-        rows.append(("Chart", f"{i.charts_text()} (end of this document)", False))
-    return rows
+    return i.rows("end of this document")
 
 
 def _draw_item(pdf: ReportPdf, i: RemedialItem, draw: bool) -> float:

@@ -1,8 +1,23 @@
-"""The PDF of the test sheet: one table row per residual-current device, landscape."""
+"""The PDF of the test sheet: one table row pair per residual-current device, landscape.
+
+Laid out by fpdf2's own table (``FPDF.table``): every cell wraps its text
+inside its own column, the headings repeat at the top of every page, and a
+device's two rows (values, then bands) stay together on one page.  No text
+is set below :data:`MIN_PT`, so the sheet reads when printed at 100 %.
+
+Columns are listed once in :data:`COLUMNS` (title, width); a new column is
+one more entry there and one more cell in :func:`_value_row` and
+:func:`_band_row`.
+"""
 
 from __future__ import annotations
 
+from fpdf.enums import CellBordersLayout, TableBordersLayout, VAlign
+from fpdf.fonts import FontFace
+from fpdf.table import Table
+
 from model.reports.render.pdf_base import (
+    FAMILY,
     INK,
     MUTED,
     PANEL,
@@ -24,126 +39,136 @@ from model.reports.text import clean
 
 MARK_PDF = {MARK_PASS: "✓", MARK_OUT: "✗", MARK_NOT_JUDGED: "~", MARK_FAIL: "✗", "": ""}
 
-SHEET_COLS: tuple[tuple[str, float], ...] = (
-    ("Device", 36.0),
-    ("Board", 22.0),
-    ("Type", 24.0),
-    ("Test", 10.5),
+#: The smallest type on the sheet [pt]: legible when printed at 100 %.
+MIN_PT = 7.0
+VALUE_PT = 8.0
+BAND_PT = MIN_PT
+HEAD_PT = 7.5
+LINE_H = 3.3
+PAD = (0.7, 1.0, 0.7, 1.0)
+
+#: The fixed columns before the tests: (title, width [mm]).
+LEAD_COLUMNS: tuple[tuple[str, float], ...] = (
+    ("Device\nid", 30.0),
+    ("Board", 21.0),
+    ("Type", 22.0),
+    ("Test\ncurrent", 14.0),
 )
-TEST_W = 19.0
-RAMP_W = 20.0
-BUTTON_W = 12.0
-LH = 3.5
+#: The device id, in the band row, spans the lead columns before the test current.
+_ID_SPAN = len(LEAD_COLUMNS) - 1
+TEST_W = 19.5
+RAMP_W = 25.0
+BUTTON_W = 13.5
+#: Columns after the six tests: ramp and button (the note takes the rest of the width).
+TAIL_COLUMNS: tuple[tuple[str, float], ...] = (("Ramp", RAMP_W), ("Button", BUTTON_W))
+NOTE_MIN_W = 24.0
+
+_VALUE = FontFace(family=FAMILY, size_pt=VALUE_PT, color=INK)
+_VALUE_BOLD = FontFace(family=FAMILY, emphasis="B", size_pt=VALUE_PT, color=INK)
+_OUT = FontFace(family=FAMILY, emphasis="B", size_pt=VALUE_PT, color=SEVERITY_COLOUR["urgent"])
+_BAND = FontFace(family=FAMILY, size_pt=BAND_PT, color=MUTED)
+_SPAN = FontFace(family=FAMILY, emphasis="B", size_pt=VALUE_PT, color=MUTED)
+_HEAD = FontFace(
+    family=FAMILY, emphasis="B", size_pt=HEAD_PT, color=(255, 255, 255), fill_color=INK
+)
 
 
-def _sheet_header(pdf: ReportPdf, doc: SheetDoc, note_w: float) -> None:
-    y = pdf.get_y()
-    pdf.set_fill_color(*INK)
-    pdf.rect(pdf.l_margin, y, pdf.content_w, 9.5, style="F")
-    pdf.ink((255, 255, 255))
-    x = pdf.l_margin
-    titles = [(t, w, "current" if t == "Test" else "") for t, w in SHEET_COLS]
+def column_widths(content_w: float, n_tests: int = 6) -> list[float]:
+    """Widths of every column, in order [mm]; the note column takes what is left."""
+    lead = [w for _, w in LEAD_COLUMNS]
+    tail = [w for _, w in TAIL_COLUMNS]
+    note = max(NOTE_MIN_W, content_w - sum(lead) - n_tests * TEST_W - sum(tail))
+    return [*lead, *([TEST_W] * n_tests), *tail, note]
+
+
+def _shade(face: FontFace, shade: bool) -> FontFace:
+    return face.replace(fill_color=PANEL) if shade else face
+
+
+def _headings(doc: SheetDoc) -> list[str]:
+    titles = [t for t, _ in LEAD_COLUMNS]
     first = doc.rows[0].tests if doc.rows else ()
-    for c in first:
-        titles.append((c.title, TEST_W, "required" if c.required else ""))
-    titles += [("Ramp", RAMP_W, ""), ("Button", BUTTON_W, ""), ("Note", note_w, "")]
-    for t, w, sub in titles:
-        pdf.set_xy(x + 0.6, y + 1.2)
-        pdf.font(6.8, True)
-        pdf.cell(w - 1.2, 3.4, t)
-        if sub:
-            pdf.set_xy(x + 0.6, y + 4.8)
-            pdf.font(6)
-            pdf.cell(w - 1.2, 3.2, sub)
-        x += w
-    pdf.ink(INK)
-    pdf.set_y(y + 10.5)
+    titles += [c.title + ("\nrequired" if c.required else "") for c in first]
+    titles += [t for t, _ in TAIL_COLUMNS]
+    return [*titles, "Note"]
 
 
-def _test_cell(pdf: ReportPdf, c: SheetCell, x: float, y: float, w: float, unit: str) -> None:
-    out = c.mark in (MARK_OUT, MARK_FAIL)
-    pdf.set_xy(x + 0.6, y)
-    pdf.font(7.4, out)
-    pdf.ink(SEVERITY_COLOUR["urgent"] if out else INK)
+def _value_text(c: SheetCell, unit: str) -> str:
     if c.value is None:
-        pdf.ink(MUTED)
-        pdf.cell(w - 1.2, LH, "—")
-    else:
-        text = f"{c.value_text(unit)} {MARK_PDF.get(c.mark, '')}".strip()
-        room = w - 1.2 - 2 * pdf.c_margin
-        width = pdf.get_string_width(text)
-        if width > room:  # 'did not trip ✗' in bold: shrink to fit rather than overflow
-            pdf.font(7.4 * room / width, out)
-        pdf.cell(w - 1.2, LH, text)
-    pdf.set_xy(x + 0.6, y + LH)
-    pdf.font(5.9)
-    pdf.ink(MUTED)
-    pdf.cell(w - 1.2, LH - 0.4, c.short or c.band)
+        return "—"
+    return f"{c.value_text(unit)} {MARK_PDF.get(c.mark, '')}".strip()
 
 
-def _sheet_row(pdf: ReportPdf, r: SheetRow, note_w: float, shade: bool, draw: bool) -> float:
-    texts = [r.label, r.board, r.type_text]
-    widths = [w for _, w in SHEET_COLS]
-    hs = [pdf.para_h(widths[0] - 1.2, LH, r.label, 7.4, True) + LH]
-    hs += [pdf.para_h(w - 1.2, LH, t, 7.4) for t, w in zip(texts[1:], widths[1:3], strict=True)]
-    note = clean(r.note)
-    if r.not_tested is not None or not r.recorded:
-        span_text = (
-            f"not tested: {r.not_tested}"
-            if r.not_tested is not None
-            else "no reading recorded on this visit"
-        )
-        span_w = widths[3] + 6 * TEST_W + RAMP_W + BUTTON_W
-        hs.append(pdf.para_h(span_w - 1.2, LH, span_text, 7.4, True))
+def _value_face(c: SheetCell) -> FontFace:
+    if c.mark in (MARK_OUT, MARK_FAIL):
+        return _OUT
+    return _VALUE if c.value is not None else _BAND
+
+
+def _value_row(table: Table, r: SheetRow, shade: bool, span: str) -> None:
+    """The device's first row: label, board, type, then every recorded value."""
+    row = table.row()
+    top = CellBordersLayout.NONE
+    row.cell(r.label, style=_shade(_VALUE_BOLD, shade), border=top)
+    row.cell(r.board, style=_shade(_VALUE, shade), border=top)
+    row.cell(r.type_text, style=_shade(_VALUE, shade), border=top)
+    n_tests = len(r.tests)
+    if span:
+        row.cell(span, style=_shade(_SPAN, shade), colspan=_span_cols(n_tests), border=top)
     else:
-        span_text = ""
-        span_w = 0.0
-        hs.append(2 * LH)
-    if note:
-        hs.append(pdf.para_h(note_w - 1.2, LH, note, 7))
-    h = max(hs) + 1.6
-    if not draw:
-        return h
-    y = pdf.get_y()
-    if shade:
-        pdf.set_fill_color(*PANEL)
-        pdf.rect(pdf.l_margin, y, pdf.content_w, h, style="F")
-    x = pdf.l_margin
-    pdf.set_y(y + 0.8)
-    pdf.para(x + 0.6, widths[0] - 1.2, LH, r.label, 7.4, True)
-    pdf.para(x + 0.6, widths[0] - 1.2, LH, r.device_id, 6.4, False, MUTED)
-    x += widths[0]
-    for t, w in zip(texts[1:], widths[1:3], strict=True):
-        pdf.set_y(y + 0.8)
-        pdf.para(x + 0.6, w - 1.2, LH, t, 7.4)
-        x += w
-    if span_text:
-        pdf.set_y(y + 0.8)
-        pdf.para(x + 0.6, span_w - 1.2, LH, span_text, 7.4, True, MUTED)
-        x += span_w
-    else:
-        pdf.set_y(y + 0.8)
-        pdf.para(x + 0.6, widths[3] - 1.2, LH, r.test_waveform or "", 7.4)
-        x += widths[3]
+        row.cell(r.test_waveform or "", style=_shade(_VALUE, shade), border=top)
         for c in r.tests:
-            _test_cell(pdf, c, x, y + 0.8, TEST_W, "ms")
-            x += TEST_W
-        _test_cell(pdf, r.ramp, x, y + 0.8, RAMP_W, "mA")
-        x += RAMP_W
-        pdf.set_xy(x + 0.6, y + 0.8)
+            row.cell(_value_text(c, "ms"), style=_shade(_value_face(c), shade), border=top)
+        row.cell(_value_text(r.ramp, "mA"), style=_shade(_value_face(r.ramp), shade), border=top)
         failed = r.button_mark == MARK_FAIL
-        pdf.font(7.4, failed)
-        pdf.ink(SEVERITY_COLOUR["urgent"] if failed else INK)
-        pdf.cell(BUTTON_W - 1.2, LH, (r.button or "—") + (" ✗" if failed else ""))
-        x += BUTTON_W
-    if note:
-        pdf.set_y(y + 0.8)
-        pdf.para(x + 0.6, note_w - 1.2, LH, note, 7)
-    pdf.set_draw_color(*RULE)
-    pdf.set_line_width(0.15)
-    pdf.line(pdf.l_margin, y + h, pdf.w - pdf.r_margin, y + h)
-    pdf.set_y(y + h)
-    return h
+        button = (r.button or "—") + (" ✗" if failed else "")
+        face = _OUT if failed else (_VALUE if r.button else _BAND)
+        row.cell(button, style=_shade(face, shade), border=top)
+    row.cell(clean(r.note), style=_shade(_BAND, shade), rowspan=2, border=CellBordersLayout.BOTTOM)
+
+
+def _band_row(table: Table, r: SheetRow, shade: bool, span: str) -> None:
+    """The device's second row: its id (under device, board and type), then the band of
+    each test (once for 0° and 180°)."""
+    row = table.row()
+    bottom = CellBordersLayout.BOTTOM
+    row.cell(r.device_id, style=_shade(_BAND, shade), colspan=_ID_SPAN, border=bottom)
+    n_tests = len(r.tests)
+    if span:
+        row.cell("", style=_shade(_BAND, shade), colspan=_span_cols(n_tests), border=bottom)
+    else:
+        row.cell("band:", style=_shade(_BAND, shade), border=bottom)
+        i = 0
+        while i < n_tests:
+            c = r.tests[i]
+            same = i + 1 < n_tests and r.tests[i + 1].band == c.band and _pair(c, r.tests[i + 1])
+            row.cell(
+                c.short or c.band,
+                style=_shade(_BAND, shade),
+                colspan=2 if same else 1,
+                border=bottom,
+            )
+            i += 2 if same else 1
+        row.cell(r.ramp.short or r.ramp.band, style=_shade(_BAND, shade), border=bottom)
+        row.cell("", style=_shade(_BAND, shade), border=bottom)
+
+
+def _span_cols(n_tests: int) -> int:
+    """The columns a 'not tested' line spans: test current, the tests, ramp and button."""
+    return 1 + n_tests + len(TAIL_COLUMNS)
+
+
+def _pair(a: SheetCell, b: SheetCell) -> bool:
+    """The 0° and 180° tests of one group (they share a band)."""
+    return a.name.split("_")[0] == b.name.split("_")[0] and a.name.endswith("_0")
+
+
+def _span_text(r: SheetRow) -> str:
+    if r.not_tested is not None:
+        return f"not tested: {r.not_tested}"
+    if not r.recorded:
+        return "no reading recorded on this visit"
+    return ""
 
 
 def sheet_pdf(doc: SheetDoc) -> bytes:
@@ -157,19 +182,34 @@ def sheet_pdf(doc: SheetDoc) -> bytes:
         "tests are recorded as common practice."
     )
     pdf.title_block(doc.heading, lead)
-    fixed = sum(w for _, w in SHEET_COLS) + 6 * TEST_W + RAMP_W + BUTTON_W
-    note_w = pdf.content_w - fixed
     if not doc.rows:
         pdf.para(pdf.l_margin, pdf.content_w, 5, "No residual-current devices on this site.", 9)
     else:
-        pdf.room(22)
-        _sheet_header(pdf, doc, note_w)
-        for n, r in enumerate(doc.rows):
-            h = _sheet_row(pdf, r, note_w, n % 2 == 1, draw=False)
-            if pdf.get_y() + h > pdf.bottom:
-                pdf.add_page()
-                _sheet_header(pdf, doc, note_w)
-            _sheet_row(pdf, r, note_w, n % 2 == 1, draw=True)
+        pdf.room(24)
+        widths = column_widths(pdf.content_w, len(doc.rows[0].tests))
+        pdf.set_draw_color(*RULE)
+        pdf.set_line_width(0.15)
+        pdf.font(VALUE_PT)
+        with pdf.table(
+            col_widths=widths,
+            width=sum(widths),
+            align="LEFT",
+            text_align="LEFT",
+            v_align=VAlign.T,
+            line_height=LINE_H,
+            padding=PAD,
+            borders_layout=TableBordersLayout.NONE,
+            headings_style=_HEAD,
+            repeat_headings=1,
+            first_row_as_headings=True,
+        ) as table:
+            heading = table.row()
+            for title in _headings(doc):
+                heading.cell(title)
+            for n, r in enumerate(doc.rows):
+                span = _span_text(r)
+                _value_row(table, r, n % 2 == 1, span)
+                _band_row(table, r, n % 2 == 1, span)
     caution_box(pdf, doc.caution)
     pdf.stamp_pages()
     return bytes(pdf.output())

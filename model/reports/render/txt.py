@@ -5,12 +5,12 @@ from __future__ import annotations
 import textwrap
 
 from model.reports.heading import Heading
-from model.reports.remedial import RemedialDoc
+from model.reports.remedial import CHECK_IDS_TITLE, RemedialDoc
 from model.reports.sheet import MARK_FAIL, MARK_NOT_JUDGED, MARK_OUT, MARK_PASS, SheetCell, SheetDoc
 from model.reports.text import clean
 
 WIDTH = 100
-_IND = " " * 16
+_IND = " " * 17
 MARK_TXT = {MARK_PASS: "ok", MARK_OUT: "OUT", MARK_NOT_JUDGED: "n/j", MARK_FAIL: "FAIL", "": ""}
 
 
@@ -27,6 +27,8 @@ def _wrap(text: str, indent: str = "", first: str | None = None) -> list[str]:
 def _top(h: Heading) -> list[str]:
     rule = "=" * WIDTH
     lines = [rule, *_wrap(h.statement), h.generated_line(), rule, "", h.title.upper(), ""]
+    if h.visit_note():
+        lines += [*_wrap(h.visit_note()), ""]
     width = max(len(k) for k, _ in h.facts())
     for k, v in h.facts():
         lines += _wrap(v, " " * (width + 2), f"{k:<{width}}  ")
@@ -57,18 +59,11 @@ def remedial_txt(doc: RemedialDoc) -> bytes:
         title = g.label + (f" ({g.place})" if g.place else "")
         lines += ["", *_wrap(title), "-" * min(WIDTH, len(title))]
         for i in g.items:
-            lines += ["", f"[ ] {i.number}. {i.severity.upper()}  {i.rule}"]
+            lines += ["", f"[ ] {i.number}. {i.severity.upper()}"]
             for label, where in zip(i.node_labels, i.where, strict=True):
                 lines += _wrap(f"{label}: {where}", "      ")
-            lines += _wrap(i.message, _IND, "      Wrong:    ")
-            if i.measured or i.band:
-                lines += _wrap(
-                    f"{i.measured or '—'}; band {i.band or '—'}", _IND, "      Measured: "
-                )
-            lines += _wrap(i.action, _IND, "      To do:    ")
-            lines += _wrap(i.source_text(), _IND, "      Rests on: ")
-            if i.charts:
-                lines += _wrap(f"{i.charts_text()} in the PDF", _IND, "      Chart:    ")
+            for name, text, _ in i.rows("in the PDF"):
+                lines += _wrap(text, _IND, f"      {name + ':':<11}")
             lines.append("      Notes: " + "_" * 60)
     if doc.charts:
         lines += ["", "Series pairs", "------------"]
@@ -80,6 +75,9 @@ def remedial_txt(doc: RemedialDoc) -> bytes:
                 "  ",
                 "- ",
             )
+    if doc.items:
+        lines += ["", CHECK_IDS_TITLE, "-" * min(WIDTH, len(CHECK_IDS_TITLE))]
+        lines += [f"{i.number:>4}  {i.rule}" for i in doc.items]
     lines += _bottom(h, doc.caution)
     return ("\n".join(lines) + "\n").encode("utf-8")
 

@@ -44,7 +44,9 @@ def register(sub: argparse._SubParsersAction) -> None:  # type: ignore[type-arg]
     p.add_argument("name", nargs="?", default=DEFAULT_DEMO, help="sample name (see --list)")
     p.add_argument("--list", action="store_true", help="list the bundled samples")
     p.add_argument(
-        "--check", action="store_true", help="print the check instead of opening the app"
+        "--check",
+        action="store_true",
+        help="print the check of the bundled sample instead of opening the app (copies nothing)",
     )
     p.set_defaults(func=run)
 
@@ -54,6 +56,14 @@ def run(args: argparse.Namespace) -> int:
         for n in sample_names():
             print(n)
         return 0
+    if args.name not in sample_names():
+        print(
+            f"tripwise: no sample site {args.name!r}; choose from: {', '.join(sample_names())}",
+            file=sys.stderr,
+        )
+        return 2
+    if args.check:
+        return _check_bundled(args.name)
     try:
         path = copy_sample(args.name)
     except FileNotFoundError:
@@ -63,10 +73,15 @@ def run(args: argparse.Namespace) -> int:
         )
         return 2
     print(f"Demo copy of the invented sample site written to {path}", file=sys.stderr)
-    if args.check:
-        from tui.cli.commands import check
-
-        return check.run(argparse.Namespace(site=str(path), json=False))
     from tui.cli.commands.open import open_app
 
     return open_app(str(path))
+
+
+def _check_bundled(name: str) -> int:
+    """Check the bundled sample where it lies: it is only read, so nothing is copied or written."""
+    from tui.cli.commands import check
+
+    with resources.as_file(resources.files("sample_sites") / f"{name}.json") as path:
+        print(f"Checking the bundled sample {path} (read only; nothing copied)", file=sys.stderr)
+        return check.run(argparse.Namespace(site=str(path), json=False))

@@ -11,7 +11,9 @@ from model.reports.writer import (
     KIND_TITLE,
     KINDS,
     ReportError,
+    UnknownVisit,
     default_name,
+    report_visit,
     write_report,
 )
 from tui.cli.commands.common import load_or_report
@@ -21,9 +23,11 @@ def register(sub: argparse._SubParsersAction) -> None:  # type: ignore[type-arg]
     p = sub.add_parser(
         "report",
         help="write the remedial-work list or the test sheet (PDF, Markdown, CSV or text)",
-        description="Write a document of the latest visit. Without --out the file goes beside "
-        "the site file as <site>-<kind>-<visit date>.<format>. An existing file is never "
-        "replaced without --force. Exit codes: 0 written, 2 bad input or refused.",
+        description="Write a document of the latest visit, or of an earlier one with --visit "
+        "(the site as it stood then; the heading says a later visit exists). Without --out "
+        "the file goes beside the site file as <site name>-<kind>-<visit date>.<format>. An "
+        "existing file is never replaced without --force. Exit codes: 0 written, 2 bad input "
+        "or refused.",
     )
     p.add_argument("site", help="path to the site file (.json)")
     p.add_argument(
@@ -31,6 +35,11 @@ def register(sub: argparse._SubParsersAction) -> None:  # type: ignore[type-arg]
     )
     p.add_argument(
         "--format", dest="fmt", choices=FORMATS, default="pdf", help="file format (default pdf)"
+    )
+    p.add_argument(
+        "--visit",
+        metavar="ID",
+        help="the visit to report (default the latest; see its id in the app)",
     )
     p.add_argument("--out", help="file to write (default: beside the site file)")
     p.add_argument("--force", action="store_true", help="replace the file if it exists")
@@ -41,9 +50,18 @@ def run(args: argparse.Namespace) -> int:
     site = load_or_report(args.site)
     if site is None:
         return 2
-    out = Path(args.out) if args.out else default_name(Path(args.site), site, args.kind, args.fmt)
     try:
-        written = write_report(site, args.kind, args.fmt, out, force=args.force)
+        report_visit(site, args.visit)
+    except UnknownVisit as exc:
+        print(f"tripwise: {args.site}: {exc}", file=sys.stderr)
+        return 2
+    out = (
+        Path(args.out)
+        if args.out
+        else default_name(Path(args.site), site, args.kind, args.fmt, args.visit)
+    )
+    try:
+        written = write_report(site, args.kind, args.fmt, out, force=args.force, visit=args.visit)
     except ReportError as exc:
         print(f"tripwise: {exc}", file=sys.stderr)
         return 2
