@@ -104,9 +104,9 @@ def test_set_delay_bands_print_whole_and_headings_repeat(tmp_path: Path) -> None
     reader = pypdf.PdfReader(out)
     assert len(reader.pages) >= 2
     first = squash(reader.pages[0].extract_text())
-    # IEC 60947-2 Annex B: a CBR's delay is its declared setting (150 ms; at most 500 ms)
-    assert squash("150–500 ms (declared setting)") in first
-    assert squash("≤ 500 ms (declared setting)") in first
+    # IEC 60947-2 Annex B: a CBR's delay is its declared setting (150 ms; at most 500 ms),
+    # the shortest time at every test current, so the 1 × and 5 × bands read alike
+    assert first.count(squash("150–500 ms (declared setting)")) >= 2
     for n in range(len(reader.pages)):
         texts = [p.text for p in pieces(out, n)]
         assert "Board" in texts and "Ramp" in texts, f"headings missing on page {n + 1}"

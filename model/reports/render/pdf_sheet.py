@@ -52,7 +52,7 @@ LEAD_COLUMNS: tuple[tuple[str, float], ...] = (
     ("Device\nid", 30.0),
     ("Board", 21.0),
     ("Type", 22.0),
-    ("Test\ncurrent", 14.0),
+    ("Test\ncurrent", 17.0),
 )
 #: The device id, in the band row, spans the lead columns before the test current.
 _ID_SPAN = len(LEAD_COLUMNS) - 1
