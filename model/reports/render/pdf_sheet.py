@@ -52,12 +52,12 @@ LEAD_COLUMNS: tuple[tuple[str, float], ...] = (
     ("Device\nid", 30.0),
     ("Board", 21.0),
     ("Type", 22.0),
-    ("Test\ncurrent", 17.0),
+    ("Test\ncurrent", 16.5),
 )
 #: The device id, in the band row, spans the lead columns before the test current.
 _ID_SPAN = len(LEAD_COLUMNS) - 1
 TEST_W = 19.5
-RAMP_W = 25.0
+RAMP_W = 24.0
 BUTTON_W = 13.5
 #: Columns after the six tests: ramp and button (the note takes the rest of the width).
 TAIL_COLUMNS: tuple[tuple[str, float], ...] = (("Ramp", RAMP_W), ("Button", BUTTON_W))
