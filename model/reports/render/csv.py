@@ -83,9 +83,9 @@ REMEDIAL_COLUMNS: tuple[str, ...] = (
     "nodes",
     "labels",
     "where",
-    "found",
+    "message",  # headed "Found" on the printed copy; the column name is public
     "measured",
-    "limit",
+    "band",  # headed "Limit" on the printed copy
     "action",
     "source",
     "basis",
