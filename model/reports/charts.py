@@ -100,6 +100,17 @@ class PairChart:
         """'50 mA to 150 mA' (ranges joined by commas); '' when there is none."""
         return ", ".join(CurrentRange(lo, hi).text() for lo, hi in self.ranges)
 
+    def pair_text(self) -> str:
+        """The pair's verdict for a document, naming its ranges once.
+
+        'not guaranteed between 50 mA and 250 mA; confirm by testing both devices'
+        as the analysis words it; otherwise the ranges, then the explanation.
+        """
+        if "not guaranteed" in self.explanation:
+            return self.explanation
+        ranges = self.ranges_text() or "none"
+        return f"selectivity not guaranteed over {ranges}; {self.explanation}"
+
 
 def _breakpoints_ma(idn_ma: float) -> list[float]:
     """The currents at which a device's bands may step. [mA]

@@ -265,25 +265,65 @@ def unsafe_ranges(bands: PairBands, row: int) -> list[tuple[float, float]]:
     if not bad.any():
         return []
     cur = bands.currents_ma[row]
-    out: list[tuple[float, float]] = []
-    i = 0
+    mid = bands.is_midpoint
     s = bad.shape[0]
-    while i < s:
-        if not bad[i]:
-            i += 1
-            continue
-        j = i
-        while j + 1 < s and bad[j + 1]:
-            j += 1
-        lo = cur[i - 1] if (bands.is_midpoint[i] and i > 0) else cur[i]
-        hi = cur[j + 1] if (bands.is_midpoint[j] and j + 1 < s) else cur[j]
+    # runs of consecutive non-selective samples: [start, stop) pairs
+    edges = np.flatnonzero(np.diff(np.concatenate(([0], bad.astype(np.int8), [0]))))
+    out: list[tuple[float, float]] = []
+    for i, stop in zip(edges[0::2].tolist(), edges[1::2].tolist(), strict=True):
+        j = stop - 1
+        lo = cur[i - 1] if (mid[i] and i > 0) else cur[i]
+        hi = cur[j + 1] if (mid[j] and j + 1 < s) else cur[j]
         if hi > lo:
             if out and abs(out[-1][1] - lo) <= 1e-9 * max(1.0, lo):
                 out[-1] = (out[-1][0], float(hi))
             else:
                 out.append((float(lo), float(hi)))
-        i = j + 1
     return out
+
+
+def all_unsafe_ranges(bands: PairBands) -> list[list[tuple[float, float]]]:
+    """:func:`unsafe_ranges` of every pair at once (the same ranges, vectorised). [mA]"""
+    bad = ~bands.selective
+    p, s = bad.shape
+    out: list[list[tuple[float, float]]] = [[] for _ in range(p)]
+    if not bad.any():
+        return out
+    padded = np.zeros((p, s + 2), dtype=np.int8)
+    padded[:, 1:-1] = bad
+    step = np.diff(padded, axis=1)
+    rows, starts = np.nonzero(step == 1)
+    _, stops = np.nonzero(step == -1)  # row-major order: pairs up with the starts
+    ends = stops - 1
+    cur = bands.currents_ma
+    mid = bands.is_midpoint
+    lo = np.where(
+        mid[starts] & (starts > 0), cur[rows, np.maximum(starts - 1, 0)], cur[rows, starts]
+    )
+    hi = np.where(
+        mid[ends] & (ends + 1 < s), cur[rows, np.minimum(ends + 1, s - 1)], cur[rows, ends]
+    )
+    for r, a, b in zip(rows.tolist(), lo.tolist(), hi.tolist(), strict=True):
+        if b > a:
+            got = out[r]
+            if got and abs(got[-1][1] - a) <= 1e-9 * max(1.0, a):
+                got[-1] = (got[-1][0], b)
+            else:
+                got.append((a, b))
+    return out
+
+
+def has_unsafe(bands: PairBands) -> npt.NDArray[np.bool_]:
+    """For each pair, whether :func:`unsafe_ranges` finds any range (vectorised).
+
+    A range of positive width always contains a midpoint sample that is not
+    selective; a lone breakpoint that is not selective between selective
+    neighbours is not a range.
+    """
+    cur = bands.currents_ma
+    bad_mid = ~bands.selective[:, 1::2]
+    wide = cur[:, 2::2] > cur[:, 0:-1:2]
+    return np.asarray((bad_mid & wide).any(axis=1), dtype=bool)
 
 
 def band_curve(dev: DeviceCurve, currents_ma: FloatArray) -> tuple[FloatArray, FloatArray]:

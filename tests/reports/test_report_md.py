@@ -79,3 +79,13 @@ def test_text_documents_carry_statement_top_and_bottom() -> None:
     flat = squash(render(site, "remedial", "txt").decode("utf-8"))
     for f in result.findings:
         assert squash(f.message) in flat and squash(f.action) in flat
+
+
+@pytest.mark.parametrize("fmt", ["md", "txt"])
+def test_series_pair_that_meets_the_rule_is_worded_not_guaranteed(fmt: str) -> None:
+    # 100 mA S over 30 mA meets 3:1 and a delay (BS 7671 536.4.1.4, common practice);
+    # IEC 61008-1 Table 1 with its 0.25 A note leaves 50-250 mA unguaranteed
+    site = load_site(Path(__file__).resolve().parents[2] / "sample_sites" / "oak-lane-house.json")
+    text = " ".join(render(site, "remedial", fmt).decode("utf-8").split())
+    assert "not guaranteed between 50 mA and 250 mA; confirm by testing both devices" in text
+    assert "selectivity not guaranteed over 50 mA to 250 mA" not in text

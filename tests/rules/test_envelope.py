@@ -14,7 +14,14 @@ import pytest
 from numpy.testing import assert_allclose
 from sitekit import rcd, rules_of, run, visit
 
-from model.rules.envelope import DeviceCurve, band_curve, pair_bands, unsafe_ranges
+from model.rules.envelope import (
+    DeviceCurve,
+    all_unsafe_ranges,
+    band_curve,
+    has_unsafe,
+    pair_bands,
+    unsafe_ranges,
+)
 
 FULL = 500_000.0  # 500 A, the upper current of IEC 61008-1 Table 1, in mA
 
@@ -104,8 +111,12 @@ def test_vectorised_over_many_pairs_equals_one_by_one() -> None:
     ups = [u if (u.delay != "S" or u.idn_ma > 30) else DeviceCurve(u.idn_ma) for u in ups]
     imax = [float(x) for x in rng.uniform(100, 600_000, 40)]
     many = pair_bands(ups, downs, imax)
+    any_open = has_unsafe(many)
+    every = all_unsafe_ranges(many)
     for i in range(40):
+        assert every[i] == unsafe_ranges(many, i)
         assert unsafe_ranges(many, i) == ranges(ups[i], downs[i], imax[i])
+        assert bool(any_open[i]) is bool(unsafe_ranges(many, i))
 
 
 @pytest.fixture

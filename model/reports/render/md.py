@@ -86,11 +86,9 @@ def remedial_md(doc: RemedialDoc) -> bytes:
     if doc.charts:
         lines += ["## Series pairs", ""]
         for c in doc.charts:
-            ranges = c.ranges_text() or "none"
             lines.append(
                 f"- Chart {c.number}: **{esc(c.up_label)}** ({esc(c.up_text)}) above "
-                f"**{esc(c.down_label)}** ({esc(c.down_text)}): selectivity not guaranteed "
-                f"over {esc(ranges)}; {esc(c.explanation)}"
+                f"**{esc(c.down_label)}** ({esc(c.down_text)}): {esc(c.pair_text())}"
             )
         lines.append("")
     if doc.items:

@@ -68,10 +68,9 @@ def remedial_txt(doc: RemedialDoc) -> bytes:
     if doc.charts:
         lines += ["", "Series pairs", "------------"]
         for c in doc.charts:
-            ranges = c.ranges_text() or "none"
             lines += _wrap(
                 f"Chart {c.number}: {c.up_label} ({c.up_text}) above {c.down_label} "
-                f"({c.down_text}): selectivity not guaranteed over {ranges}; {c.explanation}",
+                f"({c.down_text}): {c.pair_text()}",
                 "  ",
                 "- ",
             )

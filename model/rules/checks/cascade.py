@@ -3,7 +3,6 @@
 from __future__ import annotations
 
 from collections.abc import Iterator
-from dataclasses import replace
 from typing import Any
 
 from model.rules.checks.context import Context
@@ -13,7 +12,7 @@ from model.rules.checks.pair_verdict import (
     pair_verdict,
     remedies,
 )
-from model.rules.envelope import DeviceCurve, pair_bands, unsafe_ranges
+from model.rules.envelope import DeviceCurve, all_unsafe_ranges, pair_bands
 from model.rules.findings import (
     CurrentRange,
     Finding,
@@ -165,20 +164,28 @@ def analyse_pairs(ctx: Context) -> list[PairAnalysis]:
     downs = [curves[d] for _, d in pairs]
     imax = [faults[d] for _, d in pairs]
     bands = pair_bands(ups, downs, imax)
+    std_ranges = all_unsafe_ranges(bands)
     confirmed = {
-        r: ms for r in idx.rcds() if (ms := five_x_confirmed_ms(ctx, idx.by_id[r])) is not None
+        r: ms
+        for r in idx.rcds()
+        if (ms := five_x_confirmed_ms(ctx, idx.by_id[r], curves[r])) is not None
     }
-    conf_rows = [row for row, (_, d) in enumerate(pairs) if d in confirmed]
+    conf_rows = [row for row, (_, d) in enumerate(pairs) if d in confirmed and std_ranges[row]]
     conf_ranges: dict[int, list[tuple[float, float]]] = {}
     if conf_rows:
         conf_bands = pair_bands(
             [ups[row] for row in conf_rows],
-            [replace(downs[row], five_x_confirmed=True) for row in conf_rows],
+            [
+                DeviceCurve(c.idn_ma, c.delay, c.delay_ms, c.max_break_ms, True)
+                for c in (downs[row] for row in conf_rows)
+            ],
             [imax[row] for row in conf_rows],
         )
-        conf_ranges = {row: unsafe_ranges(conf_bands, k) for k, row in enumerate(conf_rows)}
-    out: list[PairAnalysis] = []
+        conf_all = all_unsafe_ranges(conf_bands)
+        conf_ranges = {row: conf_all[k] for k, row in enumerate(conf_rows)}
+    rows: list[tuple[Any, ...]] = []
     remedy_rows = []
+    gaps: list[int] = []
     for row, (u, d) in enumerate(pairs):
         up, down = idx.by_id[u], idx.by_id[d]
         ratio = float(up.idn_ma) / float(down.idn_ma)
@@ -189,31 +196,35 @@ def analyse_pairs(ctx: Context) -> list[PairAnalysis]:
         short = ratio_below(ratio)
         if short:
             notes.append(f"IΔn ratio {fmt_ratio(ratio)} is below {_RATIO}")
-        ranges = unsafe_ranges(bands, row)
+        ranges = std_ranges[row]
         judged = conf_ranges.get(row, ranges) if ranges else ranges
         note = confirm_note(down, confirmed[d]) if ranges and row in conf_ranges else ""
         margin = measured_margin(ctx, up, down, judged)
         v = pair_verdict(not notes, imax[row], ranges, judged, margin, note)
-        remedy_rows.append((ups[row], downs[row], imax[row], delayed, short, row in conf_ranges))
-        out.append(
-            PairAnalysis(
-                up=u,
-                down=d,
-                ratio=ratio,
-                up_delayed=delayed,
-                rule_ok=not notes,
-                rule_notes=tuple(notes),
-                i_max_ma=float(imax[row]),
-                ranges=tuple(CurrentRange(lo, hi) for lo, hi in ranges),
-                measured=margin,
-                verdict=v.verdict,  # type: ignore[arg-type]
-                explanation=v.explanation,
+        if v.verdict in ("not-guaranteed", "not-selective"):
+            gaps.append(row)
+            remedy_rows.append(
+                (ups[row], downs[row], imax[row], delayed, short, row in conf_ranges)
             )
+        rows.append((u, d, ratio, delayed, tuple(notes), ranges, margin, v))
+    actions = dict(zip(gaps, remedies(remedy_rows), strict=True))
+    return [
+        PairAnalysis(
+            up=u,
+            down=d,
+            ratio=ratio,
+            up_delayed=delayed,
+            rule_ok=not notes,
+            rule_notes=notes,
+            i_max_ma=float(imax[row]),
+            ranges=tuple(CurrentRange(lo, hi) for lo, hi in ranges),
+            measured=margin,
+            verdict=v.verdict,
+            explanation=v.explanation,
+            action=actions.get(row, ""),
         )
-    gaps = [i for i, p in enumerate(out) if p.verdict in ("not-guaranteed", "not-selective")]
-    for i, text in zip(gaps, remedies([remedy_rows[i] for i in gaps]), strict=True):
-        out[i] = replace(out[i], action=text)
-    return out
+        for row, (u, d, ratio, delayed, notes, ranges, margin, v) in enumerate(rows)
+    ]
 
 
 def check_cascade(ctx: Context) -> Iterator[Finding]:

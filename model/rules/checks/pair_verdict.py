@@ -16,11 +16,11 @@ IEC 61008-1 Ed.3 Table 1 and its note on 0.25 A.
 
 from __future__ import annotations
 
-from dataclasses import dataclass, replace
+from dataclasses import dataclass
 from typing import Any
 
 from model.rules.checks.context import Context
-from model.rules.envelope import DeviceCurve, pair_bands, unsafe_ranges
+from model.rules.envelope import DeviceCurve, has_unsafe, pair_bands
 from model.rules.findings import MeasuredMargin, fmt_ma
 from model.rules.limits import ALT_5X_CURRENT_A, BREAK_TIMES
 from model.site.terms import DID_NOT_TRIP
@@ -33,20 +33,22 @@ FIVE_X_MAX_MS = next(p.general_max_ms for p in BREAK_TIMES if p.multiple == 5.0)
 UPSTREAM_IDN_STEPS_MA = (100.0, 300.0, 500.0, 1000.0, 3000.0)
 
 
-def five_x_confirmed_ms(ctx: Context, node: Any) -> float | None:
+def five_x_confirmed_ms(ctx: Context, node: Any, curve: DeviceCurve | None = None) -> float | None:
     """The slowest 5 IΔn AC time of the latest visit where it confirms 40 ms, else None.
 
     Only for a general device of IΔn <= 30 mA (the devices the 0.25 A note
     applies to); every recorded 5 IΔn value must be a trip within 40 ms.
+    ``curve``: the device's curve where the caller has it already.
     """
-    curve = DeviceCurve.of(node)
-    if not curve.alt_5x or ctx.latest is None:
+    if ctx.latest is None:
         return None
     r = ctx.latest.readings.get(node.id)
     if r is None or r.not_tested or r.waveform != "AC":
         return None
     vals = [v for v in (r.x5_0, r.x5_180) if v is not None]
     if not vals or DID_NOT_TRIP in vals:
+        return None
+    if not (curve or DeviceCurve.of(node)).alt_5x:
         return None
     slowest = max(float(v) for v in vals)
     return slowest if slowest <= FIVE_X_MAX_MS else None
@@ -133,23 +135,25 @@ def remedies(
         todo = [i for i in open_rows if i not in clears and rows[i][0].idn_ma < step]
         if not todo:
             continue
-        bands = pair_bands(
-            [replace(rows[i][0], idn_ma=step) for i in todo],
-            [rows[i][1] for i in todo],
-            [rows[i][2] for i in todo],
-        )
+        ups = []
+        for i in todo:
+            u = rows[i][0]
+            ups.append(DeviceCurve(step, u.delay, u.delay_ms, u.max_break_ms))
+        still = has_unsafe(pair_bands(ups, [rows[i][1] for i in todo], [rows[i][2] for i in todo]))
         for k, i in enumerate(todo):
-            if not unsafe_ranges(bands, k):
+            if not still[k]:
                 clears[i] = step
     by_test: set[int] = set()
     testable = [i for i in open_rows if rows[i][1].alt_5x]
     if testable:
-        bands = pair_bands(
-            [rows[i][0] for i in testable],
-            [replace(rows[i][1], five_x_confirmed=True) for i in testable],
-            [rows[i][2] for i in testable],
+        downs = []
+        for i in testable:
+            d = rows[i][1]
+            downs.append(DeviceCurve(d.idn_ma, d.delay, d.delay_ms, d.max_break_ms, True))
+        still = has_unsafe(
+            pair_bands([rows[i][0] for i in testable], downs, [rows[i][2] for i in testable])
         )
-        by_test = {i for k, i in enumerate(testable) if not unsafe_ranges(bands, k)}
+        by_test = {i for k, i in enumerate(testable) if not still[k]}
     for i, (up, down, _imax, delayed, short, _confirmed) in enumerate(rows):
         readings = "or test both devices (AC, at IΔn and 5 IΔn) to show a margin in practice"
         if not delayed and short:
