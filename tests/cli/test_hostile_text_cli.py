@@ -107,3 +107,50 @@ def test_an_invalid_kind_is_cut_and_escaped(tmp_path: Path) -> None:
     assert p.stderr.count("\n") == 1 and len(p.stderr) < 400, len(p.stderr)
     assert "unknown kind 'x\\x1b]0;PWNED\\x07kkk" in p.stderr and "…'" in p.stderr
     assert "(one of: origin, board," in p.stderr and "\x1b" not in p.stderr
+
+
+def _site_with_labels(tmp_path: Path, labels: dict[str, str]) -> Path:
+    doc = json.loads((SAMPLES / "oak-lane-house.json").read_text(encoding="utf-8"))
+    for n in doc["nodes"]:
+        n["label"] = labels.get(n["id"], n.get("label", n["id"]))
+    path = tmp_path / "labels.json"
+    path.write_text(json.dumps(doc, ensure_ascii=False), encoding="utf-8")
+    return path
+
+
+def test_pdf_shows_characters_outside_its_font_and_lists_them(tmp_path: Path) -> None:
+    import shutil
+    import subprocess
+
+    import pytest
+
+    if shutil.which("pdftotext") is None:
+        pytest.skip("pdftotext is not installed")
+    site = _site_with_labels(tmp_path, {"rc1": "Upstairs ＝SUM(1) 中"})
+    out = tmp_path / "sheet.pdf"
+    p = tripwise("report", str(site), "--kind", "sheet", "--format", "pdf", "--out", str(out))
+    assert p.returncode == 0, p.stderr
+    text = subprocess.run(
+        ["pdftotext", "-layout", str(out), "-"], capture_output=True, text=True, check=True
+    ).stdout
+    assert "[U+FF1D]SUM(1)" in text and "[U+4E2D]" in text
+    flat = " ".join(text.split())
+    assert (
+        "[U+FF1D] FULLWIDTH EQUALS SIGN" in flat and "[U+4E2D] CJK UNIFIED IDEOGRAPH-4E2D" in flat
+    )
+
+
+def test_csv_guards_full_width_formula_starts(tmp_path: Path) -> None:
+    import csv
+
+    labels = {"rc1": "＝HYPERLINK(1)", "rc2": "＋1", "rb1": "﹦1", "rb2": "＠SUM(1)", "m1": "－2"}
+    site = _site_with_labels(tmp_path, labels)
+    out = tmp_path / "sheet.csv"
+    p = tripwise("report", str(site), "--kind", "sheet", "--format", "csv", "--out", str(out))
+    assert p.returncode == 0, p.stderr
+    with out.open(encoding="utf-8-sig", newline="") as f:
+        cells = [c for row in csv.reader(f) for c in row]
+    for label in labels.values():
+        if any(label in c for c in cells):
+            assert "'" + label in cells and label not in cells, label
+    assert "'＝HYPERLINK(1)" in cells

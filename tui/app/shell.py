@@ -30,13 +30,20 @@ from tui.app.dialogs import DialogActionsMixin
 from tui.app.edits import EditsMixin
 from tui.app.node_actions import NodeActionsMixin
 from tui.app.safe_display import show_controls_visibly
+from tui.screens.closing import KeyGate
 from tui.screens.confirm import ConfirmScreen
 from tui.screens.main import MainScreen
 from tui.screens.readings import ReadingScreen
 
 
 class TripwiseApp(
-    NodeActionsMixin, DialogActionsMixin, EditsMixin, AutosaveMixin, AnalysisMixin, App[None]
+    NodeActionsMixin,
+    DialogActionsMixin,
+    EditsMixin,
+    AutosaveMixin,
+    AnalysisMixin,
+    KeyGate,
+    App[None],
 ):
     """The app for one site file."""
 

@@ -9,7 +9,6 @@ from textual import on, work
 from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Horizontal, Vertical
-from textual.screen import ModalScreen
 from textual.widgets import Button, Input, Label, RadioButton, RadioSet, Static
 
 from model.reports.heading import STATEMENT
@@ -25,9 +24,10 @@ from model.reports.writer import (
 from model.site.models import SiteFile
 from model.storage.codec import SiteLoadError
 from model.storage.sites import load_site
+from tui.screens.closing import Dialog
 
 
-class ExportScreen(ModalScreen[Path | None]):
+class ExportScreen(Dialog[Path | None]):
     """Choose a document and a format, see the file name, write it; dismiss with the path.
 
     An existing file is replaced only after a second press of Write.  The

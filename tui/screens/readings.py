@@ -18,7 +18,6 @@ from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Vertical
 from textual.message import Message
-from textual.screen import Screen
 from textual.widgets import Static
 
 from model.rules.entry import (
@@ -34,6 +33,7 @@ from model.site.fields import errors_by_field, field_choices
 from model.site.models import Reading
 from tui.app.view import site_view
 from tui.format import LIVE_TEST_CAUTION, node_summary, node_title
+from tui.screens.closing import ClosesOnce
 from tui.widgets.caution_bar import CautionBar
 from tui.widgets.key_bar import KeyBar
 from tui.widgets.reading_pad import ReadingPad
@@ -74,7 +74,7 @@ _OK = "#7bd88f"
 _BAD = "bold #ff4d5e"
 
 
-class ReadingScreen(Screen[str]):
+class ReadingScreen(ClosesOnce[str]):
     """One device's readings at a time, on the latest visit; dismisses with the last device."""
 
     BINDINGS = [
