@@ -13,12 +13,15 @@ from typing import Any
 
 from pydantic import ValidationError
 
+from model.site.safe_text import cut, echoed, shown_line
 from model.site.terms import ID_RULE
 
 #: pydantic puts this before the text of a ValueError raised in a validator.
 _VALUE_ERROR_PREFIX = "Value error, "
 
-_CONTROL = {c: f"\\x{c:02x}" for c in range(32)} | {10: "\\n", 13: "\\r", 9: " "}
+#: The longest one clause of a validation message may be (a pydantic message
+#: can quote a value; the value itself is cut to 60 characters first).
+_CLAUSE_LIMIT = 200
 
 
 def error_text(err: Mapping[str, Any], default: str = "invalid") -> str:
@@ -27,12 +30,24 @@ def error_text(err: Mapping[str, Any], default: str = "invalid") -> str:
 
 
 def one_line(text: str) -> str:
-    """``text`` with line breaks and control characters escaped, so it prints as one line."""
-    return text.translate(_CONTROL)
+    """``text`` with line breaks and terminal controls escaped, so it prints as one line.
+
+    See :func:`model.site.safe_text.shown_line`: every control character, C1
+    character, bidi override and line separator is shown as a visible escape.
+    """
+    return shown_line(text)
 
 
 def _shown_key(key: str) -> str:
     return key if key.isprintable() and len(key) <= 40 else repr(key[:40])
+
+
+def _tag_message(err: Mapping[str, Any]) -> str:
+    ctx = err.get("ctx") or {}
+    tag = ctx.get("tag")
+    expected = str(ctx.get("expected_tags", "")).replace("'", "")
+    shown_tag = f" '{echoed(tag)}'" if tag is not None else ""
+    return f"unknown kind{shown_tag}" + (f" (one of: {expected})" if expected else "")
 
 
 def _walk(loc: tuple[Any, ...], raw: Any) -> str:
@@ -88,14 +103,15 @@ def describe_validation_error(exc: ValidationError, raw: Any) -> str:
         msg = error_text(err)
         if err.get("type") == "extra_forbidden":
             field = loc[-1] if loc else "?"
-            msg = f"field {str(field)[:60]!r} is not allowed here"
+            msg = f"field '{echoed(field)}' is not allowed here"
             loc = loc[:-1]
         elif err.get("type") == "union_tag_invalid":
-            msg = "unknown kind; " + msg
+            msg = _tag_message(err)
         elif err.get("type") == "string_pattern_mismatch" and loc and loc[-1] in ("id", "parent"):
             msg = f"an id is {ID_RULE}"
         elif err.get("type") == "missing":
             msg = "required field is missing"
+        msg = cut(shown_line(msg[: _CLAUSE_LIMIT + 1]), _CLAUSE_LIMIT)
         msgs = merged.setdefault(_walk(loc, raw), [])
         if msg not in msgs:
             msgs.append(msg)

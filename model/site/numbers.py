@@ -5,12 +5,24 @@ guessed: digits with at most one decimal mark.  Either "." or "," is taken as
 the decimal mark (both are usual on site), but "1,000" is refused because it
 may mean one thousand.  Exponents ("1e3"), "inf", "nan" and thousands
 separators are refused.
+
+The same function reads a value typed in the app (the reading screen and every
+form) and a cell of an imported CSV, so both accept and refuse the same texts:
+
+- accepted: the digits 0-9 with one optional decimal mark ("12", "12.5",
+  "12,5", ".5"), a leading "+" or "-" (a negative value is then refused by
+  the field's own limit, with that reason), spaces before and after;
+- refused, with the reason: exponents ("1e3"), "_" or "," as thousands
+  separators ("1_000", "1,000"), spaces inside, digits of other scripts
+  (full-width "１２", Arabic-Indic "١٢"), "inf", "nan", anything else.
 """
 
 from __future__ import annotations
 
 import re
 from decimal import Decimal
+
+from model.site.safe_text import echoed
 
 _NUMBER = re.compile(r"[+-]?(?:[0-9]+(?:[.,][0-9]*)?|[.,][0-9]+)")
 _AMBIGUOUS = re.compile(r"[+-]?[0-9]{1,3},[0-9]{3}")
@@ -28,12 +40,13 @@ def parse_number(text: str) -> float | None:
     t = text.strip()
     if not t:
         return None
+    shown = f"'{echoed(t)}'"
     if _AMBIGUOUS.fullmatch(t):
-        raise ValueError(
-            f"{text.strip()!r} is ambiguous: write it without the comma, or with a point"
-        )
+        raise ValueError(f"{shown} is ambiguous: write it without the comma, or with a point")
     if not _NUMBER.fullmatch(t):
-        raise ValueError(f"{text.strip()!r} is not a number ({NUMBER_RULE})")
+        if any(c.isdigit() and not "0" <= c <= "9" for c in t):
+            raise ValueError(f"{shown} is not a number: write it with the digits 0-9")
+        raise ValueError(f"{shown} is not a number ({NUMBER_RULE})")
     return float(t.replace(",", "."))
 
 

@@ -62,11 +62,12 @@ def clean(cell: str) -> str:
     return s
 
 
-def number(text: str) -> float | None:
+def number(text: str, what: str) -> tuple[float | None, str | None]:
+    """The number in a cell, read as a typed one is; or the reason it is refused."""
     try:
-        return parse_number(text)
-    except ValueError:
-        return None
+        return parse_number(text), None
+    except ValueError as exc:
+        return None, f"{exc}; expected {what}"
 
 
 def cell_value(key: str, text: str) -> tuple[Any, str | None]:
@@ -74,15 +75,9 @@ def cell_value(key: str, text: str) -> tuple[Any, str | None]:
     if key in TEST_NAMES:
         if text.lower() == DID_NOT_TRIP:
             return DID_NOT_TRIP, None
-        v = number(text)
-        if v is None:
-            return None, f"{text!r} is not a trip time in ms or {DID_NOT_TRIP!r}"
-        return v, None
+        return number(text, f"a trip time in ms or {DID_NOT_TRIP!r}")
     if key == "ramp_ma":
-        v = number(text)
-        if v is None:
-            return None, f"{text!r} is not a current in mA"
-        return v, None
+        return number(text, "a current in mA")
     if key == "button":
         b = _BUTTON.get(text.lower())
         return (b, None) if b else (None, f"{text!r} is not {or_list(map(repr, _BUTTON.values()))}")

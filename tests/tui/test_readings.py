@@ -177,6 +177,8 @@ async def test_a_reading_the_session_refuses_is_shown_at_its_field(
         ("1e3", "1e3", "'1e3' is not a number"),  # not quietly read as 13
         ("-5", "-5", "a trip time must be more than 0 ms (you entered -5)"),  # not 5
         ("99999999", "99999999", "at most 10000 ms (you entered 99999999)"),
+        # the ceiling and why: a 'did not trip' is recorded as such, never as a long time
+        ("99999", "99999", "at most 10000 ms (you entered 99999); a trip test never runs"),
     ],
 )
 async def test_a_wrong_value_is_shown_as_typed_and_refused_with_the_reason(
@@ -192,6 +194,9 @@ async def test_a_wrong_value_is_shown_as_typed_and_refused_with_the_reason(
         assert screen.pad.values["x1_0"] == shown
         assert says in screen.verdicts["x1_0"]
         assert screen.flags["x1_0"] is None  # refused, never judged against the band
+        status = screen.query_one("#rd-status").render().plain  # type: ignore[attr-defined]
+        assert " ".join(status.split()).endswith(screen.verdicts["x1_0"])  # whole, not cut
+        assert "too slow" not in status
         await pilot.press("enter")
         # the cursor stays on the field, the reason is there, and nothing is recorded
         assert screen.pad.current == "x1_0"
@@ -236,3 +241,18 @@ async def test_previous_visit_value_beside_each_field_and_a_second_waveform(
         await pilot.press("ctrl+s")
     saved = load_site(oak_lane).latest_visit()
     assert saved is not None and saved.readings["rc1"].further[0].x1_0 == 27.0
+
+
+async def test_a_small_value_is_recorded_exactly_as_typed(oak_lane: Path) -> None:
+    """0.001 ms is a number the file accepts: recorded as 0.001, never as 1 or 0001."""
+    app = make_app(oak_lane)
+    async with app.run_test(size=(80, 24)) as pilot:
+        await app.settle()
+        screen = await _open_readings(app, pilot, "rb2")
+        screen.pad.go("x1_0")
+        await pilot.press(*"0.001")
+        assert screen.pad.values["x1_0"] == "0.001"
+        await pilot.press("enter")
+        await app.settle()
+        reading = app.site.latest_visit().readings["rb2"]  # type: ignore[union-attr]
+        assert reading.x1_0 == 0.001

@@ -112,7 +112,7 @@ def test_every_bad_row_is_reported_with_row_and_column() -> None:
         (7, "device"),
     ]
     texts = [e.text() for e in info.value.errors]
-    assert "'fast' is not a trip time" in texts[0]
+    assert "'fast' is not a number" in texts[0] and "a trip time in ms" in texts[0]
     assert "no device 'nope'" in texts[1] and "is a mcb" in texts[2]
     assert "already given in row 5" in texts[4]
 

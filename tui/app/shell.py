@@ -29,13 +29,21 @@ from tui.app.autosave import AutosaveMixin
 from tui.app.dialogs import DialogActionsMixin
 from tui.app.edits import EditsMixin
 from tui.app.node_actions import NodeActionsMixin
+from tui.app.safe_display import show_controls_visibly
+from tui.screens.closing import KeyGate
 from tui.screens.confirm import ConfirmScreen
 from tui.screens.main import MainScreen
 from tui.screens.readings import ReadingScreen
 
 
 class TripwiseApp(
-    NodeActionsMixin, DialogActionsMixin, EditsMixin, AutosaveMixin, AnalysisMixin, App[None]
+    NodeActionsMixin,
+    DialogActionsMixin,
+    EditsMixin,
+    AutosaveMixin,
+    AnalysisMixin,
+    KeyGate,
+    App[None],
 ):
     """The app for one site file."""
 
@@ -69,6 +77,7 @@ class TripwiseApp(
         *,
         lock_message: str | None = None,
     ) -> None:
+        show_controls_visibly()
         super().__init__()
         self.site_path = site_path
         self.session: EditSession | None = session

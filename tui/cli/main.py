@@ -14,6 +14,7 @@ import sys
 from collections.abc import Sequence
 
 from model import __version__
+from tui.cli.output import SafeStream, guarded_output
 
 COMMAND_MODULES = [
     "tui.cli.commands.check",
@@ -45,6 +46,12 @@ def build_parser() -> argparse.ArgumentParser:
 
 
 def main(argv: Sequence[str] | None = None) -> int:
+    """Run one command; whatever it prints is shown safely (:mod:`tui.cli.output`)."""
+    with guarded_output() as messages:
+        return _run(argv, messages)
+
+
+def _run(argv: Sequence[str] | None, messages: SafeStream) -> int:
     args_in = list(sys.argv[1:] if argv is None else argv)
     parser = build_parser()
     known = set(parser._subparsers._group_actions[0].choices) if parser._subparsers else set()  # type: ignore[union-attr]
@@ -58,6 +65,7 @@ def main(argv: Sequence[str] | None = None) -> int:
     if not getattr(args, "func", None):
         parser.print_help()
         return EXIT_OK
+    messages.one_line = True  # from here on, each message on stderr is one line
     try:
         return int(args.func(args))
     except KeyboardInterrupt:

@@ -6,12 +6,13 @@ from textual import on
 from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Vertical
-from textual.screen import ModalScreen
 from textual.widgets import Label, OptionList
 from textual.widgets.option_list import Option
 
+from tui.screens.closing import Dialog
 
-class ChoiceScreen(ModalScreen[str | None]):
+
+class ChoiceScreen(Dialog[str | None]):
     """Pick one of several values; Enter chooses, Escape cancels."""
 
     BINDINGS = [Binding("escape", "cancel", "Cancel")]

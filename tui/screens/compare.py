@@ -7,7 +7,6 @@ from textual import work
 from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Vertical
-from textual.screen import ModalScreen
 from textual.widgets import DataTable, Static
 
 from model.rules.bands import fmt_value
@@ -15,9 +14,10 @@ from model.rules.findings import CAUTION
 from model.site.history import visit_ids
 from model.site.models import SiteFile
 from model.visits.compare import CompareError, VisitComparison, change_text, compare_visits
+from tui.screens.closing import Dialog
 
 
-class CompareScreen(ModalScreen[None]):
+class CompareScreen(Dialog[None]):
     """Compare two visits (default: the two latest).  Escape closes."""
 
     BINDINGS = [

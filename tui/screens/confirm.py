@@ -6,11 +6,12 @@ from textual import on
 from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Horizontal, Vertical
-from textual.screen import ModalScreen
 from textual.widgets import Button, Label, Static
 
+from tui.screens.closing import Dialog
 
-class ConfirmScreen(ModalScreen[bool]):
+
+class ConfirmScreen(Dialog[bool]):
     """Asks one question; `y`/Enter on Yes confirms, `n`/Escape declines."""
 
     BINDINGS = [

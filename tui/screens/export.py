@@ -9,7 +9,6 @@ from textual import on, work
 from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Horizontal, Vertical
-from textual.screen import ModalScreen
 from textual.widgets import Button, Input, Label, RadioButton, RadioSet, Select, Static
 
 from model.reports.heading import STATEMENT
@@ -26,9 +25,10 @@ from model.site.history import ordered_visits
 from model.site.models import SiteFile
 from model.storage.codec import SiteLoadError
 from model.storage.sites import load_site
+from tui.screens.closing import Dialog
 
 
-class ExportScreen(ModalScreen[Path | None]):
+class ExportScreen(Dialog[Path | None]):
     """Choose a document, a format and a visit, see the file name, write it; dismiss with the path.
 
     The visit list offers every visit, latest first; a document of an earlier

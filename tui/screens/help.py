@@ -7,8 +7,9 @@ from rich.text import Text
 from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Vertical, VerticalScroll
-from textual.screen import ModalScreen
 from textual.widgets import Label, Static
+
+from tui.screens.closing import Dialog
 
 #: (where, keys, what) for every key the app answers to.
 KEY_MAP: list[tuple[str, str, str]] = [
@@ -52,7 +53,7 @@ KEY_MAP: list[tuple[str, str, str]] = [
 ]
 
 
-class HelpScreen(ModalScreen[None]):
+class HelpScreen(Dialog[None]):
     """The key map."""
 
     BINDINGS = [Binding("escape,q,question_mark,f1", "close", "Close")]

@@ -9,7 +9,6 @@ from textual import on
 from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Vertical
-from textual.screen import ModalScreen
 from textual.widgets import Button, DataTable, Static
 
 from model.rules.findings import CAUTION, device_text
@@ -17,6 +16,7 @@ from model.rules.impact import TripImpact, trip_impact
 from model.site.models import SiteFile
 from model.site.terms import OVERCURRENT_KINDS, RCD_KINDS
 from model.site.tree import SiteIndex
+from tui.screens.closing import Dialog
 
 
 def device_line(node: Any) -> str:
@@ -54,7 +54,7 @@ def lighting_text(idx: SiteIndex, impact: TripImpact) -> tuple[str, str]:
     return "Lighting lost: " + _names(idx, impact.lighting_lost) + ". " + kept, "-partly"
 
 
-class ImpactScreen(ModalScreen[None]):
+class ImpactScreen(Dialog[None]):
     """Every circuit that loses supply when one device trips, and the lighting left."""
 
     BINDINGS = [

@@ -7,15 +7,15 @@ from textual import on
 from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Vertical
-from textual.screen import ModalScreen
 from textual.widgets import DataTable, Static
 
 from model.site.models import SiteFile
 from model.visits.merge_conflicts import Choice, Conflict, MergeError, version_text
 from model.visits.merge_result import MergeResult
+from tui.screens.closing import Dialog
 
 
-class MergeScreen(ModalScreen[SiteFile | None]):
+class MergeScreen(Dialog[SiteFile | None]):
     """Walk the conflicts of ``result``; choose ours or theirs for each; apply.
 
     Dismisses with the resolved site, or None when cancelled.

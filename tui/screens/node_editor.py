@@ -10,7 +10,6 @@ from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Horizontal, Vertical, VerticalScroll
 from textual.message import Message
-from textual.screen import ModalScreen
 from textual.widget import Widget
 from textual.widgets import Button, Checkbox, Input, Label, Select, SelectionList, Static
 
@@ -18,9 +17,10 @@ from model.site.fields import FieldSpec, check_form, field_specs, typed_value
 from model.site.nodes import NODE_CLASSES
 from model.site.numbers import number_text
 from tui.format import KIND_TITLES
+from tui.screens.closing import Dialog
 
 
-class NodeEditorScreen(ModalScreen[str | None]):
+class NodeEditorScreen(Dialog[str | None]):
     """Edit (or create) one node; dismisses with its id once the app has accepted it."""
 
     BINDINGS = [

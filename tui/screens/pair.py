@@ -7,7 +7,6 @@ from textual import on
 from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import ScrollableContainer, Vertical
-from textual.screen import ModalScreen
 from textual.widgets import Button, Static
 
 from model.reports.analysis_view import site_index
@@ -16,6 +15,7 @@ from model.rules.bands import GROUP_TITLE, fmt_result, group_of
 from model.rules.findings import CAUTION, Analysis, PairAnalysis, device_text, fmt_ma, fmt_ratio
 from model.rules.limits import CASCADE_RATIO
 from model.site.models import SiteFile
+from tui.screens.closing import Dialog
 from tui.widgets.bandchart import BandChart
 
 VERDICT_TITLE = {
@@ -63,7 +63,7 @@ def measured_text(p: PairAnalysis, visit: str | None) -> str:
     return where + p.measured.explanation
 
 
-class PairScreen(ModalScreen[None]):
+class PairScreen(Dialog[None]):
     """Selectivity of an upstream and a downstream residual-current device."""
 
     BINDINGS = [

@@ -6,11 +6,12 @@ from textual import on
 from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Vertical
-from textual.screen import ModalScreen
 from textual.widgets import Input, Label, Static
 
+from tui.screens.closing import Dialog
 
-class PathPromptScreen(ModalScreen[str | None]):
+
+class PathPromptScreen(Dialog[str | None]):
     """One line of input for a path; Enter accepts, Escape cancels."""
 
     BINDINGS = [Binding("escape", "cancel", "Cancel")]

@@ -18,7 +18,6 @@ from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Vertical
 from textual.message import Message
-from textual.screen import Screen
 from textual.widgets import Static
 
 from model.rules.entry import (
@@ -36,6 +35,7 @@ from model.site.models import Reading, Visit
 from model.site.terms import TestWaveform, choices_of
 from tui.app.view import site_view
 from tui.format import LIVE_TEST_CAUTION
+from tui.screens.closing import ClosesOnce
 from tui.screens.reading_fields import (
     BAD,
     CHOICES,
@@ -51,7 +51,7 @@ from tui.widgets.reading_pad import ReadingPad
 from tui.widgets.top_bar import TopBar
 
 
-class ReadingScreen(Screen[str]):
+class ReadingScreen(ClosesOnce[str]):
     """One device's readings at a time, on the latest visit; dismisses with the last device."""
 
     BINDINGS = [

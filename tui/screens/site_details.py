@@ -6,7 +6,6 @@ from textual import on
 from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Horizontal, Vertical, VerticalScroll
-from textual.screen import ModalScreen
 from textual.widget import Widget
 from textual.widgets import Button, Checkbox, Input, Label, Select, Static, TextArea
 
@@ -23,13 +22,14 @@ from model.site.supply import (
     site_info_from_form,
 )
 from model.site.terms import Earthing, RuleSetName, choices_of
+from tui.screens.closing import Dialog
 
 
 def _fmt(value: float | None) -> str:
     return "" if value is None else number_text(value)
 
 
-class SiteDetailsScreen(ModalScreen[SiteInfo | None]):
+class SiteDetailsScreen(Dialog[SiteInfo | None]):
     """A form for the site's name, client, supply and rule set."""
 
     BINDINGS = [

@@ -9,15 +9,15 @@ from textual import on
 from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Horizontal, Vertical
-from textual.screen import ModalScreen
 from textual.widgets import Input, Label, Static
 
 from model.site.fields import errors_by_field
 from model.site.history import new_visit_id
 from model.site.models import Visit
+from tui.screens.closing import Dialog
 
 
-class StartVisitScreen(ModalScreen[Visit | None]):
+class StartVisitScreen(Dialog[Visit | None]):
     """Enter moves down the fields; Enter on the last starts the visit."""
 
     BINDINGS = [Binding("escape", "cancel", "Cancel")]

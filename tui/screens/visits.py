@@ -10,17 +10,17 @@ from textual import on
 from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Horizontal, Vertical
-from textual.screen import ModalScreen
 from textual.widgets import Button, DataTable, Input, Label, Static
 
 from model.site.history import new_visit_id
 from model.site.messages import error_text
 from model.site.models import SiteFile, Visit
+from tui.screens.closing import Dialog
 
 FIELD_LABELS = {"date": "Date", "inspector": "Inspector", "instrument": "Instrument"}
 
 
-class VisitsScreen(ModalScreen[Visit | None]):
+class VisitsScreen(Dialog[Visit | None]):
     """Lists the site's visits and starts a new one (with no readings yet)."""
 
     BINDINGS = [

@@ -8,8 +8,11 @@ otherwise guess a legacy code page show Ω, µ, × and accented names correctly;
 Python reads it with ``encoding="utf-8-sig"`` (which also accepts a file
 without the mark).
 
-A text cell that begins with ``=``, ``+``, ``-`` or ``@`` is written with a
-leading apostrophe, so a spreadsheet shows it as text and never evaluates it.
+A text cell that begins with ``=``, ``+``, ``-``, ``@``, a tab or a carriage
+return, or with the full-width or small forms of ``= + - @`` (``＝``, ``﹦``
+…, which some spreadsheets also read as the start of a formula), is written
+with a leading apostrophe, so a spreadsheet shows it as text and never
+evaluates it.
 Value cells are never prefixed (a reading is never negative).
 
 The last row has an empty ``device`` (or ``number``) cell and carries in its
@@ -30,7 +33,11 @@ from model.site.sheet_columns import DEVICE_COLUMN, RAMP_COLUMN, time_column
 from model.site.terms import DID_NOT_TRIP, TEST_NAMES
 
 ENCODING = "utf-8-sig"
-_FORMULA_START = ("=", "+", "-", "@", "\t", "\r")
+_FORMULA_START = (
+    *("=", "+", "-", "@", "\t", "\r"),
+    *("\uff1d", "\uff0b", "\uff0d", "\uff20"),  # full-width = + - @
+    *("\ufe66", "\ufe62", "\ufe63", "\ufe6b"),  # small = + - @
+)
 
 
 def text_cell(value: object) -> str:

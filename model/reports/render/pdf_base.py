@@ -3,6 +3,9 @@
 Text is set in the bundled DejaVu Sans (it covers Ω, Δ, µ, °, ×, ½ and ‑,
 which the PDF core fonts do not).  Text is never read as markup, and control
 characters are removed before it reaches the page (``model.reports.text.clean``).
+A character the font has no glyph for (an emoji, a full-width ``＝``) is never
+dropped in silence: it is printed as ``[U+FF1D]`` and the document ends with a
+note that lists each one with its Unicode name (:attr:`ReportPdf.missing_glyphs`).
 Every page carries, in its header and footer, the document title and site,
 the not-a-certificate statement, the page number of the whole, and the
 generation time and tripwise version.
@@ -10,6 +13,7 @@ generation time and tripwise version.
 
 from __future__ import annotations
 
+import unicodedata
 from pathlib import Path
 
 from fpdf import FPDF
@@ -54,8 +58,41 @@ class ReportPdf(FPDF):
         self.set_author(heading.inspector or "tripwise")
         self.c_margin = 0.8
         self._widths: dict[tuple[str, str], float] = {}
+        #: Characters the font cannot show, each printed as ``[U+XXXX]`` instead.
+        self.missing_glyphs: set[str] = set()
         self.font(9)
         self.ink()
+
+    def normalize_text(self, text: str) -> str:
+        """``text`` with every character the current font lacks shown as ``[U+XXXX]``.
+
+        fpdf2 calls this for every text it sets or measures; without it a
+        character the font has no glyph for would be left out of the page.
+        """
+        cmap = getattr(self.current_font, "cmap", None)
+        if not cmap or all(ord(c) in cmap for c in text):
+            return super().normalize_text(text)
+        out: list[str] = []
+        for c in text:
+            if ord(c) in cmap:
+                out.append(c)
+            else:
+                self.missing_glyphs.add(c)
+                out.append(glyph_stand_in(c))
+        return super().normalize_text("".join(out))
+
+    def missing_glyphs_note(self) -> str:
+        """The note that lists the characters printed as stand-ins ('' when none)."""
+        if not self.missing_glyphs:
+            return ""
+        listed = "; ".join(
+            f"{glyph_stand_in(c)} {unicodedata.name(c, 'unnamed character')}"
+            for c in sorted(self.missing_glyphs)
+        )
+        return (
+            "Characters this document's font cannot show are printed as their Unicode "
+            f"code point: {listed}."
+        )
 
     # small helpers -------------------------------------------------------------
     def font(self, size: float, bold: bool = False) -> None:
@@ -159,7 +196,21 @@ class ReportPdf(FPDF):
 
     # page furniture ------------------------------------------------------------
     def stamp_pages(self) -> None:
-        """Draw header and footer on every page, now that the page count is known."""
+        """Draw header and footer on every page, now that the page count is known.
+
+        First, after the content, the note listing any character printed as a
+        stand-in (the header and footer texts are checked for them too).
+        """
+        self.font(8)
+        for text in (self.heading.site_name, self.heading.statement, self.heading.generated_line()):
+            self.get_string_width(text)
+        self.font(8, True)
+        self.get_string_width(self.heading.title)
+        note = self.missing_glyphs_note()
+        if note:
+            self.room(self.para_h(self.content_w, 4, note, 8) + 3)
+            self.ln(2)
+            self.para(self.l_margin, self.content_w, 4, note, 8, False, MUTED)
         total = self.pages_count
         self.set_auto_page_break(False)
         h = self.heading
@@ -228,6 +279,11 @@ class ReportPdf(FPDF):
         if lead:
             self.para(self.l_margin, self.content_w, 4.4, lead, 8.4, False, MUTED)
             self.ln(1)
+
+
+def glyph_stand_in(char: str) -> str:
+    """What is printed for a character the font cannot show: its code point."""
+    return f"[U+{ord(char):04X}]"
 
 
 def caution_box(pdf: ReportPdf, caution: str) -> None:
