@@ -219,9 +219,7 @@ def typed_value(spec: FieldSpec, text: str) -> Any:
     return text.strip() if spec.name == "id" else text
 
 
-def errors_by_field(
-    exc: ValidationError, cls: type[BaseModel] | None = None
-) -> dict[str, str]:
+def errors_by_field(exc: ValidationError, cls: type[BaseModel] | None = None) -> dict[str, str]:
     """Validation messages in plain words (:func:`form_message`), keyed by the first field
     name of their location ('' for the whole)."""
     out: dict[str, str] = {}

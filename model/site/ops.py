@@ -223,9 +223,7 @@ def _rename_node(site: SiteFile, op: RenameNode) -> SiteFile:
         v
         if op.old not in v.readings
         else v.model_copy(
-            update={
-                "readings": {(op.new if k == op.old else k): r for k, r in v.readings.items()}
-            }
+            update={"readings": {(op.new if k == op.old else k): r for k, r in v.readings.items()}}
         )
         for v in site.visits
     ]

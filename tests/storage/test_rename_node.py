@@ -10,7 +10,7 @@ from pathlib import Path
 import pytest
 from sitekit import build, circuit, rcd, visit
 
-from model.site.models import Reading, SiteFile
+from model.site.models import SiteFile
 from model.site.ops import InvalidEdit, RenameNode, apply_op, describe_op, op_from_dict, op_to_dict
 from model.site.undo import UndoStack
 from model.storage.session import EditSession
@@ -20,7 +20,10 @@ from model.storage.sites import load_site, save_site
 def _site() -> SiteFile:
     return build(
         [rcd("rcbo1-c1", "o", 30), circuit("c1", "rcbo1-c1"), circuit("c2", "o")],
-        [visit({"rcbo1-c1": {"x1_0": 20.0}}, id="v1"), visit({"rcbo1-c1": {"x1_0": 22.0}}, id="v2", date="2026-12-01")],
+        [
+            visit({"rcbo1-c1": {"x1_0": 20.0}}, id="v1"),
+            visit({"rcbo1-c1": {"x1_0": 22.0}}, id="v2", date="2026-12-01"),
+        ],
     )
 
 

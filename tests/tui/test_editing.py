@@ -113,8 +113,12 @@ async def test_findings_update_after_edit(oak_lane: Path) -> None:
         await pilot.press("e")
         assert isinstance(app.screen, NodeEditorScreen)
         app.screen.query_one("#f-waveform").focus()
-        await pilot.press("enter", "down", "enter")  # AC -> A
+        await pilot.press("a")  # the letter picks type A (AC -> A), no list opens
         await pilot.press("ctrl+s")
+        # rc2 has readings: the change re-judges them, so the app asks first
+        assert isinstance(app.screen, ConfirmScreen)
+        assert "readings on 2 visit(s)" in str(app.screen.query_one(".dialog-body").render())
+        await pilot.press("y")
         assert app.site.node("rc2").waveform == "A"
         await app.settle()
         await pilot.pause()
@@ -250,12 +254,13 @@ async def test_a_new_node_with_a_used_id_is_refused_in_the_form(oak_lane: Path) 
     app = make_app(oak_lane)
     async with app.run_test(size=(120, 40)) as pilot:
         app.main.select("cu")
-        await pilot.press("a", "enter")  # a board under the consumer unit
+        await pilot.press("a", "b")  # b: a board under the consumer unit
         editor = app.screen
         assert isinstance(editor, NodeEditorScreen)
-        await pilot.press("ctrl+u", *"rc1", "ctrl+s")
+        assert editor.focused is editor.query_one("#f-label")  # new and edit start here
+        await pilot.press("shift+tab", "ctrl+u", *"rc1", "ctrl+s")
         assert app.screen is editor  # refused: the form stays open with the reason
-        assert "'rc1' is already used" in str(editor.query_one("#form-error").render())
+        assert "Id rc1 is already used" in str(editor.query_one("#form-error").render())
         assert len(app.undo_stack) == 0
         await pilot.press("ctrl+u", *"board9", "ctrl+s")
         assert not isinstance(app.screen, NodeEditorScreen)

@@ -10,7 +10,7 @@ import pytest
 from hosting import Host
 from textual.pilot import Pilot
 from textual.screen import Screen
-from textual.widgets import Input, Select, Static
+from textual.widgets import Input, Static
 
 from model.site.models import SiteFile, SiteInfo
 from tui.screens.site_details import SiteDetailsScreen
@@ -63,7 +63,10 @@ async def test_valid_edit_dismisses_with_new_site_info(site: SiteFile) -> None:
         assert not screen.query_one("#row-ra_ohm").display  # TN-C-S: RA not shown
         await retype(pilot, screen, "name", "Oak Lane House")
         await retype(pilot, screen, "u0_v", "240")
-        screen.query_one("#f-earthing", Select).value = "TT"
+        screen.query_one("#f-earthing").focus()
+        # t steps through the choices with that letter: TN-C-S -> TT, then TN-S, ...
+        await pilot.press("t")
+        assert screen.query_one("#f-earthing").value == "TT"
         await pilot.pause()
         assert screen.query_one("#row-ra_ohm").display  # TT: RA shown
         assert not screen.query_one("#row-ze_ohm").display
