@@ -8,9 +8,9 @@ from pathlib import Path
 from textual import on, work
 from textual.app import ComposeResult
 from textual.binding import Binding
-from textual.containers import Horizontal, Vertical
+from textual.containers import Horizontal, Vertical, VerticalScroll
 from textual.screen import ModalScreen
-from textual.widgets import Button, Input, Label, RadioButton, RadioSet, Static
+from textual.widgets import Button, Input, Label, Static
 
 from model.reports.heading import STATEMENT
 from model.reports.writer import (
@@ -25,6 +25,10 @@ from model.reports.writer import (
 from model.site.models import SiteFile
 from model.storage.codec import SiteLoadError
 from model.storage.sites import load_site
+from tui.widgets.choice_row import ChoiceRow
+
+#: The keys of the dialog, shown in it.
+KEYS_HINT = "Enter next (on File: write) · a letter picks · Ctrl+S write · Esc cancel"
 
 
 class ExportScreen(ModalScreen[Path | None]):
@@ -32,13 +36,14 @@ class ExportScreen(ModalScreen[Path | None]):
 
     An existing file is replaced only after a second press of Write.  The
     document is written by :func:`model.reports.writer.write_report` in a worker, so a
-    large site never blocks the screen.
+    large site never blocks the screen.  The buttons stay in view at 80×24 (the
+    fields scroll above them); the form starts on the first choice.
     """
 
     CSS_PATH = "export.tcss"
     BINDINGS = [
         Binding("escape", "cancel", "Cancel"),
-        Binding("ctrl+s", "write", "Write", show=False),
+        Binding("ctrl+s", "write", "Write"),
     ]
 
     def __init__(self, site_path: Path) -> None:
@@ -55,25 +60,26 @@ class ExportScreen(ModalScreen[Path | None]):
     def compose(self) -> ComposeResult:
         with Vertical(id="export-box"):
             yield Label("Export a document", id="export-title", markup=False)
-            yield Static("", id="export-site", markup=False)
-            with Horizontal(id="export-choices"):
-                with Vertical(classes="export-column"):
+            with VerticalScroll(id="export-fields"):
+                yield Static("", id="export-site", markup=False)
+                with Horizontal(classes="export-line"):
                     yield Label("Document", classes="export-label", markup=False)
-                    with RadioSet(id="export-kind"):
-                        for i, k in enumerate(KINDS):
-                            yield RadioButton(KIND_TITLE[k], value=i == 0, id=f"kind-{k}")
-                with Vertical(classes="export-column"):
+                    yield ChoiceRow([(KIND_TITLE[k], k) for k in KINDS], KINDS[0], id="export-kind")
+                with Horizontal(classes="export-line"):
                     yield Label("Format", classes="export-label", markup=False)
-                    with RadioSet(id="export-format"):
-                        for i, f in enumerate(FORMATS):
-                            yield RadioButton(FORMAT_TITLE[f], value=i == 0, id=f"format-{f}")
-            yield Label("File", classes="export-label", markup=False)
-            yield Input(id="export-target")
-            yield Static("", id="export-status", markup=False)
-            yield Static(STATEMENT, id="export-statement", markup=False)
+                    yield ChoiceRow(
+                        [(FORMAT_TITLE[f], f) for f in FORMATS], FORMATS[0], id="export-format"
+                    )
+                with Horizontal(classes="export-line"):
+                    yield Label("File", classes="export-label", markup=False)
+                    # select_on_focus off: a key typed on arrival must not wipe the path
+                    yield Input(id="export-target", compact=True, select_on_focus=False)
+                yield Static("", id="export-status", markup=False)
+                yield Static(STATEMENT, id="export-statement", markup=False)
+            yield Static(KEYS_HINT, id="export-keys", markup=False)
             with Horizontal(id="export-buttons"):
-                yield Button("Write", id="export-write", variant="primary")
-                yield Button("Cancel", id="export-cancel")
+                yield Button("Write (Ctrl+S)", id="export-write", variant="primary", compact=True)
+                yield Button("Cancel (Esc)", id="export-cancel", compact=True)
 
     def on_mount(self) -> None:
         try:
@@ -86,7 +92,7 @@ class ExportScreen(ModalScreen[Path | None]):
             f"{self.site.site.name}  ·  {self.site_path.name}"
         )
         self._refresh_name()
-        self.query_one("#export-write", Button).focus()
+        self.query_one("#export-kind", ChoiceRow).focus()
 
     # -------------------------------------------------------------- choices
     @property
@@ -110,20 +116,20 @@ class ExportScreen(ModalScreen[Path | None]):
 
     def _reset_confirm(self) -> None:
         self._confirm = None
-        self.query_one("#export-write", Button).label = "Write"
+        self.query_one("#export-write", Button).label = "Write (Ctrl+S)"
         if self.target.exists():
             self._status(f"{self.target.name} exists; Write will ask before replacing it.")
         else:
             self._status("")
 
-    @on(RadioSet.Changed, "#export-kind")
-    def _kind_changed(self, event: RadioSet.Changed) -> None:
-        self.kind = KINDS[event.index]
+    @on(ChoiceRow.Changed, "#export-kind")
+    def _kind_changed(self, event: ChoiceRow.Changed) -> None:
+        self.kind = str(event.value)
         self._refresh_name()
 
-    @on(RadioSet.Changed, "#export-format")
-    def _format_changed(self, event: RadioSet.Changed) -> None:
-        self.fmt = FORMATS[event.index]
+    @on(ChoiceRow.Changed, "#export-format")
+    def _format_changed(self, event: ChoiceRow.Changed) -> None:
+        self.fmt = str(event.value)
         self._refresh_name()
 
     @on(Input.Changed, "#export-target")
@@ -158,7 +164,7 @@ class ExportScreen(ModalScreen[Path | None]):
         if target.exists():
             if self._confirm != target:
                 self._confirm = target
-                self.query_one("#export-write", Button).label = "Replace"
+                self.query_one("#export-write", Button).label = "Replace (Ctrl+S)"
                 self._status(
                     f"{target.name} already exists. Press Replace to overwrite it, "
                     "or change the name.",
@@ -191,7 +197,7 @@ class ExportScreen(ModalScreen[Path | None]):
         self._confirm = None
         button = self.query_one("#export-write", Button)
         button.disabled = False
-        button.label = "Write"
+        button.label = "Write (Ctrl+S)"
         self._status(f"Not written: {message}", error=True)
 
     def _status(self, text: str, error: bool = False) -> None:

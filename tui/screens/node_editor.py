@@ -92,8 +92,13 @@ class NodeEditorScreen(ModalScreen[str | None]):
                                 "", id=f"err-{spec.name}", classes="field-error", markup=False
                             )
             with Horizontal(classes="dialog-buttons"):
-                yield Button("Apply (ctrl+s)", id="apply", variant="primary")
-                yield Button("Cancel (esc)", id="cancel")
+                yield Static(
+                    "Enter next field (last: apply) · a letter picks a choice · Space ticks",
+                    classes="dialog-hint",
+                    markup=False,
+                )
+                yield Button("Apply (Ctrl+S)", id="apply", variant="primary", compact=True)
+                yield Button("Cancel (Esc)", id="cancel", compact=True)
 
     def _widget_for(self, spec: FieldSpec) -> Widget:
         wid = f"f-{spec.name}"
