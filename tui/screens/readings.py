@@ -79,8 +79,9 @@ class ReadingScreen(Screen[str]):
 
     BINDINGS = [
         Binding("escape", "back", "Back to tree"),
-        Binding("ctrl+n", "device(1)", "Next device"),
-        Binding("ctrl+p", "device(-1)", "Prev device"),
+        # Ctrl+P stays the command palette's, as everywhere in the app
+        Binding("pagedown,ctrl+n", "device(1)", "Next device"),
+        Binding("pageup,ctrl+b", "device(-1)", "Prev device"),
         Binding("ctrl+t", "not_tested", "Not tested"),
     ]
 
