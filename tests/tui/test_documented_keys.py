@@ -13,6 +13,7 @@ from typing import Any
 
 from textual.command import CommandPalette
 
+from model.storage.sites import load_site
 from tui.app.shell import TripwiseApp, make_app
 from tui.screens.choice import ChoiceScreen
 from tui.screens.compare import CompareScreen
@@ -84,10 +85,12 @@ async def _copy_then(app: TripwiseApp, pilot: Any, key: str) -> None:
 async def _save(app: TripwiseApp, pilot: Any, key: str) -> None:
     app.main.select("c-s1")
     app.main.focus_tree()
+    before = {n.id for n in app.site.nodes}
     await pilot.press("c")
-    assert app.save_state == "pending"
+    (copied,) = {n.id for n in app.site.nodes} - before
     await pilot.press(key)
     assert app.save_state == "saved"
+    assert copied in {n.id for n in load_site(app.site_path).nodes}  # on disk now
     await pilot.press("u", "ctrl+s")
 
 
