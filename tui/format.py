@@ -32,6 +32,21 @@ KIND_TITLES: dict[str, str] = {
     "circuit": "circuit / equipment",
 }
 
+#: The letter that picks each kind in the add menu (one each, none shared).
+KIND_KEYS: dict[str, str] = {
+    "board": "b",
+    "switch": "w",
+    "fuse": "f",
+    "mcb": "m",
+    "rccb": "r",
+    "rcbo": "o",
+    "srcd": "s",
+    "prcd": "p",
+    "cbr": "k",
+    "rcm": "n",
+    "circuit": "c",
+}
+
 #: The caution in a form that fits an 80-column line; it keeps "not a certificate".
 CAUTION_SHORT = "Supports, never replaces, your judgement and local rules. Not a certificate."
 CAUTION_TINY = "Aid to judgement only; follow local rules. Not a certificate."

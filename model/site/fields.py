@@ -16,9 +16,9 @@ from typing import Any, Literal, Union
 
 from pydantic import BaseModel, ValidationError
 
-from model.site.messages import error_text
+from model.site.messages import error_text, plain_message
 from model.site.numbers import parse_number
-from model.site.terms import choices_of
+from model.site.terms import ID_RULE, choices_of
 
 FieldKind = Literal["text", "number", "choice", "flag", "flags"]
 
@@ -44,7 +44,16 @@ FIELD_TITLES: dict[str, str] = {
     "concealed_shallow": "Concealed < 50 mm",
     "leakage_ma": "Standing leakage",
     "zs_ohm": "Zs",
+    "date": "Date",
+    "inspector": "Inspector",
+    "instrument": "Instrument",
 }
+
+#: Internal field names as they may appear inside a model's own message.
+_NAME_RE = re.compile(r"\b(" + "|".join(sorted(FIELD_TITLES, key=len, reverse=True)) + r")\b")
+#: Names that are also plain words and are left alone inside a message.
+_PLAIN_WORDS = frozenset({"id", "label", "notes", "place", "curve", "delay", "use", "loads"})
+_BOUND_ERRORS = frozenset({"greater_than", "greater_than_equal", "less_than", "less_than_equal"})
 
 _UNIT_RE = re.compile(r"\[([^\]]+)\]\s*$")
 
@@ -123,6 +132,7 @@ def field_specs(cls: type[BaseModel]) -> list[FieldSpec]:
         kind: FieldKind
         if origin is Literal:
             kind, options = "choice", annotation_choices(inner)
+            options = _limited(cls, name, options)
         elif origin is list:
             kind, options = "flags", annotation_choices(typing.get_args(inner)[0])
         elif inner is bool:
@@ -136,7 +146,7 @@ def field_specs(cls: type[BaseModel]) -> list[FieldSpec]:
         out.append(
             FieldSpec(
                 name=name,
-                title=FIELD_TITLES.get(name, name.replace("_", " ").capitalize()),
+                title=field_title(name),
                 kind=kind,
                 optional=optional,
                 required=info.is_required(),
@@ -148,6 +158,50 @@ def field_specs(cls: type[BaseModel]) -> list[FieldSpec]:
         )
     out.sort(key=lambda f: f.name == "notes")
     return out
+
+
+def _limited(cls: type[BaseModel], name: str, options: tuple[str, ...]) -> tuple[str, ...]:
+    """The choices a kind of node allows for one field (its ``CHOICE_LIMITS``), in order."""
+    limits: dict[str, tuple[str, ...]] = getattr(cls, "CHOICE_LIMITS", {})
+    allowed = limits.get(name)
+    return options if allowed is None else tuple(o for o in options if o in allowed)
+
+
+def field_title(name: str) -> str:
+    """The name of a field as the inspector knows it ('idn_ma' -> 'IΔn')."""
+    return FIELD_TITLES.get(name, name.replace("_", " ").capitalize())
+
+
+def in_words(message: str) -> str:
+    """A model's message with its internal field names put as their titles.
+
+    ``"idn_ma 0.03 looks like amps"`` becomes ``"IΔn 0.03 looks like amps"``;
+    names that are plain words already ("delay", "use") are left as they are.
+    """
+
+    def title(m: re.Match[str]) -> str:
+        word = m.group(1)
+        return word if word in _PLAIN_WORDS else FIELD_TITLES[word]
+
+    return _NAME_RE.sub(title, message)
+
+
+def form_message(err: Any, cls: type[BaseModel] | None = None) -> str:
+    """One validation problem of a form field in plain words, naming the field by its title.
+
+    An id that does not fit is told the rule in words (never the pattern); a number
+    out of its range is told the range with its unit and what was typed.
+    """
+    loc = err.get("loc", ())
+    name = str(loc[0]) if loc else ""
+    kind = err.get("type", "")
+    title = field_title(name)
+    if kind == "string_pattern_mismatch" and name in ("id", "parent"):
+        return f"{title}: {ID_RULE}"
+    if kind in _BOUND_ERRORS and cls is not None and name in cls.model_fields:
+        unit, _ = unit_and_help(cls.model_fields[name].description or "")
+        return plain_message(err, title, unit, err.get("input"))
+    return in_words(error_text(err))
 
 
 def typed_value(spec: FieldSpec, text: str) -> Any:
@@ -165,14 +219,14 @@ def typed_value(spec: FieldSpec, text: str) -> Any:
     return text.strip() if spec.name == "id" else text
 
 
-def errors_by_field(exc: ValidationError) -> dict[str, str]:
-    """Validation messages keyed by the first field name of their location ('' for the whole)."""
+def errors_by_field(exc: ValidationError, cls: type[BaseModel] | None = None) -> dict[str, str]:
+    """Validation messages in plain words (:func:`form_message`), keyed by the first field
+    name of their location ('' for the whole)."""
     out: dict[str, str] = {}
     for err in exc.errors():
         loc = err.get("loc", ())
         key = str(loc[0]) if loc else ""
-        msg = error_text(err)
-        out.setdefault(key, msg)
+        out.setdefault(key, form_message(err, cls))
     return out
 
 
@@ -189,7 +243,7 @@ def check_form(
     try:
         value = cls.model_validate(data)
     except ValidationError as exc:
-        for key, message in errors_by_field(exc).items():
+        for key, message in errors_by_field(exc, cls).items():
             errors.setdefault(key, message)
         return None, errors
     return (value, {}) if not errors else (None, errors)

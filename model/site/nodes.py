@@ -7,7 +7,7 @@ choices are literals.
 
 from __future__ import annotations
 
-from typing import Annotated, Literal
+from typing import Annotated, ClassVar, Literal
 
 from pydantic import (
     BaseModel,
@@ -100,6 +100,10 @@ class _ResidualBase(_NodeBase):
 
 
 class _RcdBase(_ResidualBase):
+    #: The choices this kind allows where it allows fewer than its field's type
+    #: (a form offers only these): a set delay is declared only on a cbr.
+    CHOICE_LIMITS: ClassVar[dict[str, tuple[str, ...]]] = {"delay": ("general", "S")}
+
     delay: Delay = Field(
         default="general",
         description="general (no intentional delay), S (time-delayed), or set (declared setting).",
@@ -119,7 +123,7 @@ class _RcdBase(_ResidualBase):
                 raise ValueError(
                     f"type S exists only for In of 25 A or more (IEC 61008-1), not {self.rated_a:g} A"
                 )
-        if self.delay == "set" and self.kind != "cbr":
+        if self.delay not in self.CHOICE_LIMITS.get("delay", (self.delay,)):
             raise ValueError("delay 'set' is only for a cbr with a declared setting")
         return self
 
@@ -155,6 +159,7 @@ class CbrNode(_RcdBase):
     """Industrial breaker with residual-current relay (IEC 60947-2 Annex B / M)."""
 
     kind: Literal["cbr"]
+    CHOICE_LIMITS: ClassVar[dict[str, tuple[str, ...]]] = {}
     delay_ms: Annotated[float, Field(gt=0, le=10_000)] | None = Field(
         default=None,
         description="Declared limiting non-actuating time when delay is 'set'. [ms]",

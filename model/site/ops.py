@@ -9,6 +9,7 @@ recovery journal (:mod:`model.storage.journal`)::
     {"op": "delete-nodes", "ids": ["m3", "c9"]}
     {"op": "set-site-info", "info": {…}}
     {"op": "upsert-visit", "visit": {…}}
+    {"op": "rename-node", "old": "rcbo1-c1", "new": "kitchen-ring"}
     {"op": "replace-site", "site": {…whole site file…}}
 
 :func:`apply_op` is the pure function that turns a site and an op into the
@@ -81,6 +82,15 @@ class UpsertVisit(BaseModel):
     visit: Visit = Field(description="The visit.")
 
 
+class RenameNode(BaseModel):
+    """Give a node a new id: its children's parent and every visit's reading follow it."""
+
+    model_config = _OP_CONFIG
+    op: Literal["rename-node"] = "rename-node"
+    old: NodeId = Field(description="The node's id now.")
+    new: NodeId = Field(description="The id it is to have.")
+
+
 class ReplaceSite(BaseModel):
     """Replace the whole site (moves, copies, undo: any other edit)."""
 
@@ -90,7 +100,7 @@ class ReplaceSite(BaseModel):
 
 
 Op = Annotated[
-    SetReading | UpsertNode | DeleteNodes | SetSiteInfo | UpsertVisit | ReplaceSite,
+    SetReading | UpsertNode | DeleteNodes | SetSiteInfo | UpsertVisit | RenameNode | ReplaceSite,
     Field(discriminator="op"),
 ]
 _OP_ADAPTER: TypeAdapter[Op] = TypeAdapter(Op)
@@ -136,6 +146,8 @@ def describe_op(op: Op) -> str:
         return "site details"
     if isinstance(op, UpsertVisit):
         return f"visit {op.visit.id}"
+    if isinstance(op, RenameNode):
+        return f"renaming of {op.old} to {op.new}"
     return "whole-site edit"
 
 
@@ -185,7 +197,37 @@ def apply_op(site: SiteFile, op: Op) -> SiteFile:
         else:
             visits.append(op.visit)
         return _revalidate(site, visits=visits)
+    if isinstance(op, RenameNode):
+        return _rename_node(site, op)
     return op.site
+
+
+def _rename_node(site: SiteFile, op: RenameNode) -> SiteFile:
+    """The node under its new id, with its children and every reading of it following."""
+    known = {n.id for n in site.nodes}
+    if op.old not in known:
+        raise InvalidEdit(f"cannot rename {op.old}: no such node")
+    if op.new != op.old and op.new in known:
+        raise InvalidEdit(f"cannot rename {op.old} to {op.new}: {op.new} is already used")
+    if op.new == op.old:
+        return site
+    nodes = [
+        n.model_copy(update={"id": op.new})
+        if n.id == op.old
+        else n.model_copy(update={"parent": op.new})
+        if n.parent == op.old
+        else n
+        for n in site.nodes
+    ]
+    visits = [
+        v
+        if op.old not in v.readings
+        else v.model_copy(
+            update={"readings": {(op.new if k == op.old else k): r for k, r in v.readings.items()}}
+        )
+        for v in site.visits
+    ]
+    return _revalidate(site, nodes=nodes, visits=visits)
 
 
 def _delete_nodes(site: SiteFile, op: DeleteNodes) -> SiteFile:

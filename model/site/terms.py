@@ -26,7 +26,7 @@ FORMAT_VERSION = 2
 
 #: What a node or visit id may be, as a pattern and in words.
 ID_PATTERN = r"^[A-Za-z0-9][A-Za-z0-9._-]{0,39}$"
-ID_RULE = "1 to 40 letters, digits, '.', '_' or '-', starting with a letter or digit"
+ID_RULE = "letters, digits, dot, dash or underscore; up to 40, starting with a letter or digit"
 
 NodeId = Annotated[
     str,

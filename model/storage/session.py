@@ -31,6 +31,7 @@ from model.site.ops import (
     DeleteNodes,
     InvalidEdit,
     Op,
+    RenameNode,
     ReplaceSite,
     SetReading,
     SetSiteInfo,
@@ -262,6 +263,10 @@ class EditSession:
     def upsert_visit(self, visit: Visit) -> None:
         """Add a visit, or replace the one with the same id (its readings included)."""
         self._commit(UpsertVisit.model_construct(op="upsert-visit", visit=visit))
+
+    def rename_node(self, old: str, new: str) -> None:
+        """Give a node a new id; its children and its readings on every visit follow it."""
+        self._commit(RenameNode.model_construct(op="rename-node", old=old, new=new))
 
     def replace_site(self, site: SiteFile) -> None:
         """Any other edit (move, copy a subtree, undo): the whole new site."""

@@ -21,19 +21,19 @@ async def test_build_small_site_by_keys(tmp_path: Path) -> None:
         # origin is under the cursor; add a board
         await pilot.press("a")
         assert isinstance(app.screen, ChoiceScreen)
-        await pilot.press("enter")  # first kind offered: board
+        await pilot.press("b")  # each kind has its letter: b for a board
         assert isinstance(app.screen, NodeEditorScreen)
-        # id field first (board1), Enter to the label, replace it
-        await pilot.press("enter", "ctrl+u", *"CU", "enter", *"Hall", "ctrl+s")
+        # the label first (the id board1 is generated), Enter to the place
+        await pilot.press("ctrl+u", *"CU", "enter", *"Hall", "ctrl+s")
         assert not isinstance(app.screen, NodeEditorScreen)
         assert app.main.tree.selected_id() == "board1"
-        # an RCCB under the board (second kind offered), defaults kept: 30 mA Type A
-        await pilot.press("a", "down", "enter", "ctrl+s")
+        # an RCCB under the board (r), defaults kept: 30 mA Type A
+        await pilot.press("a", "r", "ctrl+s")
         assert app.main.tree.selected_id() == "rccb1"
-        # a circuit under the RCCB: board, rccb, rcbo, mcb, circuit
-        await pilot.press("a", "down", "down", "down", "down", "enter")
+        # a circuit under the RCCB (c)
+        await pilot.press("a", "c")
         assert isinstance(app.screen, NodeEditorScreen)
-        await pilot.press("enter", "ctrl+u", *"Kitchen", "ctrl+s")
+        await pilot.press("ctrl+u", *"Kitchen", "ctrl+s")
         assert app.main.tree.selected_id() == "circuit1"
         await pilot.press("ctrl+s")
         assert app.save_state == "saved"

@@ -113,8 +113,12 @@ async def test_findings_update_after_edit(oak_lane: Path) -> None:
         await pilot.press("e")
         assert isinstance(app.screen, NodeEditorScreen)
         app.screen.query_one("#f-waveform").focus()
-        await pilot.press("enter", "down", "enter")  # AC -> A
+        await pilot.press("a")  # the letter picks type A (AC -> A), no list opens
         await pilot.press("ctrl+s")
+        # rc2 has readings: the change re-judges them, so the app asks first
+        assert isinstance(app.screen, ConfirmScreen)
+        assert "readings on 2 visit(s)" in str(app.screen.query_one(".dialog-body").render())
+        await pilot.press("y")
         assert app.site.node("rc2").waveform == "A"
         await app.settle()
         await pilot.pause()
@@ -250,12 +254,13 @@ async def test_a_new_node_with_a_used_id_is_refused_in_the_form(oak_lane: Path) 
     app = make_app(oak_lane)
     async with app.run_test(size=(120, 40)) as pilot:
         app.main.select("cu")
-        await pilot.press("a", "enter")  # a board under the consumer unit
+        await pilot.press("a", "b")  # b: a board under the consumer unit
         editor = app.screen
         assert isinstance(editor, NodeEditorScreen)
-        await pilot.press("ctrl+u", *"rc1", "ctrl+s")
+        assert editor.focused is editor.query_one("#f-label")  # new and edit start here
+        await pilot.press("shift+tab", "ctrl+u", *"rc1", "ctrl+s")
         assert app.screen is editor  # refused: the form stays open with the reason
-        assert "'rc1' is already used" in str(editor.query_one("#form-error").render())
+        assert "Id rc1 is already used" in str(editor.query_one("#form-error").render())
         assert len(app.undo_stack) == 0
         await pilot.press("ctrl+u", *"board9", "ctrl+s")
         assert not isinstance(app.screen, NodeEditorScreen)
@@ -302,3 +307,44 @@ async def test_saving_a_form_unchanged_keeps_every_digit(oak_lane: Path) -> None
         await app.settle()
         assert not isinstance(app.screen, NodeEditorScreen)
         assert app.site.node("c-ck").zs_ohm == 0.4123456789  # not 0.412346
+
+
+async def test_renaming_an_id_in_the_form_carries_children_and_readings(oak_lane: Path) -> None:
+    app = make_app(oak_lane)
+    async with app.run_test(size=(120, 40)) as pilot:
+        children = [n.id for n in app.site.nodes if n.parent == "rc1"]
+        tested = [v.id for v in app.site.visits if "rc1" in v.readings]
+        app.main.select("rc1")
+        await pilot.press("e", "shift+tab")  # from the label back to the id
+        editor = app.screen
+        assert isinstance(editor, NodeEditorScreen)
+        assert editor.focused is editor.query_one("#f-id")
+        await pilot.press("ctrl+u", *"rcd-upstairs", "ctrl+s")
+        assert not isinstance(app.screen, NodeEditorScreen)
+        ids = {n.id for n in app.site.nodes}
+        assert "rc1" not in ids and "rcd-upstairs" in ids
+        assert all(app.site.node(c).parent == "rcd-upstairs" for c in children)
+        assert [v.id for v in app.site.visits if "rcd-upstairs" in v.readings] == tested
+        assert app.main.tree.selected_id() == "rcd-upstairs"
+        await pilot.press("u")  # one undo step puts the old id back
+        assert "rc1" in {n.id for n in app.site.nodes}
+
+
+async def test_a_non_standard_rating_is_kept_with_a_note(oak_lane: Path) -> None:
+    app = make_app(oak_lane)
+    async with app.run_test(size=(120, 40)) as pilot:
+        app.main.select("rc1")
+        await pilot.press("e", "enter", "ctrl+u", "7")  # label, Enter to IΔn, 7 mA
+        editor = app.screen
+        assert isinstance(editor, NodeEditorScreen)
+        # IEC 61008-1 preferred values of IΔn are 6, 10, 30, 100, 300, 500 mA (from memory)
+        note = str(editor.query_one("#err-idn_ma").render())
+        assert "not a standard rating" in note and "idn_ma" not in editor.errors
+        await pilot.press("ctrl+s")
+        # rc1 has readings: asked first, and "no" keeps the form and the device
+        assert isinstance(app.screen, ConfirmScreen)
+        await pilot.press("n")
+        assert app.screen is editor and app.site.node("rc1").idn_ma == 30.0
+        await pilot.press("ctrl+s", "y")
+        assert app.site.node("rc1").idn_ma == 7.0  # kept exactly as typed
+        assert any("not a standard rating" in n.message for n in app._notifications)

@@ -11,6 +11,7 @@ from textual.widgets import Input, Static
 
 from model.reports.heading import STATEMENT
 from tui.screens.export import ExportScreen
+from tui.widgets.choice_row import ChoiceRow
 
 ROOT = Path(__file__).resolve().parents[2]
 SAMPLE = ROOT / "sample_sites" / "oak-lane-house.json"
@@ -66,8 +67,9 @@ async def test_choosing_sheet_and_csv_changes_the_name(tmp_path: Path) -> None:
     app = Host(_site(tmp_path))
     async with app.run_test(size=(110, 40)) as pilot:
         await pilot.pause()
-        await pilot.click("#kind-sheet")
-        await pilot.click("#format-csv")
+        # the form starts on the document; a letter picks, Enter moves to the format
+        assert app.screen.focused is app.screen.query_one("#export-kind")
+        await pilot.press("t", "enter", "c")
         await pilot.pause()
         expected = tmp_path / f"{NAME}-sheet-{DATE}.csv"
         assert app.screen.query_one("#export-target", Input).value == str(expected)
@@ -90,7 +92,7 @@ async def test_asks_before_overwriting(tmp_path: Path) -> None:
         status = app.screen.query_one("#export-status", Static)
         assert "already exists" in str(status.render())
         assert existing.read_bytes() == b"earlier report"
-        assert str(app.screen.query_one("#export-write").label) == "Replace"
+        assert str(app.screen.query_one("#export-write").label) == "Replace (Ctrl+S)"
         # the second press replaces it (by key: the button ignores a click within its
         # 0.2 s press animation, which a test's two clicks fall inside)
         await pilot.press("ctrl+s")
@@ -106,7 +108,8 @@ async def test_own_file_name_and_cancel(tmp_path: Path) -> None:
         await pilot.pause()
         field = app.screen.query_one("#export-target", Input)
         field.value = "for client.md"
-        await pilot.click("#format-md")  # the user's own name is kept
+        app.screen.query_one("#export-format").focus()
+        await pilot.press("m")  # Markdown; the user's own name is kept
         await pilot.pause()
         assert field.value == "for client.md"
         await pilot.click("#export-write")
@@ -137,20 +140,19 @@ async def test_failure_is_shown_and_nothing_written(tmp_path: Path) -> None:
 
 
 async def test_an_earlier_visit_is_chosen_named_and_said_so(tmp_path: Path) -> None:
-    from textual.widgets import Select
 
     app = Host(_site(tmp_path))
     async with app.run_test(size=(80, 24)) as pilot:
         await pilot.pause()
         screen = app.screen
-        select = screen.query_one("#export-visit", Select)
-        assert select.value == DATE  # the latest visit is chosen to begin with
-        select.focus()
-        await pilot.press("enter", "down", "enter")  # open the list, the next (earlier) visit
+        row = screen.query_one("#export-visit", ChoiceRow)
+        assert row.value == DATE  # the latest visit is chosen to begin with
+        row.focus()
+        await pilot.press("right")  # the next (earlier) visit
         await pilot.pause()
-        assert select.value == "2023-05-09"
+        assert row.value == "2023-05-09"
         expected = tmp_path / f"{NAME}-remedial-2023-05-09.txt"
-        await pilot.click("#format-txt")
+        screen.query_one("#export-format", ChoiceRow).value = "txt"
         await pilot.pause()
         assert screen.query_one("#export-target", Input).value == str(expected)
         screen.action_write()
@@ -159,3 +161,26 @@ async def test_an_earlier_visit_is_chosen_named_and_said_so(tmp_path: Path) -> N
     text = expected.read_text(encoding="utf-8")
     assert "Visit date  2023-05-09" in text
     assert "a later visit (2026-11-14) exists" in " ".join(text.split())
+
+
+async def test_fits_and_works_at_80x24(tmp_path: Path) -> None:
+    """At 80×24 the buttons are on screen, the keys are shown, and Space on the
+    file name (reached by Shift+Tab from the buttons) types a space, never wipes it."""
+    app = Host(_site(tmp_path))
+    async with app.run_test(size=(80, 24)) as pilot:
+        await pilot.pause()
+        screen = app.screen
+        whole = screen.region
+        for bid in ("#export-write", "#export-cancel"):
+            region = screen.query_one(bid).region
+            assert region.area > 0 and whole.contains_region(region), bid
+        keys = str(screen.query_one("#export-keys").render())
+        assert "Ctrl+S write" in keys and "Esc cancel" in keys
+        assert "Ctrl+S" in str(screen.query_one("#export-write").label)
+        field = screen.query_one("#export-target", Input)
+        before = field.value
+        screen.query_one("#export-write").focus()
+        await pilot.press("shift+tab")
+        assert screen.focused is field
+        await pilot.press("space")
+        assert field.value == before + " "  # typed at the end, the path kept

@@ -1,28 +1,31 @@
-"""The help screen lists every key the app's bindings answer to."""
+"""The help screen, the key line and the command palette are made from the key bindings."""
 
 from __future__ import annotations
 
 from pathlib import Path
 
 from textual.binding import Binding
+from textual.widgets._footer import FooterKey
 
+from tui.app.commands import binding_commands
 from tui.app.shell import TripwiseApp, make_app
-from tui.screens.help import KEY_MAP, HelpScreen
+from tui.screens.help import HelpScreen, key_rows
 from tui.screens.readings import ReadingScreen
 from tui.widgets.findings_panel import FindingsTable
 from tui.widgets.site_tree import SiteTree
 
-NAMES = {"question_mark": "?", "delete": "delete", "enter": "enter", "escape": "escape"}
 
-
-def test_every_binding_is_in_the_help() -> None:
-    listed = " ".join(keys for _, keys, _ in KEY_MAP).split()
-    for cls in (TripwiseApp, SiteTree, FindingsTable, ReadingScreen):
-        for b in cls.BINDINGS:
-            assert isinstance(b, Binding)
-            for key in b.key.split(","):
-                shown = NAMES.get(key, key).replace("f1", "F1")
-                assert shown in listed, (cls.__name__, key)
+async def test_every_binding_is_in_the_help(oak_lane: Path) -> None:
+    app = make_app(oak_lane)
+    async with app.run_test(size=(80, 24)) as pilot:
+        await pilot.pause()
+        listed = " ".join(keys for _, keys, _ in key_rows(app)).split()
+        for cls in (TripwiseApp, SiteTree, FindingsTable, ReadingScreen):
+            for b in cls.BINDINGS:
+                assert isinstance(b, Binding)
+                for key in b.key.split(","):
+                    assert app.get_key_display(Binding(key, "")) in listed, (cls.__name__, key)
+        assert "^p" in listed or "ctrl+p" in listed  # the palette, never a device key
 
 
 async def test_f1_opens_help(oak_lane: Path) -> None:
@@ -35,14 +38,45 @@ async def test_f1_opens_help(oak_lane: Path) -> None:
 
 
 async def test_key_bar_follows_the_focus(oak_lane: Path) -> None:
-    from tui.widgets.key_bar import KeyBar
-
     app = make_app(oak_lane)
     async with app.run_test(size=(160, 40)) as pilot:
         await app.settle()
-        bar = app.main.query_one(KeyBar)
-        assert "Readings" in bar.render().plain  # type: ignore[attr-defined]
+        await pilot.pause()
+
+        def shown() -> set[str]:
+            return {k.description for k in app.main.query(FooterKey)}
+
+        assert "Readings" in shown()
         await pilot.press("f")
         await pilot.pause()
-        text = bar.render().plain  # type: ignore[attr-defined]
-        assert "Severity filter" in text and "Readings" not in text
+        assert "Severity filter" in shown() and "Readings" not in shown()
+
+
+async def test_read_only_shows_and_offers_no_changes(oak_lane: Path) -> None:
+    app = make_app(oak_lane, read_only=True)
+    async with app.run_test(size=(160, 40)) as pilot:
+        await app.settle()
+        await pilot.pause()
+        footer_keys = {k.description for k in app.main.query(FooterKey)}
+        assert "Impact" in footer_keys
+        for change in ("Edit", "Add", "Move", "Copy", "Delete", "Readings", "Undo"):
+            assert change not in footer_keys
+        titles = {c.title for c in binding_commands(app, app.main)}
+        assert "Impact" in titles and "Add" not in titles and "Edit" not in titles
+
+
+async def test_the_palette_lists_every_action(oak_lane: Path) -> None:
+    app = make_app(oak_lane)
+    async with app.run_test(size=(120, 40)) as pilot:
+        await app.settle()
+        commands = {c.title: c for c in binding_commands(app, app.main)}
+        for cls in (TripwiseApp, SiteTree, FindingsTable):
+            for b in cls.BINDINGS:
+                assert b.description in commands, b.description
+        # a command does what its key does
+        app.main.select("rc1")
+        await commands["Impact"].callback()
+        await pilot.pause()
+        from tui.screens.impact import ImpactScreen
+
+        assert isinstance(app.screen, ImpactScreen)

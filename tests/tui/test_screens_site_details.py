@@ -10,7 +10,7 @@ import pytest
 from hosting import Host
 from textual.pilot import Pilot
 from textual.screen import Screen
-from textual.widgets import Input, Select, Static
+from textual.widgets import Input, Static
 
 from model.site.models import SiteFile, SiteInfo
 from tui.screens.site_details import SiteDetailsScreen
@@ -63,7 +63,10 @@ async def test_valid_edit_dismisses_with_new_site_info(site: SiteFile) -> None:
         assert not screen.query_one("#row-ra_ohm").display  # TN-C-S: RA not shown
         await retype(pilot, screen, "name", "Oak Lane House")
         await retype(pilot, screen, "u0_v", "240")
-        screen.query_one("#f-earthing", Select).value = "TT"
+        screen.query_one("#f-earthing").focus()
+        # t steps through the choices with that letter: TN-C-S -> TT, then TN-S, ...
+        await pilot.press("t")
+        assert screen.query_one("#f-earthing").value == "TT"
         await pilot.pause()
         assert screen.query_one("#row-ra_ohm").display  # TT: RA shown
         assert not screen.query_one("#row-ze_ohm").display
@@ -109,3 +112,43 @@ async def test_cancel_returns_none(site: SiteFile) -> None:
         await pilot.press("escape")
         await pilot.pause()
         assert app.results == [None]
+
+
+async def test_enter_moves_down_the_fields_and_a_letter_picks(site: SiteFile) -> None:
+    """Name, Enter, address, Enter, client: each lands in its own field."""
+    from tui.widgets.choice_row import ChoiceRow
+    from tui.widgets.tick_box import TickBox
+
+    app = Host(SiteDetailsScreen(site))
+    async with app.run_test(size=(80, 24)) as pilot:
+        await pilot.pause()
+        screen = app.screen
+        for key in ("name", "address", "client"):
+            screen.query_one(f"#f-{key}", Input).value = ""
+        screen.query_one("#f-name").focus()
+        await pilot.press(*"Mill House", "enter", *"2 Mill Lane", "enter", *"R. Ames", "enter")
+        values = [screen.query_one(f"#f-{k}", Input).value for k in ("name", "address", "client")]
+        assert values == ["Mill House", "2 Mill Lane", "R. Ames"]
+        # after the client comes the earthing: a letter picks, no list opens
+        earthing = screen.query_one("#f-earthing", ChoiceRow)
+        assert screen.focused is earthing
+        await pilot.press("i")
+        assert earthing.value == "IT"
+        await pilot.press("enter")
+        assert screen.focused is not earthing  # Enter moved on
+        # the dwelling box: a tick when on, a blank when off (not colour alone)
+        box = screen.query_one("#f-domestic", TickBox)
+        shown_on = str(box.render())
+        box.value = not box.value
+        shown_off = str(box.render())
+        on, off = (shown_on, shown_off) if not box.value else (shown_off, shown_on)
+        assert "✓" in on and "✓" not in off and "X" not in off
+        await pilot.press("ctrl+s")
+        await pilot.pause()
+    info = app.results[0]
+    assert (info.name, info.address, info.client, info.earthing) == (
+        "Mill House",
+        "2 Mill Lane",
+        "R. Ames",
+        "IT",
+    )

@@ -22,6 +22,10 @@ async def test_new_visit_by_keys_alone(site: SiteFile) -> None:
         table = app.screen.query_one("#visits-table", DataTable)
         assert table.row_count == 2
         assert [str(c) for c in table.get_row_at(1)][:3] == ["2026-11-14", "2026-11-14", "5"]
+        # Enter moves down the fields; on the last one it starts the visit
+        await pilot.press("enter", "enter")
+        assert app.results == []
+        assert app.screen.focused is app.screen.query_one("#v-instrument")
         await pilot.press("enter")
         await pilot.pause()
     today = dt.date.today().isoformat()
@@ -55,7 +59,7 @@ async def test_bad_date_refused_and_escape_cancels(site: SiteFile) -> None:
         await pilot.pause()
         inp = app.screen.query_one("#v-date", Input)
         inp.value = ""
-        await pilot.press(*"2026-13-01", "enter")
+        await pilot.press(*"2026-13-01", "ctrl+s")
         await pilot.pause()
         assert app.results == []
         assert "not a real date" in str(app.screen.query_one("#verr-date", Static).content)

@@ -9,16 +9,25 @@ from __future__ import annotations
 
 from typing import Any
 
-from model.site import editing
+from model.rules.ratings import rating_note, rejudging_changes
+from model.site import editing, ops
+from model.site.fields import field_title
+from model.site.numbers import number_text
 from model.site.terms import RCD_KINDS
 from model.site.tree import SiteIndex
-from tui.format import KIND_TITLES
+from tui.format import KIND_KEYS, KIND_TITLES
 from tui.screens.choice import ChoiceScreen
 from tui.screens.confirm import ConfirmScreen
 from tui.screens.main import MainScreen
 from tui.screens.node_editor import NodeEditorScreen
 from tui.screens.readings import ReadingScreen
 from tui.screens.start_visit import StartVisitScreen
+
+
+def _shown(value: Any) -> str:
+    if value is None:
+        return "none"
+    return number_text(value) if isinstance(value, float) else str(value)
 
 
 class NodeActionsMixin:
@@ -48,7 +57,9 @@ class NodeActionsMixin:
             values = editing.new_node_values(kind, parent, self.site)
             self.push_screen(NodeEditorScreen(values, new=True))
 
-        self.push_screen(ChoiceScreen(f"Add under {self.index.label(parent)}", options), chosen)
+        self.push_screen(
+            ChoiceScreen(f"Add under {self.index.label(parent)}", options, keys=KIND_KEYS), chosen
+        )
 
     def action_edit_node(self) -> None:
         nid = self._selected()
@@ -58,16 +69,73 @@ class NodeActionsMixin:
         self.push_screen(NodeEditorScreen(values, new=False))
 
     def on_node_editor_screen_apply(self, message: NodeEditorScreen.Apply) -> None:
-        """A node form's validated node: add or change it, and answer the form."""
+        """A node form's validated node: add or change it (asking first when that re-judges
+        readings already taken), and answer the form."""
         node: Any = message.node
-        if message.new and node.id in self.index.by_id:
-            problem: str | None = f"id {node.id!r} is already used; choose another"
+        old_id = message.old_id
+        if (message.new or node.id != old_id) and node.id in self.index.by_id:
+            message.editor.answer(str(node.id), f"Id {node.id} is already used; choose another")
+            return
+        if old_id is None:
+            self._apply_node(message, node)
+            return
+        changed = rejudging_changes(self.index.by_id[old_id], node)
+        taken = sum(1 for v in self.site.visits if old_id in v.readings)
+        if not changed or not taken:
+            self._apply_node(message, node)
+            return
+        old = self.index.by_id[old_id]
+        what = "; ".join(
+            f"{field_title(f)} {_shown(getattr(old, f, None))} → {_shown(getattr(node, f, None))}"
+            for f in changed
+        )
+
+        def answered(yes: bool | None) -> None:
+            if yes:
+                self._apply_node(message, node)
+            else:
+                message.editor.answer(None, None)
+
+        self.push_screen(
+            ConfirmScreen(
+                "Judge the readings again?",
+                f"{self.index.label(old_id)} has readings on {taken} visit(s).\n{what}\n\n"
+                "Its readings stay as recorded, but they will be judged against the bands "
+                "of the changed device: marks and findings may change. Apply the change?",
+                yes="Apply",
+                no="Back to the form",
+            ),
+            answered,
+        )
+
+    def _apply_node(self, message: NodeEditorScreen.Apply, node: Any) -> None:
+        old_id = message.old_id
+        new_id = str(node.id)
+        if old_id is None:
+            label, change = f"add {new_id}", (lambda s: s.upsert_node(node))
+        elif old_id != new_id:
+            # checked on a copy first, so the session makes both steps or neither
+            try:
+                ops.apply_op(
+                    ops.apply_op(self.site, ops.RenameNode(old=old_id, new=new_id)),
+                    ops.UpsertNode(node=node),
+                )
+            except ValueError as exc:
+                message.editor.answer(new_id, str(exc))
+                return
+
+            def change(s: Any) -> None:
+                s.rename_node(old_id, new_id)
+                s.upsert_node(node)
+
+            label = f"rename {old_id} to {new_id}"
         else:
-            verb = "add" if message.new else "edit"
-            problem = self.apply_edit(
-                f"{verb} {node.id}", lambda s: s.upsert_node(node), select=str(node.id)
-            )
-        message.editor.answer(str(node.id), problem)
+            label, change = f"edit {new_id}", (lambda s: s.upsert_node(node))
+        problem = self.apply_edit(label, change, select=new_id)
+        message.editor.answer(new_id, problem)
+        note = rating_note(node.kind, float(node.idn_ma)) if hasattr(node, "idn_ma") else None
+        if problem is None and note:
+            self.notify(note, severity="warning", timeout=10)
 
     def action_move_node(self) -> None:
         nid = self._selected()

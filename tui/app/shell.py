@@ -26,6 +26,7 @@ from model.site.undo import UndoStack
 from model.storage.session import EditSession, LockHeld
 from tui.app.analysis import AnalysisMixin
 from tui.app.autosave import AutosaveMixin
+from tui.app.commands import CommandsMixin
 from tui.app.dialogs import DialogActionsMixin
 from tui.app.edits import EditsMixin
 from tui.app.node_actions import NodeActionsMixin
@@ -37,6 +38,7 @@ from tui.screens.readings import ReadingScreen
 
 
 class TripwiseApp(
+    CommandsMixin,
     NodeActionsMixin,
     DialogActionsMixin,
     EditsMixin,
@@ -51,19 +53,27 @@ class TripwiseApp(
     TITLE = "tripwise"
 
     BINDINGS = [
-        Binding("f1", "help", "Help"),
-        Binding("question_mark", "help", "Help", show=False),
-        Binding("ctrl+s", "save", "Save", show=False),
-        Binding("ctrl+z", "undo", "Undo"),
-        Binding("u", "undo", "Undo", show=False),
-        Binding("t", "focus_tree", "Tree", show=False),
-        Binding("f", "focus_findings", "Findings"),
-        Binding("s", "site_details", "Site", show=False),
-        Binding("v", "visits", "Visits", show=False),
-        Binding("x", "export", "Export", show=False),
-        Binding("h", "compare_visits", "Compare visits", show=False),
-        Binding("o", "merge_other", "Merge a copy", show=False),
-        Binding("q", "quit_app", "Quit"),
+        Binding("f1", "help", "Help", tooltip="every key, by where it applies"),
+        Binding("question_mark", "help", "Help", show=False, tooltip="every key"),
+        Binding("ctrl+s", "save", "Save", show=False, tooltip="save now (edits also save soon)"),
+        Binding("ctrl+z", "undo", "Undo", tooltip="undo the last change (whole-site step)"),
+        Binding("u", "undo", "Undo", show=False, tooltip="undo the last change"),
+        Binding("t", "focus_tree", "Tree", show=False, tooltip="go to the tree"),
+        Binding("f", "focus_findings", "Findings", tooltip="go to the findings"),
+        Binding("s", "site_details", "Site", show=False, tooltip="site details and supply"),
+        Binding("v", "visits", "Visits", show=False, tooltip="visits; start a new one"),
+        Binding("x", "export", "Export", show=False, tooltip="write a report or test sheet"),
+        Binding(
+            "h", "compare_visits", "Compare visits", show=False, tooltip="two visits side by side"
+        ),
+        Binding(
+            "o",
+            "merge_other",
+            "Merge a copy",
+            show=False,
+            tooltip="merge another copy of this site",
+        ),
+        Binding("q", "quit_app", "Quit", tooltip="save and quit"),
     ]
 
     site_name: reactive[str] = reactive("")
@@ -99,8 +109,15 @@ class TripwiseApp(
 
     #: App actions offered under a dialog (the others wait until it is closed).
     _UNDER_A_DIALOG = frozenset({"help", "save"})
+    #: Actions that change the site: neither shown nor offered when it is open read-only.
+    _CHANGES = frozenset(
+        {"undo", "merge_other", "add_node", "edit_node", "move_node", "copy_node"}
+        | {"delete_node", "readings"}
+    )
 
     def check_action(self, action: str, parameters: tuple[object, ...]) -> bool | None:
+        if action in self._CHANGES and (self.session is None or self.session.read_only):
+            return False
         if isinstance(self.screen, ModalScreen):
             return action in self._UNDER_A_DIALOG or action not in self._APP_ACTIONS
         reading = isinstance(self.screen, ReadingScreen)

@@ -28,8 +28,8 @@ class ConfirmScreen(Dialog[bool]):
             yield Label(self._title, classes="dialog-title", markup=False)
             yield Static(self._body, classes="dialog-body", markup=False)
             with Horizontal(classes="dialog-buttons"):
-                yield Button(f"{self._yes} (y)", id="yes", variant="warning")
-                yield Button(f"{self._no} (n)", id="no")
+                yield Button(f"{self._yes} (y)", id="yes", variant="warning", compact=True)
+                yield Button(f"{self._no} (n / Esc)", id="no", compact=True)
 
     def on_mount(self) -> None:
         self.query_one("#no", Button).focus()

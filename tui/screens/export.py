@@ -8,8 +8,8 @@ from pathlib import Path
 from textual import on, work
 from textual.app import ComposeResult
 from textual.binding import Binding
-from textual.containers import Horizontal, Vertical
-from textual.widgets import Button, Input, Label, RadioButton, RadioSet, Select, Static
+from textual.containers import Horizontal, Vertical, VerticalScroll
+from textual.widgets import Button, Input, Label, Static
 
 from model.reports.heading import STATEMENT
 from model.reports.writer import (
@@ -26,6 +26,10 @@ from model.site.models import SiteFile
 from model.storage.codec import SiteLoadError
 from model.storage.sites import load_site
 from tui.screens.closing import Dialog
+from tui.widgets.choice_row import ChoiceRow
+
+#: The keys of the dialog, shown in it.
+KEYS_HINT = "Enter next (on File: write) · a letter picks · Ctrl+S write · Esc cancel"
 
 
 class ExportScreen(Dialog[Path | None]):
@@ -36,13 +40,14 @@ class ExportScreen(Dialog[Path | None]):
 
     An existing file is replaced only after a second press of Write.  The
     document is written by :func:`model.reports.writer.write_report` in a worker, so a
-    large site never blocks the screen.
+    large site never blocks the screen.  The buttons stay in view at 80×24 (the
+    fields scroll above them); the form starts on the first choice.
     """
 
     CSS_PATH = "export.tcss"
     BINDINGS = [
         Binding("escape", "cancel", "Cancel"),
-        Binding("ctrl+s", "write", "Write", show=False),
+        Binding("ctrl+s", "write", "Write"),
     ]
 
     def __init__(self, site_path: Path) -> None:
@@ -61,28 +66,30 @@ class ExportScreen(Dialog[Path | None]):
     def compose(self) -> ComposeResult:
         with Vertical(id="export-box"):
             yield Label("Export a document", id="export-title", markup=False)
-            yield Static("", id="export-site", markup=False)
-            with Horizontal(id="export-choices"):
-                with Vertical(classes="export-column"):
+            with VerticalScroll(id="export-fields"):
+                yield Static("", id="export-site", markup=False)
+                with Horizontal(classes="export-line"):
                     yield Label("Document", classes="export-label", markup=False)
-                    with RadioSet(id="export-kind"):
-                        for i, k in enumerate(KINDS):
-                            yield RadioButton(KIND_TITLE[k], value=i == 0, id=f"kind-{k}")
-                with Vertical(classes="export-column"):
+                    yield ChoiceRow([(KIND_TITLE[k], k) for k in KINDS], KINDS[0], id="export-kind")
+                with Horizontal(classes="export-line"):
                     yield Label("Format", classes="export-label", markup=False)
-                    with RadioSet(id="export-format"):
-                        for i, f in enumerate(FORMATS):
-                            yield RadioButton(FORMAT_TITLE[f], value=i == 0, id=f"format-{f}")
-                with Vertical(classes="export-column"):
-                    yield Label("Visit (latest first)", classes="export-label", markup=False)
-                    yield Select[str]([], id="export-visit", allow_blank=True, prompt="no visit")
-            yield Label("File", classes="export-label", markup=False)
-            yield Input(id="export-target")
-            yield Static("", id="export-status", markup=False)
-            yield Static(STATEMENT, id="export-statement", markup=False)
+                    yield ChoiceRow(
+                        [(FORMAT_TITLE[f], f) for f in FORMATS], FORMATS[0], id="export-format"
+                    )
+                with Horizontal(classes="export-line"):
+                    yield Label("Visit", classes="export-label", markup=False)
+                    # filled once the site is read: every visit, latest first
+                    yield ChoiceRow([], None, id="export-visit")
+                with Horizontal(classes="export-line"):
+                    yield Label("File", classes="export-label", markup=False)
+                    # select_on_focus off: a key typed on arrival must not wipe the path
+                    yield Input(id="export-target", compact=True, select_on_focus=False)
+                yield Static("", id="export-status", markup=False)
+                yield Static(STATEMENT, id="export-statement", markup=False)
+            yield Static(KEYS_HINT, id="export-keys", markup=False)
             with Horizontal(id="export-buttons"):
-                yield Button("Write", id="export-write", variant="primary")
-                yield Button("Cancel", id="export-cancel")
+                yield Button("Write (Ctrl+S)", id="export-write", variant="primary", compact=True)
+                yield Button("Cancel (Esc)", id="export-cancel", compact=True)
 
     def on_mount(self) -> None:
         try:
@@ -95,13 +102,12 @@ class ExportScreen(Dialog[Path | None]):
             f"{self.site.site.name}  ·  {self.site_path.name}"
         )
         visits = list(reversed(ordered_visits(self.site)))
-        choices = [v.date if v.id == v.date else f"{v.date} · {v.id}" for v in visits]
-        select = self.query_one("#export-visit", Select)
-        select.set_options(list(zip(choices, [v.id for v in visits], strict=True)))
+        row = self.query_one("#export-visit", ChoiceRow)
+        row.options = [(v.date if v.id == v.date else f"{v.date} · {v.id}", v.id) for v in visits]
         if visits:
-            select.value = visits[0].id
+            row.value = visits[0].id
         self._refresh_name()
-        self.query_one("#export-write", Button).focus()
+        self.query_one("#export-kind", ChoiceRow).focus()
 
     # -------------------------------------------------------------- choices
     @property
@@ -125,24 +131,24 @@ class ExportScreen(Dialog[Path | None]):
 
     def _reset_confirm(self) -> None:
         self._confirm = None
-        self.query_one("#export-write", Button).label = "Write"
+        self.query_one("#export-write", Button).label = "Write (Ctrl+S)"
         if self.target.exists():
             self._status(f"{self.target.name} exists; Write will ask before replacing it.")
         else:
             self._status("")
 
-    @on(RadioSet.Changed, "#export-kind")
-    def _kind_changed(self, event: RadioSet.Changed) -> None:
-        self.kind = KINDS[event.index]
+    @on(ChoiceRow.Changed, "#export-kind")
+    def _kind_changed(self, event: ChoiceRow.Changed) -> None:
+        self.kind = str(event.value)
         self._refresh_name()
 
-    @on(RadioSet.Changed, "#export-format")
-    def _format_changed(self, event: RadioSet.Changed) -> None:
-        self.fmt = FORMATS[event.index]
+    @on(ChoiceRow.Changed, "#export-format")
+    def _format_changed(self, event: ChoiceRow.Changed) -> None:
+        self.fmt = str(event.value)
         self._refresh_name()
 
-    @on(Select.Changed, "#export-visit")
-    def _visit_changed(self, event: Select.Changed) -> None:
+    @on(ChoiceRow.Changed, "#export-visit")
+    def _visit_changed(self, event: ChoiceRow.Changed) -> None:
         if self.site is None:
             return
         latest = self.site.latest_visit()
@@ -183,7 +189,7 @@ class ExportScreen(Dialog[Path | None]):
         if target.exists():
             if self._confirm != target:
                 self._confirm = target
-                self.query_one("#export-write", Button).label = "Replace"
+                self.query_one("#export-write", Button).label = "Replace (Ctrl+S)"
                 self._status(
                     f"{target.name} already exists. Press Replace to overwrite it, "
                     "or change the name.",
@@ -218,7 +224,7 @@ class ExportScreen(Dialog[Path | None]):
         self._confirm = None
         button = self.query_one("#export-write", Button)
         button.disabled = False
-        button.label = "Write"
+        button.label = "Write (Ctrl+S)"
         self._status(f"Not written: {message}", error=True)
 
     def _status(self, text: str, error: bool = False) -> None:

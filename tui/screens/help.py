@@ -1,6 +1,14 @@
-"""Every key of the app, by where it applies."""
+"""Every key of the app, by where it applies, made from the key bindings themselves.
+
+The rows come from the ``BINDINGS`` of the app, the tree, the findings, the forms
+and the reading screen, so a key added to a binding is listed here at once.  Keys
+that are typed rather than bound (digits and letters in the reading form, the
+tree's arrows) are listed from :data:`TYPED_KEYS`.
+"""
 
 from __future__ import annotations
+
+from typing import Any
 
 from rich.table import Table
 from rich.text import Text
@@ -11,34 +19,17 @@ from textual.widgets import Label, Static
 
 from tui.screens.closing import Dialog
 
-#: (where, keys, what) for every key the app answers to.
-KEY_MAP: list[tuple[str, str, str]] = [
-    ("anywhere", "F1  ?", "this help (? outside the reading form)"),
-    ("anywhere", "ctrl+s", "save now (edits are also saved a moment after you stop typing)"),
-    ("anywhere", "ctrl+z  u", "undo the last change (whole-site step; u outside the reading form)"),
-    ("anywhere", "t", "go to the tree"),
-    ("anywhere", "f", "go to the findings"),
-    ("anywhere", "s", "site details (name, earthing, supply, rule set)"),
-    ("anywhere", "v", "visits (add a visit)"),
-    ("anywhere", "x", "export a report / test sheet"),
-    ("anywhere", "h", "compare two visits (readings side by side, findings new / gone)"),
-    ("anywhere", "o", "merge another copy of this site (from a second laptop)"),
-    ("anywhere", "tab  shift+tab", "next / previous area"),
-    ("anywhere", "q", "save and quit"),
+#: Keys read as typing, not bindings: (where, keys, what).
+TYPED_KEYS: list[tuple[str, str, str]] = [
+    ("anywhere", "tab  shift+tab", "next / previous area or field"),
     ("tree", "↑ ↓ ← →  space", "move, open and close branches"),
-    ("tree", "a", "add a node under the cursor (choose its kind)"),
-    ("tree", "e  enter", "edit the node"),
-    ("tree", "m", "move the node (and what it feeds) to another parent"),
-    ("tree", "c", "copy the node with everything below it (new ids)"),
-    ("tree", "d  delete", "delete the node and everything below it (asks; undo with u)"),
-    ("tree", "r", "enter readings for this device (or the next untested one)"),
-    ("tree", "i", "trip impact: what loses supply if this device opens"),
-    ("tree", "p", "pair: this RCD with its nearest RCD above (or below)"),
-    ("findings", "enter", "go to the finding's node in the tree"),
-    ("findings", "1  2", "step the severity / board filter (click a filter too)"),
-    ("form", "enter", "next field; on the last field, apply"),
-    ("form", "ctrl+s", "apply the form"),
-    ("form", "escape", "cancel"),
+    (
+        "add menu",
+        "b r o m c w f s p k n",
+        "board, RCCB, RCBO, MCB, circuit, switch, fuse, socket RCD, portable RCD, CBR, RCM",
+    ),
+    ("form", "a letter", "in a choice: pick the choice it starts (again: the next one)"),
+    ("form", "space", "tick or clear a box, or a flag in a list"),
     ("readings", "digits  enter", "record a value and go to the next field"),
     ("readings", "n", "in a time field: did not trip (and go on)"),
     ("readings", "w  f", "test button: worked / failed (and go on)"),
@@ -46,11 +37,48 @@ KEY_MAP: list[tuple[str, str, str]] = [
     ("readings", "r  s", "half-wave/DC test made at the rated multiple / scaled current"),
     ("readings", "ctrl+w", "show the next test waveform's results (AC, half-wave, DC)"),
     ("readings", "enter on the note", "record and go to the next untested device"),
-    ("readings", "ctrl+t", "not tested: give a reason instead of values"),
-    ("readings", "ctrl+n  ctrl+p", "next / previous device"),
     ("readings", "↑ ↓", "previous / next field"),
-    ("readings", "escape", "back to the tree"),
 ]
+
+
+def _classes() -> list[tuple[str, type]]:
+    """(where, the class whose BINDINGS apply there), in the order of the help."""
+    from tui.app.shell import TripwiseApp
+    from tui.screens.node_editor import NodeEditorScreen
+    from tui.screens.readings import ReadingScreen
+    from tui.widgets.choice_row import ChoiceRow
+    from tui.widgets.findings_panel import FindingsTable
+    from tui.widgets.site_tree import SiteTree
+
+    return [
+        ("anywhere", TripwiseApp),
+        ("tree", SiteTree),
+        ("findings", FindingsTable),
+        ("form", NodeEditorScreen),
+        ("form", ChoiceRow),
+        ("readings", ReadingScreen),
+    ]
+
+
+def key_rows(app: Any) -> list[tuple[str, str, str]]:
+    """Every key the app answers to, as (where, keys, what): bindings first, then typing."""
+    rows: list[tuple[str, str, str]] = [
+        (
+            "anywhere",
+            app.get_key_display(Binding(app.COMMAND_PALETTE_BINDING, "")),
+            "command palette: every action by name",
+        ),
+    ]
+    for where, cls in _classes():
+        by_action: dict[str, tuple[list[str], str]] = {}
+        for b in getattr(cls, "BINDINGS", []):
+            if not isinstance(b, Binding):
+                continue
+            keys, what = by_action.setdefault(b.action, ([], b.tooltip or b.description))
+            keys.extend(app.get_key_display(Binding(k, b.action)) for k in b.key.split(","))
+        for keys, what in by_action.values():
+            rows.append((where, "  ".join(dict.fromkeys(keys)), what))
+    return rows + TYPED_KEYS
 
 
 class HelpScreen(Dialog[None]):
@@ -63,13 +91,13 @@ class HelpScreen(Dialog[None]):
         table.add_column("where", style="#8fa7b3", no_wrap=True)
         table.add_column("keys", style="bold #d9c28a", no_wrap=True)
         table.add_column("what it does")
-        for where, keys, what in KEY_MAP:
+        for where, keys, what in key_rows(self.app):
             table.add_row(where, keys, what)
         with Vertical(classes="dialog wide"):
             yield Label("Keys", classes="dialog-title", markup=False)
             with VerticalScroll():
                 yield Static(table, markup=False)
-            yield Static(Text("escape closes", style="#8fa7b3"), markup=False)
+            yield Static(Text("Esc closes", style="#8fa7b3"), markup=False)
 
     def action_close(self) -> None:
         self.dismiss(None)

@@ -11,17 +11,28 @@ from textual.binding import Binding
 from textual.containers import Horizontal, Vertical, VerticalScroll
 from textual.message import Message
 from textual.widget import Widget
-from textual.widgets import Button, Checkbox, Input, Label, Select, SelectionList, Static
+from textual.widgets import Button, Input, Label, Static
 
+from model.rules.ratings import rating_note
 from model.site.fields import FieldSpec, check_form, field_specs, typed_value
 from model.site.nodes import NODE_CLASSES
 from model.site.numbers import number_text
 from tui.format import KIND_TITLES
 from tui.screens.closing import Dialog
+from tui.widgets.choice_row import ChoiceRow
+from tui.widgets.flag_list import FlagList
+from tui.widgets.tick_box import TickBox
+
+#: The field a node form starts on, new or edited (the id is generated for a new node).
+FIRST_FIELD = "label"
 
 
 class NodeEditorScreen(Dialog[str | None]):
-    """Edit (or create) one node; dismisses with its id once the app has accepted it."""
+    """Edit (or create) one node; dismisses with its id once the app has accepted it.
+
+    Enter moves to the next field; on the last field it applies the form.  The id of
+    an existing node may be changed: the app renames it (children and readings follow).
+    """
 
     BINDINGS = [
         Binding("ctrl+s", "apply", "Apply", priority=True),
@@ -32,11 +43,15 @@ class NodeEditorScreen(Dialog[str | None]):
         """Add (``new``) or change this validated node; the app answers with
         :meth:`NodeEditorScreen.answer`."""
 
-        def __init__(self, editor: NodeEditorScreen, node: BaseModel, *, new: bool) -> None:
+        def __init__(
+            self, editor: NodeEditorScreen, node: BaseModel, *, new: bool, old_id: str | None
+        ) -> None:
             super().__init__()
             self.editor = editor
             self.node = node
             self.new = new
+            #: The node's id before this form (None for a new node).
+            self.old_id = old_id
 
     def __init__(self, values: dict[str, Any], *, new: bool) -> None:
         super().__init__()
@@ -44,6 +59,8 @@ class NodeEditorScreen(Dialog[str | None]):
         self._cls = NODE_CLASSES[self._kind]
         self._values = values
         self._new = new
+        #: The id the node had when the form opened (None for a new node).
+        self.old_id: str | None = None if new else str(values["id"])
         self._specs = field_specs(self._cls)
         #: The message shown at each field now (empty when the form is valid).
         self.errors: dict[str, str] = {}
@@ -75,48 +92,45 @@ class NodeEditorScreen(Dialog[str | None]):
                                 "", id=f"err-{spec.name}", classes="field-error", markup=False
                             )
             with Horizontal(classes="dialog-buttons"):
-                yield Button("Apply (ctrl+s)", id="apply", variant="primary")
-                yield Button("Cancel (esc)", id="cancel")
+                yield Static(
+                    "Enter next field (last: apply) · a letter picks a choice · Space ticks",
+                    classes="dialog-hint",
+                    markup=False,
+                )
+                yield Button("Apply (Ctrl+S)", id="apply", variant="primary", compact=True)
+                yield Button("Cancel (Esc)", id="cancel", compact=True)
 
     def _widget_for(self, spec: FieldSpec) -> Widget:
         wid = f"f-{spec.name}"
         value = self._values.get(spec.name, spec.default)
         if spec.kind == "choice":
-            return Select(
+            return ChoiceRow(
                 [(c, c) for c in spec.choices],
-                value=value if value in spec.choices else Select.NULL,
-                allow_blank=spec.optional or value not in spec.choices,
-                prompt="(none)" if spec.optional else "choose…",
-                compact=True,
+                value if value in spec.choices else None,
+                optional=spec.optional,
                 id=wid,
             )
         if spec.kind == "flag":
-            return Checkbox(spec.help[:60], value=bool(value), compact=True, id=wid)
+            return TickBox(spec.help[:60], value=bool(value), compact=True, id=wid)
         if spec.kind == "flags":
             chosen = set(value or [])
-            return SelectionList[str](
-                *[(c, c, c in chosen) for c in spec.choices], id=wid, compact=True
-            )
+            return FlagList(*[(c, c, c in chosen) for c in spec.choices], id=wid, compact=True)
         if spec.kind == "number":
             # all of the stored value, and whatever is typed kept as typed: the
             # number is read (or refused with the reason) only when the form is checked
             text = "" if value is None else number_text(value)
             return Input(text, placeholder=spec.unit or "number", compact=True, id=wid)
-        disabled = spec.name == "id" and not self._new
         return Input(
             "" if value is None else str(value),
             placeholder=spec.help[:50],
             compact=True,
-            disabled=disabled,
             id=wid,
         )
 
     def on_mount(self) -> None:
-        for spec in self._specs:
-            w = self.query_one(f"#f-{spec.name}")
-            if w.focusable and not w.disabled:
-                self.set_focus(w)
-                break
+        names = [s.name for s in self._specs]
+        first = FIRST_FIELD if FIRST_FIELD in names else names[0]
+        self.set_focus(self.query_one(f"#f-{first}"))
         self._check()
 
     def collect(self) -> tuple[dict[str, Any], dict[str, str]]:
@@ -127,15 +141,14 @@ class NodeEditorScreen(Dialog[str | None]):
         bad: dict[str, str] = {}
         for spec in self._specs:
             w = self.query_one(f"#f-{spec.name}")
-            if isinstance(w, Select):
-                v = w.value
-                if v is not Select.NULL:
-                    data[spec.name] = v
+            if isinstance(w, ChoiceRow):
+                if w.value is not None:
+                    data[spec.name] = w.value
                 elif spec.optional:
                     data[spec.name] = None
-            elif isinstance(w, Checkbox):
+            elif isinstance(w, TickBox):
                 data[spec.name] = w.value
-            elif isinstance(w, SelectionList):
+            elif isinstance(w, FlagList):
                 data[spec.name] = [c for c in spec.choices if c in w.selected]
             elif isinstance(w, Input):
                 try:
@@ -150,33 +163,41 @@ class NodeEditorScreen(Dialog[str | None]):
         node, errors = check_form(self._cls, data, bad)
         self.errors = errors
         names = {s.name for s in self._specs}
+        notes = self._notes(node)
         for spec in self._specs:
             label = self.query_one(f"#err-{spec.name}", Static)
             message = errors.get(spec.name, "")
-            label.update(message)
-            label.display = bool(message)
+            note = "" if message else notes.get(spec.name, "")
+            label.update(message or note)
+            label.set_class(bool(note), "field-note")
+            label.display = bool(message or note)
         whole = [v for k, v in errors.items() if k not in names]
         top = self.query_one("#form-error", Static)
         top.update("; ".join(whole))
         top.display = bool(whole)
         return node
 
+    @staticmethod
+    def _notes(node: BaseModel | None) -> dict[str, str]:
+        """Notes on accepted values (not refusals): a rating that is not a standard one."""
+        idn = getattr(node, "idn_ma", None)
+        if node is None or idn is None:
+            return {}
+        note = rating_note(str(getattr(node, "kind", "")), float(idn))
+        return {"idn_ma": note} if note else {}
+
     @on(Input.Changed)
-    @on(Select.Changed)
-    @on(Checkbox.Changed)
-    @on(SelectionList.SelectedChanged)
+    @on(ChoiceRow.Changed)
+    @on(TickBox.Changed)
+    @on(FlagList.SelectedChanged)
     def _changed(self) -> None:
         self._check()
 
     @on(Input.Submitted)
     def _submitted(self, event: Input.Submitted) -> None:
+        """Enter moves to the next field; on the last field it applies the form."""
         event.stop()
-        focusables = [
-            self.query_one(f"#f-{s.name}")
-            for s in self._specs
-            if not self.query_one(f"#f-{s.name}").disabled
-        ]
-        if event.input is focusables[-1]:
+        if event.input is self.query_one(f"#f-{self._specs[-1].name}"):
             self.action_apply()
         else:
             self.focus_next()
@@ -190,11 +211,16 @@ class NodeEditorScreen(Dialog[str | None]):
             self.app.bell()
             return
         self._asked = True
-        self.app.post_message(self.Apply(self, node, new=self._new))
+        self.app.post_message(self.Apply(self, node, new=self._new, old_id=self.old_id))
 
-    def answer(self, node_id: str, problem: str | None) -> None:
-        """The app's answer to :class:`Apply`: close on the node, or show why it was refused."""
+    def answer(self, node_id: str | None, problem: str | None) -> None:
+        """The app's answer to :class:`Apply`: close on the node, or show why it was refused.
+
+        ``node_id`` None and no problem: not applied (the user declined); the form stays.
+        """
         self._asked = False
+        if node_id is None and not problem:
+            return
         if problem:
             top = self.query_one("#form-error", Static)
             top.update(problem)

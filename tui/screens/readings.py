@@ -56,8 +56,9 @@ class ReadingScreen(ClosesOnce[str]):
 
     BINDINGS = [
         Binding("escape", "back", "Back to tree"),
-        Binding("ctrl+n", "device(1)", "Next device"),
-        Binding("ctrl+p", "device(-1)", "Prev device"),
+        # Ctrl+P stays the command palette's, as everywhere in the app
+        Binding("pagedown,ctrl+n", "device(1)", "Next device"),
+        Binding("pageup,ctrl+b", "device(-1)", "Prev device"),
         Binding("ctrl+t", "not_tested", "Not tested"),
         Binding("ctrl+w", "page", "Other test current"),
     ]

@@ -7,7 +7,7 @@ from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Horizontal, Vertical, VerticalScroll
 from textual.widget import Widget
-from textual.widgets import Button, Checkbox, Input, Label, Select, Static, TextArea
+from textual.widgets import Button, Input, Label, Static, TextArea
 
 from model.rules.limits import RULE_SETS
 from model.site.models import SiteFile, SiteInfo
@@ -23,6 +23,8 @@ from model.site.supply import (
 )
 from model.site.terms import Earthing, RuleSetName, choices_of
 from tui.screens.closing import Dialog
+from tui.widgets.choice_row import ChoiceRow
+from tui.widgets.tick_box import TickBox
 
 
 def _fmt(value: float | None) -> str:
@@ -30,7 +32,10 @@ def _fmt(value: float | None) -> str:
 
 
 class SiteDetailsScreen(Dialog[SiteInfo | None]):
-    """A form for the site's name, client, supply and rule set."""
+    """A form for the site's name, client, supply and rule set.
+
+    Enter moves to the next field (in the notes it starts a new line); Ctrl+S saves.
+    """
 
     BINDINGS = [
         Binding("ctrl+s", "save", "Save"),
@@ -78,13 +83,10 @@ class SiteDetailsScreen(Dialog[SiteInfo | None]):
                 yield from self._row(
                     "earthing",
                     "Earthing",
-                    Select(
-                        [(e, e) for e in choices_of(Earthing)],
-                        value=info.earthing,
-                        allow_blank=False,
-                        id="f-earthing",
-                        compact=True,
+                    ChoiceRow(
+                        [(e, e) for e in choices_of(Earthing)], info.earthing, id="f-earthing"
                     ),
+                    "a letter picks (t again: the next T…); ← → step",
                 )
                 values = {
                     "u0_v": info.u0_v,
@@ -99,27 +101,29 @@ class SiteDetailsScreen(Dialog[SiteInfo | None]):
                 yield from self._row(
                     "rules",
                     "Rule set",
-                    Select(
+                    ChoiceRow(
                         [(RULE_SETS[name].title, name) for name in choices_of(RuleSetName)],
-                        value=info.rules,
-                        allow_blank=False,
+                        info.rules,
                         id="f-rules",
-                        compact=True,
                     ),
                 )
                 yield from self._row(
                     "domestic",
                     "Dwelling",
-                    Checkbox(
+                    TickBox(
                         "domestic (lighting rule BS 7671 411.3.4)",
                         info.domestic,
                         id="f-domestic",
                         compact=True,
                     ),
+                    "Space ticks or clears",
                 )
                 yield from self._numbers(TREND_NUMBERS, values)
                 yield from self._row(
-                    "notes", "Notes", TextArea(info.notes, id="f-notes", compact=True)
+                    "notes",
+                    "Notes",
+                    TextArea(info.notes, id="f-notes", compact=True),
+                    "Enter starts a new line here; Tab leaves, Ctrl+S saves",
                 )
             with Horizontal(id="site-buttons"):
                 yield Button("Save (Ctrl+S)", id="site-save", variant="primary", compact=True)
@@ -133,10 +137,16 @@ class SiteDetailsScreen(Dialog[SiteInfo | None]):
         for key, shown in shown_fields(earthing).items():
             self.query_one(f"#row-{key}").display = shown
 
-    @on(Select.Changed, "#f-earthing")
-    def _earthing_changed(self, event: Select.Changed) -> None:
+    @on(ChoiceRow.Changed, "#f-earthing")
+    def _earthing_changed(self, event: ChoiceRow.Changed) -> None:
         if isinstance(event.value, str):
             self._show_for_earthing(event.value)
+
+    @on(Input.Submitted)
+    def _submitted(self, event: Input.Submitted) -> None:
+        """Enter moves to the next field shown (the rows of another earthing are hidden)."""
+        event.stop()
+        self.focus_next()
 
     def _clear_errors(self) -> None:
         for err in self.query(".field-error").results(Static):
@@ -157,9 +167,9 @@ class SiteDetailsScreen(Dialog[SiteInfo | None]):
             key: self.query_one(f"#f-{key}", Input).value
             for key in ("name", "address", "client", *(f.key for f in NUMBER_FIELDS))
         }
-        form["earthing"] = self.query_one("#f-earthing", Select).value
-        form["rules"] = self.query_one("#f-rules", Select).value
-        form["domestic"] = self.query_one("#f-domestic", Checkbox).value
+        form["earthing"] = self.query_one("#f-earthing", ChoiceRow).value
+        form["rules"] = self.query_one("#f-rules", ChoiceRow).value
+        form["domestic"] = self.query_one("#f-domestic", TickBox).value
         form["notes"] = self.query_one("#f-notes", TextArea).text
         return site_info_from_form(form)
 

@@ -44,6 +44,12 @@ class StartVisitScreen(Dialog[Visit | None]):
                     yield Label(title, classes="form-label", markup=False)
                     yield Input(value, id=f"v-{name}", compact=True)
             yield Static("", id="visit-error", classes="field-error", markup=False)
+            yield Static(
+                "Enter next field (on the last: start) · Esc cancel",
+                id="visit-keys",
+                classes="dialog-hint",
+                markup=False,
+            )
 
     def on_mount(self) -> None:
         self.query_one("#v-date", Input).focus()

@@ -24,7 +24,7 @@ class VisitsScreen(Dialog[Visit | None]):
     """Lists the site's visits and starts a new one (with no readings yet)."""
 
     BINDINGS = [
-        Binding("ctrl+n", "start", "Start visit"),
+        Binding("ctrl+s,ctrl+n", "start", "Start visit"),
         Binding("escape", "cancel", "Cancel"),
     ]
 
@@ -63,7 +63,7 @@ class VisitsScreen(Dialog[Visit | None]):
                     yield Static(self._id_hint(defaults["date"]), id="visits-id-hint", markup=False)
             with Horizontal(id="visits-buttons"):
                 yield Button(
-                    "Start visit (Enter)", id="visits-start", variant="primary", compact=True
+                    "Start visit (Ctrl+S)", id="visits-start", variant="primary", compact=True
                 )
                 yield Button("Cancel (Esc)", id="visits-cancel", compact=True)
 
@@ -121,8 +121,13 @@ class VisitsScreen(Dialog[Visit | None]):
         self.dismiss(None)
 
     @on(Input.Submitted)
-    def _submitted(self) -> None:
-        self.action_start()
+    def _submitted(self, event: Input.Submitted) -> None:
+        """Enter moves to the next field; on the last (the instrument) it starts the visit."""
+        event.stop()
+        if event.input.id == f"v-{list(FIELD_LABELS)[-1]}":
+            self.action_start()
+        else:
+            self.focus_next()
 
     @on(Button.Pressed, "#visits-start")
     def _start_pressed(self) -> None:

@@ -1,32 +1,18 @@
-"""The keys that apply where the cursor is, on one line (a light stand-in for a footer)."""
+"""The keys that apply where the cursor is, on one line: Textual's own footer, compact."""
 
 from __future__ import annotations
 
 from typing import Any
 
-from rich.text import Text
-from textual.widgets import Static
+from textual.widgets import Footer
 
 
-class KeyBar(Static):
-    """Follows the screen's active bindings; redrawn whenever the focus moves.
+class KeyBar(Footer):
+    """The key line: the bindings shown where the focus is (redrawn as it moves), the
+    palette key at the right.  A key the app refuses there (a change to a read-only
+    site) is not shown."""
 
-    In this app the keys that apply change only with the focused widget.
-    """
-
-    def on_mount(self) -> None:
-        self.watch(self.screen, "focused", self._focus_moved)
-
-    def _focus_moved(self, _focused: Any) -> None:
-        self._show()
-
-    def _show(self) -> None:
-        seen: set[str] = set()
-        t = Text(no_wrap=True, overflow="ellipsis")
-        for _node, binding, enabled, _tooltip in self.screen.active_bindings.values():
-            if not binding.show or not enabled or binding.action in seen:
-                continue
-            seen.add(binding.action)
-            t.append(f" {self.app.get_key_display(binding)} ", style="bold #12171b on #e0a526")
-            t.append(f" {binding.description} ", style="#c9d4da")
-        self.update(t)
+    def __init__(self, **kwargs: Any) -> None:
+        kwargs.setdefault("compact", True)
+        kwargs.setdefault("show_command_palette", True)
+        super().__init__(**kwargs)
