@@ -252,6 +252,29 @@ def _field(step: int) -> Callable[[str], Check]:
     return make
 
 
+async def _other_waveform(app: TripwiseApp, pilot: Any, key: str) -> None:
+    screen = await _readings(app, pilot)
+    assert screen.page == "AC"
+    await pilot.press(key)
+    assert screen.page == "half-wave"
+    await pilot.press("escape")
+
+
+def _test_current(expect: str) -> Callable[[str], Check]:
+    def make(key: str) -> Check:
+        async def check(app: TripwiseApp, pilot: Any) -> None:
+            screen = await _readings(app, pilot)
+            await pilot.press("ctrl+w")  # half-wave: the test current is asked
+            screen.pad.go("test_current")
+            await pilot.press(key)
+            assert screen.pad.values["test_current"] == expect
+            await pilot.press("escape")
+
+        return check
+
+    return make
+
+
 async def _back(app: TripwiseApp, pilot: Any, key: str) -> None:
     await _readings(app, pilot)
     await pilot.press(key)
@@ -304,6 +327,9 @@ CHECKS: dict[tuple[str, str], Callable[[str], Check]] = {
     ("readings", "h"): _const(_reading(("h",), "waveform", "half-wave")),
     ("readings", "d"): _const(_reading(("d",), "waveform", "smooth-dc")),
     ("readings", "ctrl+t"): lambda k: lambda a, p: _not_tested(a, p, k),
+    ("readings", "ctrl+w"): lambda k: lambda a, p: _other_waveform(a, p, k),
+    ("readings", "r"): _test_current("rated"),
+    ("readings", "s"): _test_current("scaled"),
     ("readings", "pgdn"): _device(1),
     ("readings", "ctrl+n"): _device(1),
     ("readings", "pgup"): _device(-1),
