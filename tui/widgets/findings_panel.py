@@ -12,9 +12,10 @@ from textual.containers import Horizontal, Vertical
 from textual.message import Message
 from textual.widgets import DataTable, Static
 
-from model.rules.findings import SEVERITIES, Analysis, Finding
+from model.rules.findings import SEVERITIES, SEVERITY_RANK, Analysis, Finding
 from model.site.tree import SiteIndex
 from tui.format import SEVERITY_MARK
+from tui.themes import tone
 
 
 class FindingsTable(DataTable[Text]):
@@ -23,6 +24,7 @@ class FindingsTable(DataTable[Text]):
     BINDINGS = [
         Binding("enter", "jump", "Go to node"),
         Binding("1", "filter('severity')", "Severity filter"),
+        Binding("exclamation_mark", "filter('or-worse')", "Only / or worse"),
         Binding("2", "filter('board')", "Board filter"),
     ]
 
@@ -70,6 +72,8 @@ class FindingsPanel(Vertical):
         self._index: SiteIndex | None = None
         #: The filters now: a severity and a board id, or None for all.
         self.severity: str | None = None
+        #: With a severity: True shows it and every worse one, False that one only.
+        self.or_worse = False
         self.board: str | None = None
         self._boards: list[str] = []
 
@@ -105,8 +109,14 @@ class FindingsPanel(Vertical):
         self._refill()
 
     def cycle_filter(self, which: str) -> None:
-        """Step a filter to its next value (all, then each severity or board)."""
-        if which == "severity":
+        """Step a filter to its next value (all, then each severity or board).
+
+        ``or-worse`` switches the severity filter between "this one only" and
+        "this or worse" (kept while the severity steps on).
+        """
+        if which == "or-worse":
+            self.or_worse = not self.or_worse
+        elif which == "severity":
             order: list[str | None] = [None, *SEVERITIES]
             self.severity = order[(order.index(self.severity) + 1) % len(order)]
         else:
@@ -120,13 +130,28 @@ class FindingsPanel(Vertical):
         if widget is not None and widget.id in ("filter-severity", "filter-board"):
             self.cycle_filter(widget.id.removeprefix("filter-"))
 
+    def severity_words(self) -> str:
+        """The severity filter in words: 'all', 'required only', 'required or worse'."""
+        sev = self.severity
+        if sev is None:
+            return "all"
+        if sev == SEVERITIES[0]:
+            return sev  # nothing is worse: both modes show the same
+        return f"{sev} or worse" if self.or_worse else f"{sev} only"
+
+    def _passes(self, f: Finding) -> bool:
+        sev = self.severity
+        if sev is not None:
+            if self.or_worse:
+                if SEVERITY_RANK[f.severity] > SEVERITY_RANK[sev]:
+                    return False
+            elif f.severity != sev:
+                return False
+        return self.board is None or f.board == self.board
+
     def _refill(self) -> None:
-        sev, board = self.severity, self.board
-        shown = [
-            f
-            for f in self._findings
-            if (sev is None or f.severity == sev) and (board is None or f.board == board)
-        ]
+        board = self.board
+        shown = [f for f in self._findings if self._passes(f)]
         self._shown = shown
         table = self.query_one(FindingsTable)
         row = table.cursor_row
@@ -134,6 +159,7 @@ class FindingsPanel(Vertical):
         idx = self._index
         for i, f in enumerate(shown):
             mark, style = SEVERITY_MARK[f.severity]
+            style = tone(style)
             node = f.nodes[0] if f.nodes else ""
             node_text = idx.label(node) if idx is not None and node in idx.by_id else node
             board_text = idx.label(f.board) if idx is not None and f.board in idx.by_id else f.board
@@ -148,7 +174,7 @@ class FindingsPanel(Vertical):
         if shown:
             table.move_cursor(row=min(max(row, 0), len(shown) - 1))
         board_name = idx.label(board) if idx is not None and board in idx.by_id else board
-        self.query_one("#filter-severity", Static).update(f"1 severity: {sev or 'all'}")
+        self.query_one("#filter-severity", Static).update(f"1 ! severity: {self.severity_words()}")
         self.query_one("#filter-board", Static).update(f"2 board: {board_name or 'all'}")
         total = len(self._findings)
         count = f"{len(shown)} of {total}" if len(shown) != total else f"{total}"
