@@ -12,7 +12,13 @@ from tui.screens.readings import ReadingScreen
 from tui.widgets.findings_panel import FindingsTable
 from tui.widgets.site_tree import SiteTree
 
-NAMES = {"question_mark": "?", "delete": "delete", "enter": "enter", "escape": "escape"}
+NAMES = {
+    "question_mark": "?",
+    "exclamation_mark": "!",
+    "delete": "delete",
+    "enter": "enter",
+    "escape": "escape",
+}
 
 
 def test_every_binding_is_in_the_help() -> None:

@@ -28,6 +28,7 @@ from tui.app.analysis import AnalysisMixin
 from tui.app.autosave import AutosaveMixin
 from tui.app.dialogs import DialogActionsMixin
 from tui.app.edits import EditsMixin
+from tui.app.looks import LooksMixin
 from tui.app.node_actions import NodeActionsMixin
 from tui.screens.confirm import ConfirmScreen
 from tui.screens.main import MainScreen
@@ -35,7 +36,13 @@ from tui.screens.readings import ReadingScreen
 
 
 class TripwiseApp(
-    NodeActionsMixin, DialogActionsMixin, EditsMixin, AutosaveMixin, AnalysisMixin, App[None]
+    NodeActionsMixin,
+    DialogActionsMixin,
+    EditsMixin,
+    AutosaveMixin,
+    AnalysisMixin,
+    LooksMixin,
+    App[None],
 ):
     """The app for one site file."""
 
@@ -55,6 +62,7 @@ class TripwiseApp(
         Binding("x", "export", "Export", show=False),
         Binding("h", "compare_visits", "Compare visits", show=False),
         Binding("o", "merge_other", "Merge a copy", show=False),
+        Binding("l", "toggle_theme", "Daylight / dark", show=False),
         Binding("q", "quit_app", "Quit"),
     ]
 
@@ -76,16 +84,18 @@ class TripwiseApp(
         self.analysis: Analysis | None = None
         self.index: SiteIndex = _empty_index()
         self.undo_stack = UndoStack()
+        self._set_up_looks()
         if session is not None:
             self._took_session(session)
 
     _APP_ACTIONS = frozenset(
         {"help", "save", "undo", "focus_tree", "focus_findings", "site_details", "visits"}
-        | {"export", "quit_app"}
+        | {"export", "quit_app", "toggle_theme"}
     )
     #: Actions that make no sense while typing readings (their keys are values there).
     _NOT_WHILE_READING = frozenset(
         {"focus_tree", "focus_findings", "quit_app", "site_details", "visits", "export"}
+        | {"toggle_theme"}
     )
 
     #: App actions offered under a dialog (the others wait until it is closed).
@@ -120,6 +130,7 @@ class TripwiseApp(
         super().notify(message, title=title, severity=severity, timeout=timeout, markup=False)
 
     def on_mount(self) -> None:
+        self._looks_mounted()
         if self.session is None:
             self.push_screen(
                 ConfirmScreen(

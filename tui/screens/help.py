@@ -10,6 +10,8 @@ from textual.containers import Vertical, VerticalScroll
 from textual.screen import ModalScreen
 from textual.widgets import Label, Static
 
+from tui.themes import tone
+
 #: (where, keys, what) for every key the app answers to.
 KEY_MAP: list[tuple[str, str, str]] = [
     ("anywhere", "F1  ?", "this help (? outside the reading form)"),
@@ -22,6 +24,7 @@ KEY_MAP: list[tuple[str, str, str]] = [
     ("anywhere", "x", "export a report / test sheet"),
     ("anywhere", "h", "compare two visits (readings side by side, findings new / gone)"),
     ("anywhere", "o", "merge another copy of this site (from a second laptop)"),
+    ("anywhere", "l", "daylight / dark theme (remembered for next time)"),
     ("anywhere", "tab  shift+tab", "next / previous area"),
     ("anywhere", "q", "save and quit"),
     ("tree", "↑ ↓ ← →  space", "move, open and close branches"),
@@ -35,6 +38,7 @@ KEY_MAP: list[tuple[str, str, str]] = [
     ("tree", "p", "pair: this RCD with its nearest RCD above (or below)"),
     ("findings", "enter", "go to the finding's node in the tree"),
     ("findings", "1  2", "step the severity / board filter (click a filter too)"),
+    ("findings", "!", "severity filter: that severity only / that or worse"),
     ("form", "enter", "next field; on the last field, apply"),
     ("form", "ctrl+s", "apply the form"),
     ("form", "escape", "cancel"),
@@ -57,8 +61,8 @@ class HelpScreen(ModalScreen[None]):
 
     def compose(self) -> ComposeResult:
         table = Table(box=None, expand=True, show_header=True, header_style="bold")
-        table.add_column("where", style="#8fa7b3", no_wrap=True)
-        table.add_column("keys", style="bold #d9c28a", no_wrap=True)
+        table.add_column("where", style=tone("$tw-muted"), no_wrap=True)
+        table.add_column("keys", style=tone("bold $tw-value"), no_wrap=True)
         table.add_column("what it does")
         for where, keys, what in KEY_MAP:
             table.add_row(where, keys, what)
@@ -66,7 +70,7 @@ class HelpScreen(ModalScreen[None]):
             yield Label("Keys", classes="dialog-title", markup=False)
             with VerticalScroll():
                 yield Static(table, markup=False)
-            yield Static(Text("escape closes", style="#8fa7b3"), markup=False)
+            yield Static(Text("escape closes", style=tone("$tw-muted")), markup=False)
 
     def action_close(self) -> None:
         self.dismiss(None)

@@ -34,6 +34,7 @@ from model.site.fields import errors_by_field, field_choices
 from model.site.models import Reading
 from tui.app.view import site_view
 from tui.format import LIVE_TEST_CAUTION, node_summary, node_title
+from tui.themes import tone
 from tui.widgets.caution_bar import CautionBar
 from tui.widgets.key_bar import KeyBar
 from tui.widgets.reading_pad import ReadingPad
@@ -70,8 +71,8 @@ FLAG_WORDS: dict[str, str] = {
     "reading.button-failed": "button failed",
 }
 
-_OK = "#7bd88f"
-_BAD = "bold #ff4d5e"
+_OK = "$tw-ok"
+_BAD = "bold $tw-bad"
 
 
 class ReadingScreen(Screen[str]):
@@ -183,9 +184,9 @@ class ReadingScreen(Screen[str]):
         left = sum(1 for d in rcds if is_untested(visit, d))
         t = Text(no_wrap=True, overflow="ellipsis")
         t.append(node_title(node), style="bold")
-        t.append(f"  {node.kind} {node_summary(node)}", style="#d9c28a")
-        t.append(f"  ·  {idx.path_text(self.device_id)}", style="#8fa7b3")
-        t2 = Text(no_wrap=True, overflow="ellipsis", style="#8fa7b3")
+        t.append(f"  {node.kind} {node_summary(node)}", style=tone("$tw-value"))
+        t.append(f"  ·  {idx.path_text(self.device_id)}", style=tone("$tw-muted"))
+        t2 = Text(no_wrap=True, overflow="ellipsis", style=tone("$tw-muted"))
         pos = rcds.index(self.device_id) + 1 if self.device_id in rcds else 0
         t2.append(f"device {pos} of {len(rcds)} · {left} untested")
         if visit is not None:
@@ -209,13 +210,13 @@ class ReadingScreen(Screen[str]):
         self.verdicts[name] = v.verdict
         text = Text(no_wrap=True, overflow="ellipsis")
         if v.mark == "unreadable":
-            text.append(f"✖ {v.verdict}", style=_BAD)
+            text.append(f"✖ {v.verdict}", style=tone(_BAD))
         elif v.mark == "flagged" and v.flag is not None:
-            text.append(f"✖ {FLAG_WORDS.get(v.flag, v.flag)}", style=_BAD)
+            text.append(f"✖ {FLAG_WORDS.get(v.flag, v.flag)}", style=tone(_BAD))
         elif v.mark == "in band":
-            text.append("✓ in band" if name != "button" else f"✓ {values[name]}", style=_OK)
+            text.append("✓ in band" if name != "button" else f"✓ {values[name]}", style=tone(_OK))
         elif v.mark == "recorded":
-            text = Text("· recorded", style="#8fa7b3")
+            text = Text("· recorded", style=tone("$tw-muted"))
         self._verdict_text[name] = text
         self._show_status()
 
@@ -225,7 +226,7 @@ class ReadingScreen(Screen[str]):
             return
         name = self.pad.current
         text = self.verdicts.get(name, "")
-        style = _BAD if self.flags.get(name) else "#8fa7b3"
+        style = tone(_BAD if self.flags.get(name) else "$tw-muted")
         self.query_one("#rd-status", Static).update(
             Text(f"{self.pad.titles.get(name, name).strip()}: {text}" if text else "", style=style)
         )
@@ -334,7 +335,7 @@ class ReadingScreen(Screen[str]):
     def _refuse(self, field: str, message: str) -> None:
         self.flags[field] = None
         self.verdicts[field] = message
-        self._verdict_text[field] = Text(f"✖ not recorded: {message}", style=_BAD)
+        self._verdict_text[field] = Text(f"✖ not recorded: {message}", style=tone(_BAD))
         self.pad.refresh()
         self.app.bell()
 

@@ -7,6 +7,8 @@ from typing import Any
 from rich.text import Text
 from textual.widgets import Static
 
+from tui.themes import tone
+
 
 class KeyBar(Static):
     """Follows the screen's active bindings; redrawn whenever the focus moves.
@@ -20,6 +22,10 @@ class KeyBar(Static):
     def _focus_moved(self, _focused: Any) -> None:
         self._show()
 
+    def refresh_keys(self) -> None:
+        """Redraw (after a change of theme)."""
+        self._show()
+
     def _show(self) -> None:
         seen: set[str] = set()
         t = Text(no_wrap=True, overflow="ellipsis")
@@ -27,6 +33,8 @@ class KeyBar(Static):
             if not binding.show or not enabled or binding.action in seen:
                 continue
             seen.add(binding.action)
-            t.append(f" {self.app.get_key_display(binding)} ", style="bold #12171b on #e0a526")
-            t.append(f" {binding.description} ", style="#c9d4da")
+            t.append(
+                f" {self.app.get_key_display(binding)} ", style=tone("bold $background on $accent")
+            )
+            t.append(f" {binding.description} ", style=tone("$tw-key-text"))
         self.update(t)
