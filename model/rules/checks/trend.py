@@ -18,7 +18,7 @@ from model.rules.checks.context import Context
 from model.rules.findings import Finding
 from model.site.history import visits_before
 from model.site.models import Reading, Visit
-from model.site.terms import TEST_NAMES
+from model.site.terms import TEST_NAMES, reading_label
 
 #: The tests a device must trip on; a growing trip time there means something.
 #: The ½ IΔn tests are left out: the device must not trip there at all.
@@ -98,7 +98,7 @@ def _growth(
     if not grown:
         return
     items = [
-        f"{key} {then:g} ms ({_when(pv)}) → {now:g} ms, +{now - then:g} ms "
+        f"{reading_label(key)} {then:g} ms ({_when(pv)}) → {now:g} ms, +{now - then:g} ms "
         f"(+{100.0 * (now - then) / then:.0f} %)"
         for key, pv, then, now in grown
     ]
@@ -126,7 +126,7 @@ def _growth(
         source=_SOURCE,
         basis="common-practice",
         measured="; ".join(
-            f"{k}: {then:g} ms ({pv.date}) → {now:g} ms ({latest.date})"
+            f"{reading_label(k)}: {then:g} ms ({pv.date}) → {now:g} ms ({latest.date})"
             for k, pv, then, now in grown
         ),
         band=f"growth over {growth_pct:g} % and over {min_ms:g} ms is flagged (site setting)",
@@ -156,9 +156,8 @@ def _newly_failing(
         return
     label = ctx.index.label(dev)
     keys = [k for k, _ in failing]
-    then_vals = ", ".join(f"{k} {fmt_value(k, getattr(prev, k))}" for k in keys)
-    now_vals = ", ".join(f"{k} {fmt_value(k, getattr(reading, k))}" for k in keys)
-    flags = sorted({str(j.flag) for _, j in failing})
+    then_vals = ", ".join(f"{reading_label(k)} {fmt_value(k, getattr(prev, k))}" for k in keys)
+    now_vals = ", ".join(f"{reading_label(k)} {fmt_value(k, getattr(reading, k))}" for k in keys)
     yield Finding(
         rule="reading.trend",
         severity="investigate",
@@ -168,7 +167,7 @@ def _newly_failing(
             f"{label} was within its bands on {_when(prev_visit)} ({then_vals}) "
             f"and now fails ({_when(latest)}: "
             + "; ".join(j.text for _, j in failing)
-            + f"; {', '.join(flags)})."
+            + ")."
         ),
         action="Re-test to confirm; a device that has begun to fail should be replaced. "
         "The reading finding for this visit gives the band it misses.",
@@ -185,4 +184,4 @@ def _band_text(ctx: Context, node: Any, reading: Reading, key: str) -> str:
         return "button: must trip"
     if key == "ramp_ma":
         return f"ramp: {ramp_band(node, reading.waveform).text}"
-    return f"{key}: {time_band(node, group_of(key), reading.waveform, ctx.rules.name).text}"
+    return f"{reading_label(key)}: {time_band(node, group_of(key), reading.waveform, ctx.rules.name).text}"
