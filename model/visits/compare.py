@@ -12,7 +12,7 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 from typing import Any, Literal
 
-from model.rules.bands import fmt_value, numeric_value, value_unit
+from model.rules.bands import numeric_value, value_unit
 from model.rules.checks import analyse
 from model.rules.findings import CAUTION, Finding
 from model.site.history import (

@@ -64,7 +64,9 @@ def test_growth_threshold_against_previous_visit(before: float, after: float, fi
         assert (
             f"{before:g} ms (2022-03-01, visit v2022)" in f.message and f"{after:g} ms" in f.message
         )
-        assert f.measured == f"1 × IΔn, 180°: {before:g} ms (2022-03-01) → {after:g} ms (2025-03-01)"
+        assert (
+            f.measured == f"1 × IΔn, 180°: {before:g} ms (2022-03-01) → {after:g} ms (2025-03-01)"
+        )
         assert f.band is not None and "50 %" in f.band and "10 ms" in f.band
         assert "common practice" in f.source
 

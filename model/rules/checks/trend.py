@@ -165,9 +165,7 @@ def _newly_failing(
         board=ctx.index.board_of[dev],
         message=(
             f"{label} was within its bands on {_when(prev_visit)} ({then_vals}) "
-            f"and now fails ({_when(latest)}: "
-            + "; ".join(j.text for _, j in failing)
-            + ")."
+            f"and now fails ({_when(latest)}: " + "; ".join(j.text for _, j in failing) + ")."
         ),
         action="Re-test to confirm; a device that has begun to fail should be replaced. "
         "The reading finding for this visit gives the band it misses.",
