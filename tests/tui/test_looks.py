@@ -5,6 +5,8 @@ from __future__ import annotations
 import json
 from pathlib import Path
 
+import pytest
+
 from model.rules.findings import SEVERITY_RANK
 from tui.app.shell import make_app
 from tui.themes import DARK, LIGHT, THEMES
@@ -117,3 +119,32 @@ async def test_severity_filter_this_or_worse(oak_lane: Path) -> None:
         assert {f.severity for f in panel.shown} <= {"advisory"}
         await pilot.press("1", "1")  # investigate, then all
         assert panel.severity_words() == "all" and len(panel.shown) == len(findings)
+
+
+async def test_the_demo_says_where_its_copy_is(
+    tmp_path: Path, monkeypatch: pytest.MonkeyPatch
+) -> None:
+    import argparse
+
+    from tui.cli.commands import demo
+    from tui.cli.commands import open as open_cmd
+
+    monkeypatch.setenv("XDG_DATA_HOME", str(tmp_path / "data"))
+    seen: dict[str, object] = {}
+
+    def fake_open(path: str, *, read_only: bool = False, welcome: str | None = None) -> int:
+        seen.update(path=path, welcome=welcome)
+        return 0
+
+    monkeypatch.setattr(open_cmd, "open_app", fake_open)
+    args = argparse.Namespace(name="oak-lane-house", list=False, check=False)
+    assert demo.run(args) == 0
+    copy = tmp_path / "data" / "tripwise" / "demo" / "oak-lane-house.json"
+    assert seen["path"] == str(copy) and copy.is_file()
+    assert str(copy) in str(seen["welcome"]) and "q quits" in str(seen["welcome"])
+    # the app shows it as it opens, and keeps the file's name in the top strip
+    app = make_app(copy, welcome=str(seen["welcome"]))
+    async with app.run_test(size=(80, 24)) as pilot:
+        await pilot.pause()
+        assert any(str(copy) in n.message for n in app._notifications)
+        assert "oak-lane-house.json" in str(app.screen.query_one("#site-name").render())

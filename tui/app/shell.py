@@ -76,9 +76,12 @@ class TripwiseApp(
         session: EditSession | None,
         *,
         lock_message: str | None = None,
+        welcome: str | None = None,
     ) -> None:
         super().__init__()
         self.site_path = site_path
+        #: Said as the site opens (where the demo copy is), then kept as the sub-title.
+        self.welcome = welcome
         self.session: EditSession | None = session
         self.lock_message = lock_message
         self.analysis: Analysis | None = None
@@ -158,6 +161,9 @@ class TripwiseApp(
 
     def _opened(self) -> None:
         assert self.session is not None
+        self.sub_title = str(self.site_path)
+        if self.welcome:
+            self.notify(self.welcome, title="tripwise", timeout=30)
         for line in self.session.recovered:
             self.notify(line, title="Recovered from the journal", timeout=12)
         self._show_new_warnings()
@@ -210,7 +216,9 @@ def _empty_index() -> SiteIndex:
     return SiteIndex(site=None)  # type: ignore[arg-type]
 
 
-def make_app(site_path: str | os.PathLike[str], *, read_only: bool = False) -> TripwiseApp:
+def make_app(
+    site_path: str | os.PathLike[str], *, read_only: bool = False, welcome: str | None = None
+) -> TripwiseApp:
     """Open a site file for editing (or read-only) and build the app on it.
 
     Raises ``model.storage.codec.SiteLoadError`` when the file cannot be used.  When the
@@ -220,5 +228,5 @@ def make_app(site_path: str | os.PathLike[str], *, read_only: bool = False) -> T
     try:
         session = EditSession.open(path, read_only=read_only)
     except LockHeld as exc:
-        return TripwiseApp(path, None, lock_message=str(exc))
-    return TripwiseApp(path, session)
+        return TripwiseApp(path, None, lock_message=str(exc), welcome=welcome)
+    return TripwiseApp(path, session, welcome=welcome)

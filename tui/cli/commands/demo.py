@@ -62,11 +62,12 @@ def run(args: argparse.Namespace) -> int:
             file=sys.stderr,
         )
         return 2
-    print(f"Demo copy of the invented sample site written to {path}", file=sys.stderr)
+    written = f"Demo copy of the invented sample site written to {path}"
+    print(written, file=sys.stderr)
     if args.check:
         from tui.cli.commands import check
 
         return check.run(argparse.Namespace(site=str(path), json=False))
     from tui.cli.commands.open import open_app
 
-    return open_app(str(path))
+    return open_app(str(path), welcome=f"{written}. Your changes are saved there; q quits.")
