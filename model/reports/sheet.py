@@ -11,7 +11,7 @@ import datetime as dt
 from dataclasses import dataclass
 
 from model.reports.heading import Heading, build_heading
-from model.reports.text import clean, clean_lines
+from model.reports.text import clean, clean_lines, with_way
 from model.rules.bands import (
     GROUP_TITLE,
     group_of,
@@ -85,6 +85,13 @@ class SheetRow:
     button_mark: str
     #: The reading's note; line breaks kept (renderers other than CSV join the lines).
     note: str
+    #: The board's way the device is in, as numbered on site ('' when not given).
+    way: str = ""
+
+    @property
+    def named(self) -> str:
+        """The label with the way in front ('way 3 · RCCB 1'), as the documents print it."""
+        return with_way(self.label, self.way)
 
 
 @dataclass(frozen=True)
@@ -169,6 +176,7 @@ def build_sheet(site: SiteFile, *, generated: dt.datetime | None = None) -> Shee
                 button=button,
                 button_mark=bmark,
                 note="" if reading is None else clean_lines(reading.note),
+                way=clean(getattr(node, "way", "")),
             )
         )
     rs = rule_set(rules)

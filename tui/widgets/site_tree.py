@@ -42,6 +42,9 @@ class SiteTree(Tree[str]):
         text = Text(no_wrap=True, overflow="ellipsis")
         text.append(mark, style=style)
         text.append(" ")
+        way = getattr(node, "way", "")
+        if way:  # the board's way, as numbered on site
+            text.append(f"[{way}] ", style=tone("bold $tw-value"))
         text.append(node_title(node), style="bold" if node.kind in ("board", "origin") else "")
         text.append("  ")
         text.append(node_summary(node), style=tone("$tw-muted"))

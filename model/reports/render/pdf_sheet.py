@@ -82,9 +82,9 @@ def _test_cell(pdf: ReportPdf, c: SheetCell, x: float, y: float, w: float, unit:
 
 
 def _sheet_row(pdf: ReportPdf, r: SheetRow, note_w: float, shade: bool, draw: bool) -> float:
-    texts = [r.label, r.board, r.type_text]
+    texts = [r.named, r.board, r.type_text]
     widths = [w for _, w in SHEET_COLS]
-    hs = [pdf.para_h(widths[0] - 1.2, LH, r.label, 7.4, True) + LH]
+    hs = [pdf.para_h(widths[0] - 1.2, LH, r.named, 7.4, True) + LH]
     hs += [pdf.para_h(w - 1.2, LH, t, 7.4) for t, w in zip(texts[1:], widths[1:3], strict=True)]
     note = clean(r.note)
     if r.not_tested is not None or not r.recorded:
@@ -110,7 +110,7 @@ def _sheet_row(pdf: ReportPdf, r: SheetRow, note_w: float, shade: bool, draw: bo
         pdf.rect(pdf.l_margin, y, pdf.content_w, h, style="F")
     x = pdf.l_margin
     pdf.set_y(y + 0.8)
-    pdf.para(x + 0.6, widths[0] - 1.2, LH, r.label, 7.4, True)
+    pdf.para(x + 0.6, widths[0] - 1.2, LH, r.named, 7.4, True)
     pdf.para(x + 0.6, widths[0] - 1.2, LH, r.device_id, 6.4, False, MUTED)
     x += widths[0]
     for t, w in zip(texts[1:], widths[1:3], strict=True):
