@@ -50,6 +50,7 @@ class AnalysisMixin:
         # the tree's index is handed on when it was built from this very site
         index = self.index if self.index.site is site else None
         self._run_analysis(site, index, self._analysis_gen)
+        self.main.findings.set_checking(True)
 
     def _first_analysis(self) -> None:
         self._analysis_wanted = True
@@ -68,7 +69,9 @@ class AnalysisMixin:
 
     def _analysis_done(self, result: Analysis | str, gen: int) -> None:
         if gen != self._analysis_gen:
-            return
+            return  # a newer run is on its way; the findings still say "checking"
+        if not self._analysis_wanted:
+            self.main.findings.set_checking(False)
         if isinstance(result, str):
             self.notify(result, severity="error")
             return

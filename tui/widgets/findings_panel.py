@@ -10,12 +10,16 @@ from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Horizontal, Vertical
 from textual.message import Message
+from textual.timer import Timer
 from textual.widgets import DataTable, Static
 
 from model.rules.findings import SEVERITIES, SEVERITY_RANK, Analysis, Finding
 from model.site.tree import SiteIndex
 from tui.format import SEVERITY_MARK
 from tui.themes import tone
+
+#: Seconds a check may run before the findings show a loading indicator.
+LOADING_AFTER_S = 0.4
 
 
 class FindingsTable(DataTable[Text]):
@@ -76,6 +80,10 @@ class FindingsPanel(Vertical):
         self.or_worse = False
         self.board: str | None = None
         self._boards: list[str] = []
+        #: True while the checks run (the count says so; a long run shows an indicator).
+        self.checking = False
+        self._count_text = ""
+        self._loading_timer: Timer | None = None
 
     def compose(self) -> ComposeResult:
         with Horizontal(id="findings-bar"):
@@ -177,10 +185,34 @@ class FindingsPanel(Vertical):
         self.query_one("#filter-severity", Static).update(f"1 ! severity: {self.severity_words()}")
         self.query_one("#filter-board", Static).update(f"2 board: {board_name or 'all'}")
         total = len(self._findings)
-        count = f"{len(shown)} of {total}" if len(shown) != total else f"{total}"
-        self.query_one("#findings-count", Static).update(count)
+        self._count_text = f"{len(shown)} of {total}" if len(shown) != total else f"{total}"
+        self._show_count()
         # a short list leaves the rest of a tall screen to the tree (border, bar, header)
         self.styles.max_height = max(6, len(shown) + 5)
+
+    def set_checking(self, on: bool) -> None:
+        """The checks started (True) or finished (False).  A run longer than
+        :data:`LOADING_AFTER_S` covers the table with a loading indicator, so a large
+        site's check never looks like a frozen screen."""
+        self.checking = on
+        if self._loading_timer is not None:
+            self._loading_timer.stop()
+            self._loading_timer = None
+        table = self.query_one(FindingsTable)
+        if on:
+            self._loading_timer = self.set_timer(LOADING_AFTER_S, self._long_check)
+        else:
+            table.loading = False
+        self._show_count()
+
+    def _long_check(self) -> None:
+        self._loading_timer = None
+        if self.checking:
+            self.query_one(FindingsTable).loading = True
+
+    def _show_count(self) -> None:
+        text = f"checking…  {self._count_text}" if self.checking else self._count_text
+        self.query_one("#findings-count", Static).update(text)
 
     @on(DataTable.RowHighlighted, "#findings-table")
     def _row_highlighted(self, event: DataTable.RowHighlighted) -> None:
