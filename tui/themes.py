@@ -42,6 +42,10 @@ _DARK_TONES: dict[str, str] = {
     "tw-save-error": "#9c2a33",
     "tw-save-ro": "#4a4f7a",
     "tw-dim": "#0b0f12 70%",  # behind a dialog
+    "tw-chart-up": "#e8a33d",  # the upstream device on a band chart
+    "tw-chart-down": "#56b6e2",  # the downstream device
+    "tw-chart-shade": "#78343c",  # currents where selectivity is not guaranteed
+    "tw-chart-fault": "#8c8c8c",  # the largest fault current
 }
 
 #: The same variables for daylight: dark text on a pale ground, deeper colours
@@ -73,6 +77,10 @@ _LIGHT_TONES: dict[str, str] = {
     "tw-save-error": "#f2b8bf",
     "tw-save-ro": "#cfd1ee",
     "tw-dim": "#6b7780 50%",
+    "tw-chart-up": "#a55a00",
+    "tw-chart-down": "#0a5f8f",
+    "tw-chart-shade": "#e7b7bd",
+    "tw-chart-fault": "#6b6b6b",
 }
 
 THEMES: dict[str, Theme] = {
