@@ -47,7 +47,7 @@ Way = Annotated[str, StringConstraints(max_length=WAY_MAX), AfterValidator(_way_
 
 
 def _way() -> str:
-    return Field(  # type: ignore[no-any-return]
+    return Field(
         default="",
         description=f"The board's way it is in, as numbered on site (e.g. '3', 'L1-4'); "
         f"up to {WAY_MAX} characters, empty when not given.",
