@@ -74,6 +74,8 @@ class CompareScreen(ModalScreen[None]):
         """The values keep their width; the device and test column takes what is left,
         so the change column is always on screen (80 columns and up)."""
         table = self.query_one("#compare-readings", DataTable)
+        if ColumnKey("test") not in table.columns:
+            return  # not set up yet
         width = table.size.width or self.app.size.width - 6
         fixed = sum(VALUE_WIDTHS.values())
         # each column has one cell of padding each side; two more for the scroll bar
