@@ -7,7 +7,7 @@ from pathlib import Path
 import pytest
 from textual.widgets import DataTable
 
-from tests.tui.test_main_snapshot import screen_text
+from tests.tui.test_main_snapshot import settled_text
 from tui.app.shell import make_app
 from tui.screens.compare import CompareScreen
 
@@ -24,8 +24,7 @@ async def test_compare_fits(oak_lane: Path, size: tuple[int, int]) -> None:
         table = app.screen.query_one("#compare-readings", DataTable)
         # the first rows: RCCB 1 (upstairs), ½ × IΔn, 0°, …; move to RCCB 2's 1 × IΔn, 0°
         table.move_cursor(row=table.get_row_index("rc2:x1_0"))
-        await pilot.pause()
-        lines = screen_text(app).splitlines()
+        lines = (await settled_text(pilot)).splitlines()
     assert len(lines) == size[1]
     # headings and a whole row with its change, inside the screen's width
     assert any("earlier" in line and "later" in line and "change" in line for line in lines)

@@ -20,7 +20,6 @@ import tui.screens.export as export_mod
 from model.rules.checks import analyse
 from tui.app.shell import make_app
 from tui.screens.export import ExportScreen
-from tui.widgets.findings_panel import FindingsTable
 
 
 async def test_a_slow_check_shows_it_is_checking(
@@ -37,20 +36,23 @@ async def test_a_slow_check_shows_it_is_checking(
     try:
         async with app.run_test(size=(80, 24)) as pilot:
             panel = app.main.findings
-            await pilot.pause(0.3)  # the first check starts just after the first paint
+            for _ in range(100):  # the first check starts just after the first paint
+                if panel.checking:
+                    break
+                await pilot.pause(0.05)
             assert panel.checking
             count = str(panel.query_one("#findings-count", Static).render())
             assert "checking" in count
             await pilot.pause(0.6)  # longer than LOADING_AFTER_S: the indicator is up
-            table = panel.query_one(FindingsTable)
-            assert table.loading  # Textual covers a loading widget with its indicator
+            busy = panel.query_one("#findings-busy", LoadingIndicator)
+            assert busy.display
             # the tree still answers while the check runs
             await pilot.press("down")
             assert app.main.tree.cursor_line == 1
             gate.set()
             await app.workers.wait_for_complete()
             await pilot.pause()
-            assert not panel.checking and not table.loading
+            assert not panel.checking and not busy.display
             assert "checking" not in str(panel.query_one("#findings-count", Static).render())
             assert app.analysis is not None and panel.shown
     finally:

@@ -11,6 +11,7 @@ import io
 import os
 import re
 from pathlib import Path
+from typing import Any
 
 from rich.console import Console
 from textual.app import App
@@ -32,6 +33,18 @@ def screen_text(app: App[object]) -> str:
     return "\n".join(_TIME.sub("hh:mm", line.rstrip()) for line in lines[:height]) + "\n"
 
 
+async def settled_text(pilot: Any) -> str:
+    """The screen once three captures in a row agree (a table sizes its columns when
+    idle, which on a busy machine can take a while)."""
+    seen: list[str] = []
+    for _ in range(60):
+        await pilot.pause(0.15)
+        seen.append(screen_text(pilot.app))
+        if len(seen) >= 3 and seen[-1] == seen[-2] == seen[-3]:
+            break
+    return seen[-1]
+
+
 def check_snapshot(name: str, text: str) -> None:
     path = SNAPSHOTS / name
     if os.environ.get("TRIPWISE_SNAPSHOTS") == "update":
@@ -45,8 +58,7 @@ async def test_main_screen_at_80x24(oak_lane: Path) -> None:
     app = make_app(oak_lane)
     async with app.run_test(size=(80, 24)) as pilot:
         await app.settle()
-        await pilot.pause()
-        text = screen_text(app)
+        text = await settled_text(pilot)
     lines = text.splitlines()
     assert len(lines) == 24
     # the parts an inspector relies on, each in its place

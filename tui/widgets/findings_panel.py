@@ -11,13 +11,15 @@ from textual.binding import Binding
 from textual.containers import Horizontal, Vertical
 from textual.message import Message
 from textual.timer import Timer
-from textual.widgets import DataTable, Static
+from textual.widgets import DataTable, LoadingIndicator, Static
 
 from model.rules.findings import SEVERITIES, SEVERITY_RANK, Analysis, Finding
 from model.site.tree import SiteIndex
 from tui.format import SEVERITY_MARK
 from tui.themes import tone
 
+#: Cells of the message column (a longer message is cut; the node's details show it all).
+MESSAGE_W = 240
 #: Seconds a check may run before the findings show a loading indicator.
 LOADING_AFTER_S = 0.4
 
@@ -90,6 +92,7 @@ class FindingsPanel(Vertical):
             yield Static("Findings", id="findings-title", markup=False)
             yield Static("", id="filter-severity", classes="filter-chip", markup=False)
             yield Static("", id="filter-board", classes="filter-chip", markup=False)
+            yield LoadingIndicator(id="findings-busy")
             yield Static("", id="findings-count", markup=False)
         table = FindingsTable(id="findings-table", cursor_type="row", zebra_stripes=True)
         yield table
@@ -100,7 +103,8 @@ class FindingsPanel(Vertical):
         table.add_column("severity", key="severity", width=11)
         table.add_column("board", key="board", width=14)
         table.add_column("node", key="node", width=16)
-        table.add_column("finding", key="message")
+        # a fixed width: the table never waits on its own sizing to show a message in full
+        table.add_column("finding", key="message", width=MESSAGE_W)
 
     @property
     def shown(self) -> list[Finding]:
@@ -192,23 +196,22 @@ class FindingsPanel(Vertical):
 
     def set_checking(self, on: bool) -> None:
         """The checks started (True) or finished (False).  A run longer than
-        :data:`LOADING_AFTER_S` covers the table with a loading indicator, so a large
-        site's check never looks like a frozen screen."""
+        :data:`LOADING_AFTER_S` shows a moving indicator beside the count, so a large
+        site's check never looks like a frozen screen (the table stays as it was)."""
         self.checking = on
         if self._loading_timer is not None:
             self._loading_timer.stop()
             self._loading_timer = None
-        table = self.query_one(FindingsTable)
         if on:
             self._loading_timer = self.set_timer(LOADING_AFTER_S, self._long_check)
         else:
-            table.loading = False
+            self.query_one("#findings-busy").display = False
         self._show_count()
 
     def _long_check(self) -> None:
         self._loading_timer = None
         if self.checking:
-            self.query_one(FindingsTable).loading = True
+            self.query_one("#findings-busy").display = True
 
     def _show_count(self) -> None:
         text = f"checking…  {self._count_text}" if self.checking else self._count_text
