@@ -7,14 +7,14 @@ from typing import Any
 from model.rules.findings import CAUTION
 from model.site.terms import RCD_KINDS
 
-#: Our marks for the worst severity on a node (glyph, style).
+#: Our marks for the worst severity on a node (glyph, style: resolve with ``tui.themes.tone``).
 SEVERITY_MARK: dict[str, tuple[str, str]] = {
-    "urgent": ("◆", "bold #ff4d5e"),
-    "required": ("▲", "bold #ff9a3c"),
-    "advisory": ("●", "#e8c547"),
-    "investigate": ("◇", "#5ec8e5"),
+    "urgent": ("◆", "bold $tw-urgent"),
+    "required": ("▲", "bold $tw-required"),
+    "advisory": ("●", "$tw-advisory"),
+    "investigate": ("◇", "$tw-investigate"),
 }
-NO_MARK = ("·", "#4a5a66")
+NO_MARK = ("·", "$tw-none")
 
 #: Each kind of node as offered to the inspector (when adding a node, in form titles).
 KIND_TITLES: dict[str, str] = {

@@ -13,7 +13,7 @@ from dataclasses import dataclass, replace
 from model.reports.analysis_view import findings_by_board, site_index
 from model.reports.charts import PairChart, pair_chart_data
 from model.reports.heading import Heading, build_heading
-from model.reports.text import clean
+from model.reports.text import clean, with_way
 from model.rules.findings import CAUTION, Analysis, Finding
 from model.site.models import SiteFile, Visit
 from model.site.tree import SiteIndex
@@ -55,6 +55,16 @@ class RemedialItem:
     basis: str
     #: Numbers of the pair charts (PDF) that show this item's pairs.
     charts: tuple[int, ...] = ()
+    #: The board's way of each node in ``node_labels`` ('' where none is given).
+    node_ways: tuple[str, ...] = ()
+
+    @property
+    def named_nodes(self) -> tuple[str, ...]:
+        """Each node's label with its way in front ('way 3 · RCCB 1'), as printed."""
+        ways = self.node_ways or ("",) * len(self.node_labels)
+        return tuple(
+            with_way(label, way) for label, way in zip(self.node_labels, ways, strict=True)
+        )
 
     def charts_text(self) -> str:
         """'pair chart 3' or 'pair charts 3, 4, 5'; '' when there is none."""
@@ -192,4 +202,5 @@ def _item(
         source=clean(f.source),
         basis=f.basis,
         charts=charts,
+        node_ways=tuple(clean(getattr(idx.by_id[n], "way", "")) for n in known),
     )

@@ -12,7 +12,7 @@ from dataclasses import dataclass
 from typing import Any
 
 from model.reports.heading import Heading, build_heading
-from model.reports.text import clean, clean_lines
+from model.reports.text import clean, clean_lines, with_way
 from model.rules.bands import (
     GROUP_TITLE,
     group_of,
@@ -90,6 +90,13 @@ class SheetRow:
     test_current: str | None = None
     #: True for a row of a further test waveform's results (same device, same visit).
     further: bool = False
+    #: The board's way the device is in, as numbered on site ('' when not given).
+    way: str = ""
+
+    @property
+    def named(self) -> str:
+        """The label with the way in front ('way 3 · RCCB 1'), as the documents print it."""
+        return with_way(self.label, self.way)
 
 
 @dataclass(frozen=True)
@@ -193,4 +200,5 @@ def _row(idx: SiteIndex, dev: str, node: Any, reading: Any, results: Any, rules:
         note="" if reading is None or not own else clean_lines(reading.note),
         test_current=tc,
         further=not own,
+        way=clean(getattr(node, "way", "")),
     )

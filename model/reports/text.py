@@ -31,6 +31,11 @@ def clean_lines(text: object) -> str:
     return "\n".join(clean(line) for line in s.split("\n")).strip("\n")
 
 
+def with_way(label: str, way: str) -> str:
+    """A node's name with its board way in front: 'way 3 · Kitchen sockets' ('' way: the label)."""
+    return f"way {way} · {label}" if way else label
+
+
 def num_text(value: float) -> str:
     """A number as the shortest text that reads back to the same float ('312', '12.5')."""
     s = repr(float(value))

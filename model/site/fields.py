@@ -29,6 +29,7 @@ HIDDEN_FIELDS = frozenset({"parent", "kind"})
 FIELD_TITLES: dict[str, str] = {
     "id": "Id",
     "label": "Label",
+    "way": "Way",
     "notes": "Notes",
     "place": "Place",
     "rated_a": "Rated current In",
@@ -121,7 +122,7 @@ def field_choices(cls: type[BaseModel], name: str) -> tuple[str, ...]:
 
 
 def field_specs(cls: type[BaseModel]) -> list[FieldSpec]:
-    """The editable fields of a model, in model order (notes last)."""
+    """The editable fields of a model, in model order (the way just after the label, notes last)."""
     out: list[FieldSpec] = []
     for name, info in cls.model_fields.items():
         if name in HIDDEN_FIELDS:
@@ -156,7 +157,7 @@ def field_specs(cls: type[BaseModel]) -> list[FieldSpec]:
                 default=default,
             )
         )
-    out.sort(key=lambda f: f.name == "notes")
+    out.sort(key=lambda f: 0 if f.name in ("id", "label", "way") else 2 if f.name == "notes" else 1)
     return out
 
 

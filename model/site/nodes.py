@@ -10,6 +10,7 @@ from __future__ import annotations
 from typing import Annotated, ClassVar, Literal
 
 from pydantic import (
+    AfterValidator,
     BaseModel,
     Field,
     StringConstraints,
@@ -28,6 +29,29 @@ from model.site.terms import (
     Waveform,
     finite,
 )
+
+WAY_MAX = 12
+
+
+def _way_ok(v: str) -> str:
+    if any(ord(c) < 32 or ord(c) == 127 for c in v):
+        raise ValueError("a way is one line of text, without tabs or line breaks")
+    if v != v.strip():
+        raise ValueError("a way does not begin or end with a space")
+    return v
+
+
+#: The way of a board a device sits in or a circuit leaves from, as the inspector
+#: numbers it: short text such as '3', '12' or 'L1-4'; empty when not given.
+Way = Annotated[str, StringConstraints(max_length=WAY_MAX), AfterValidator(_way_ok)]
+
+
+def _way() -> str:
+    return Field(
+        default="",
+        description=f"The board's way it is in, as numbered on site (e.g. '3', 'L1-4'); "
+        f"up to {WAY_MAX} characters, empty when not given.",
+    )
 
 
 class _NodeBase(StrictModel):
@@ -62,6 +86,7 @@ class SwitchNode(_NodeBase):
     """An isolator or main switch with no protective function."""
 
     kind: Literal["switch"]
+    way: Way = _way()
     rated_a: Annotated[float, Field(gt=0, le=6300)] | None = Field(
         default=None, description="Rated current. [A]"
     )
@@ -71,6 +96,7 @@ class FuseNode(_NodeBase):
     """A fuse (including the supply cut-out fuse)."""
 
     kind: Literal["fuse"]
+    way: Way = _way()
     rated_a: Annotated[float, Field(gt=0, le=6300)] = Field(description="Rated current. [A]")
 
 
@@ -78,6 +104,7 @@ class McbNode(_NodeBase):
     """A circuit-breaker giving overcurrent protection only."""
 
     kind: Literal["mcb"]
+    way: Way = _way()
     rated_a: Annotated[float, Field(gt=0, le=6300)] = Field(description="Rated current. [A]")
     curve: Curve | None = Field(default=None, description="Tripping curve.")
 
@@ -134,12 +161,14 @@ class RccbNode(_RcdBase):
     """Residual-current circuit-breaker without overcurrent protection (IEC 61008-1)."""
 
     kind: Literal["rccb"]
+    way: Way = _way()
 
 
 class RcboNode(_RcdBase):
     """Residual-current circuit-breaker with overcurrent protection (IEC 61009-1)."""
 
     kind: Literal["rcbo"]
+    way: Way = _way()
     curve: Curve | None = Field(default=None, description="Tripping curve.")
 
 
@@ -160,6 +189,7 @@ class CbrNode(_RcdBase):
 
     kind: Literal["cbr"]
     CHOICE_LIMITS: ClassVar[dict[str, tuple[str, ...]]] = {}
+    way: Way = _way()
     delay_ms: Annotated[float, Field(gt=0, le=10_000)] | None = Field(
         default=None,
         description="Declared limiting non-actuating time when delay is 'set'. [ms]",
@@ -188,12 +218,14 @@ class RcmNode(_ResidualBase):
     """Residual-current monitor: warns only, never disconnects; gives no protection."""
 
     kind: Literal["rcm"]
+    way: Way = _way()
 
 
 class CircuitNode(_NodeBase):
     """A final circuit, or an item of equipment fed by one."""
 
     kind: Literal["circuit"]
+    way: Way = _way()
     use: CircuitUse = Field(description="What the circuit supplies.")
     rated_a: Annotated[float, Field(gt=0, le=6300)] | None = Field(
         default=None, description="Rating of the circuit's protective device. [A]"

@@ -12,7 +12,7 @@ from __future__ import annotations
 from dataclasses import dataclass, field
 from typing import Any, Literal
 
-from model.rules.bands import fmt_value, numeric_value, value_unit
+from model.rules.bands import numeric_value, value_unit
 from model.rules.checks import analyse
 from model.rules.findings import CAUTION, Finding
 from model.site.history import (
@@ -106,6 +106,8 @@ class VisitComparison:
     findings_gone: list[Finding] = field(default_factory=list)
     findings_unchanged: list[Finding] = field(default_factory=list)
     caution: str = CAUTION
+    #: Every node's label (its id where it has none), to name nodes for people.
+    node_labels: dict[str, str] = field(default_factory=dict)
 
     def _with(self, presence: Presence) -> list[str]:
         return [d.device for d in self.devices if d.presence == presence]
@@ -289,6 +291,7 @@ def compare_visits(
         findings_new=fresh,
         findings_gone=gone,
         findings_unchanged=same,
+        node_labels={n: idx.label(n) for n in idx.by_id},
     )
 
 
@@ -306,43 +309,3 @@ def change_text(v: ValueChange) -> str:
     if v.new == DID_NOT_TRIP:
         return "now did not trip"
     return "changed"
-
-
-def compare_text(cmp: VisitComparison, width: int = 100) -> str:
-    """The comparison as plain text, as ``tripwise compare`` prints it."""
-    lines = [
-        cmp.title(),
-        "",
-        "Readings",
-    ]
-    for d in cmp.devices:
-        if d.presence == "neither":
-            continue
-        tag = {"both": "", "added": "  [tested on the later visit only]"}.get(
-            d.presence, "  [tested on the earlier visit only]"
-        )
-        lines.append(f"  {d.label} ({d.device}){tag}")
-        for v in d.values:
-            lines.append(
-                f"    {v.key:<10} {fmt_value(v.key.split(' ')[0], v.old):>14} → "
-                f"{fmt_value(v.key.split(' ')[0], v.new):<14} "
-                f"{change_text(v)}"
-            )
-    if cmp.untested:
-        lines.append("")
-        lines.append("Not tested on either visit: " + ", ".join(cmp.untested))
-    for title, fs in (
-        ("New findings", cmp.findings_new),
-        ("Findings gone", cmp.findings_gone),
-        ("Findings unchanged", cmp.findings_unchanged),
-    ):
-        lines.append("")
-        lines.append(f"{title}: {len(fs)}")
-        for f in fs:
-            lines.append(f"  {f.severity.upper():<11} {f.rule}  {', '.join(f.nodes)}")
-            if title != "Findings unchanged":
-                msg = f.message
-                lines.append(f"    {msg[: width - 4]}" + ("…" if len(msg) > width - 4 else ""))
-    lines.append("")
-    lines.append("Caution: " + cmp.caution)
-    return "\n".join(lines) + "\n"

@@ -55,7 +55,8 @@ def test_unit_and_help() -> None:
 
 def test_field_specs_of_an_rccb() -> None:
     specs = {s.name: s for s in field_specs(RCCB)}
-    assert list(specs) == ["id", "label", "idn_ma", "waveform", "delay", "rated_a", "notes"]
+    assert list(specs) == ["id", "label", "way", "idn_ma", "waveform", "delay", "rated_a", "notes"]
+    assert specs["way"].kind == "text" and specs["way"].default == ""
     assert "parent" not in specs and "kind" not in specs  # set by the tree, never typed
     idn = specs["idn_ma"]
     assert (idn.title, idn.kind, idn.unit, idn.required, idn.optional) == (

@@ -34,3 +34,11 @@ def oak_lane_no_visits(tmp_path: Path) -> Path:
 def site(oak_lane: Path) -> SiteFile:
     """The invented Oak Lane sample, loaded from a fresh copy."""
     return load_site(oak_lane)
+
+
+@pytest.fixture(autouse=True)
+def own_settings_dir(tmp_path: Path, monkeypatch: pytest.MonkeyPatch) -> Path:
+    """Every app test keeps its user settings in its own folder, never the real one."""
+    folder = tmp_path / "user-config"
+    monkeypatch.setattr("tui.settings.settings_dir", lambda: folder)
+    return folder

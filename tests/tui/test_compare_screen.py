@@ -27,10 +27,13 @@ async def test_compare_screen_shows_changes_and_closes(tmp_path: Path) -> None:
         assert screen.comparison is not None and screen.error is None
         table = screen.query_one("#compare-readings", DataTable)
         row = table.get_row("rc2:x1_180")
-        # rc2 on the invented sample: 180 -> 312 ms at 1 × IΔn, 180°
-        assert [str(c) for c in row[2:]] == ["180 ms", "312 ms", "+132 ms (+73 %)"]
+        # rc2 on the invented sample: 180 -> 312 ms at 1 × IΔn, 180°, named as the trade does
+        assert [str(c) for c in row] == ["  1 × IΔn, 180°", "180 ms", "312 ms", "+132 ms (+73 %)"]
+        assert str(table.get_row("rc2")[0]) == "RCCB 2 (downstairs)"
+        assert str(table.get_row("rb3")[0]) == "RCBO W3 — tested on the later visit only"
         findings = str(screen.query_one("#compare-findings", Static).render())
-        assert "reading.too-slow (rc2)" in findings
+        assert "required    RCCB 2 (downstairs): 1 × IΔn test 312 ms is slower" in findings
+        assert "reading.too-slow" not in findings and "(rc2)" not in findings
         await pilot.press("escape")
         await pilot.pause()
         assert app.screen is not screen
@@ -71,7 +74,7 @@ async def test_step_to_earlier_and_later_pair() -> None:
         await pilot.pause()
         assert (screen.comparison.from_id, screen.comparison.to_id) == ("v1", "v2")
         row = screen.query_one("#compare-readings", DataTable).get_row("rc1:x1_0")
-        assert [str(c) for c in row[2:]] == ["20 ms", "22 ms", "+2 ms (+10 %)"]
+        assert [str(c) for c in row[1:]] == ["20 ms", "22 ms", "+2 ms (+10 %)"]
         await pilot.press("left_square_bracket")  # no earlier pair: stays
         await app.workers.wait_for_complete()
         await pilot.pause()

@@ -24,8 +24,9 @@ async def test_refused_value_leaves_file_unchanged(oak_lane: Path) -> None:
         await pilot.press("e")
         editor = app.screen
         assert isinstance(editor, NodeEditorScreen)
-        # label is focused first (the id of an existing node is fixed); Enter to IΔn
-        await pilot.press("enter", "ctrl+u", *"0.03")
+        # label is focused first (the id of an existing node is fixed); Enter to the
+        # way, Enter to IΔn
+        await pilot.press("enter", "enter", "ctrl+u", *"0.03")
         # the model refuses a rating given in amps (model.site.models _idn_sane)
         assert "looks like amps" in editor.errors["idn_ma"]
         await pilot.press("ctrl+s")
@@ -283,7 +284,7 @@ async def test_a_number_field_keeps_what_is_typed_and_refuses_it(
         await pilot.press("e")
         editor = app.screen
         assert isinstance(editor, NodeEditorScreen)
-        await pilot.press("enter", "ctrl+u", *typed)  # the label, then IΔn
+        await pilot.press("enter", "enter", "ctrl+u", *typed)  # the label, the way, then IΔn
         assert says in editor.errors["idn_ma"]
         await pilot.press("ctrl+s")
         assert app.screen is editor  # refused: the form stays open

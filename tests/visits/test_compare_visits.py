@@ -8,7 +8,8 @@ import pytest
 
 from model.site.history import cut_at
 from model.site.models import SiteFile
-from model.visits.compare import CompareError, compare_text, compare_visits
+from model.visits.compare import CompareError, compare_visits
+from model.visits.compare_words import compare_text
 from tests.visits_helpers import NODES, make_site
 
 EXTRA = [

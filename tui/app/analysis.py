@@ -7,7 +7,10 @@ one it was started for.
 
 from __future__ import annotations
 
+import contextlib
+
 from textual import work
+from textual.css.query import NoMatches
 from textual.timer import Timer
 
 from model.rules.checks import analyse
@@ -50,6 +53,7 @@ class AnalysisMixin:
         # the tree's index is handed on when it was built from this very site
         index = self.index if self.index.site is site else None
         self._run_analysis(site, index, self._analysis_gen)
+        self._say_checking(True)
 
     def _first_analysis(self) -> None:
         self._analysis_wanted = True
@@ -57,6 +61,11 @@ class AnalysisMixin:
 
     def _after_first_paint(self) -> None:
         self._analysis_timer = self.set_timer(FIRST_ANALYSIS_DELAY_S, self._start_analysis)
+
+    def _say_checking(self, on: bool) -> None:
+        """Tell the findings the checks run (or ended); nothing while the app closes."""
+        with contextlib.suppress(LookupError, NoMatches):
+            self.main.findings.set_checking(on)
 
     @work(thread=True, exclusive=True, group="analysis", exit_on_error=False)
     def _run_analysis(self, site: SiteFile, index: SiteIndex | None, gen: int) -> None:
@@ -68,7 +77,9 @@ class AnalysisMixin:
 
     def _analysis_done(self, result: Analysis | str, gen: int) -> None:
         if gen != self._analysis_gen:
-            return
+            return  # a newer run is on its way; the findings still say "checking"
+        if not self._analysis_wanted:
+            self._say_checking(False)
         if isinstance(result, str):
             self.notify(result, severity="error")
             return

@@ -29,6 +29,7 @@ from tui.app.autosave import AutosaveMixin
 from tui.app.commands import CommandsMixin
 from tui.app.dialogs import DialogActionsMixin
 from tui.app.edits import EditsMixin
+from tui.app.looks import LooksMixin
 from tui.app.node_actions import NodeActionsMixin
 from tui.app.safe_display import show_controls_visibly
 from tui.screens.closing import KeyGate
@@ -44,6 +45,7 @@ class TripwiseApp(
     EditsMixin,
     AutosaveMixin,
     AnalysisMixin,
+    LooksMixin,
     KeyGate,
     App[None],
 ):
@@ -73,6 +75,9 @@ class TripwiseApp(
             show=False,
             tooltip="merge another copy of this site",
         ),
+        Binding(
+            "l", "toggle_theme", "Daylight / dark", show=False, tooltip="daylight or dark theme"
+        ),
         Binding("q", "quit_app", "Quit", tooltip="save and quit"),
     ]
 
@@ -86,25 +91,30 @@ class TripwiseApp(
         session: EditSession | None,
         *,
         lock_message: str | None = None,
+        welcome: str | None = None,
     ) -> None:
         show_controls_visibly()
         super().__init__()
         self.site_path = site_path
+        #: Said as the site opens (where the demo copy is), then kept as the sub-title.
+        self.welcome = welcome
         self.session: EditSession | None = session
         self.lock_message = lock_message
         self.analysis: Analysis | None = None
         self.index: SiteIndex = _empty_index()
         self.undo_stack = UndoStack()
+        self._set_up_looks()
         if session is not None:
             self._took_session(session)
 
     _APP_ACTIONS = frozenset(
         {"help", "save", "undo", "focus_tree", "focus_findings", "site_details", "visits"}
-        | {"export", "quit_app"}
+        | {"export", "quit_app", "toggle_theme"}
     )
     #: Actions that make no sense while typing readings (their keys are values there).
     _NOT_WHILE_READING = frozenset(
         {"focus_tree", "focus_findings", "quit_app", "site_details", "visits", "export"}
+        | {"toggle_theme"}
     )
 
     #: App actions offered under a dialog (the others wait until it is closed).
@@ -146,6 +156,7 @@ class TripwiseApp(
         super().notify(message, title=title, severity=severity, timeout=timeout, markup=False)
 
     def on_mount(self) -> None:
+        self._looks_mounted()
         if self.session is None:
             self.push_screen(
                 ConfirmScreen(
@@ -173,6 +184,9 @@ class TripwiseApp(
 
     def _opened(self) -> None:
         assert self.session is not None
+        self.sub_title = str(self.site_path)
+        if self.welcome:
+            self.notify(self.welcome, title="tripwise", timeout=30)
         for line in self.session.recovered:
             self.notify(line, title="Recovered from the journal", timeout=12)
         self._show_new_warnings()
@@ -225,7 +239,9 @@ def _empty_index() -> SiteIndex:
     return SiteIndex(site=None)  # type: ignore[arg-type]
 
 
-def make_app(site_path: str | os.PathLike[str], *, read_only: bool = False) -> TripwiseApp:
+def make_app(
+    site_path: str | os.PathLike[str], *, read_only: bool = False, welcome: str | None = None
+) -> TripwiseApp:
     """Open a site file for editing (or read-only) and build the app on it.
 
     Raises ``model.storage.codec.SiteLoadError`` when the file cannot be used.  When the
@@ -235,5 +251,5 @@ def make_app(site_path: str | os.PathLike[str], *, read_only: bool = False) -> T
     try:
         session = EditSession.open(path, read_only=read_only)
     except LockHeld as exc:
-        return TripwiseApp(path, None, lock_message=str(exc))
-    return TripwiseApp(path, session)
+        return TripwiseApp(path, None, lock_message=str(exc), welcome=welcome)
+    return TripwiseApp(path, session, welcome=welcome)

@@ -8,13 +8,25 @@ from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Vertical
 from textual.widgets import DataTable, Static
+from textual.widgets.data_table import ColumnKey
 
-from model.rules.bands import fmt_value
-from model.rules.findings import CAUTION
 from model.site.history import visit_ids
 from model.site.models import SiteFile
-from model.visits.compare import CompareError, VisitComparison, change_text, compare_visits
+from model.visits.compare import CompareError, VisitComparison, compare_visits
+from model.visits.compare_words import device_heading, finding_groups, finding_text, value_row
+from tui.format import CAUTION_SHORT, SEVERITY_MARK
 from tui.screens.closing import Dialog
+from tui.themes import tone
+
+#: The table's columns (key, heading): a device heads its tests, then both values.
+COLUMNS: tuple[tuple[str, str], ...] = (
+    ("test", "device · test"),
+    ("from", "earlier"),
+    ("to", "later"),
+    ("change", "change"),
+)
+#: Widths of the value columns: 'did not trip', '+132 ms (+73 %)', 'now did not trip'.
+VALUE_WIDTHS: dict[str, int] = {"from": 12, "to": 12, "change": 16}
 
 
 class CompareScreen(Dialog[None]):
@@ -44,15 +56,35 @@ class CompareScreen(Dialog[None]):
             yield DataTable(id="compare-readings", zebra_stripes=True, cursor_type="row")
             yield Static("", id="compare-findings", markup=False)
             yield Static(
-                f"Caution: {CAUTION}   [ / ]: earlier / later pair of visits · Esc: close",
+                f"{CAUTION_SHORT}  [ ]: earlier / later pair · Esc: close",
                 id="compare-caution",
                 markup=False,
             )
 
     def on_mount(self) -> None:
         table = self.query_one("#compare-readings", DataTable)
-        table.add_columns("device", "value", "from", "to", "change")
+        for key, title in COLUMNS:
+            table.add_column(title, key=key)
         self._compare()
+
+    def on_resize(self) -> None:
+        self._fit_columns()
+
+    def _fit_columns(self) -> None:
+        """The values keep their width; the device and test column takes what is left,
+        so the change column is always on screen (80 columns and up)."""
+        table = self.query_one("#compare-readings", DataTable)
+        if ColumnKey("test") not in table.columns:
+            return  # not set up yet
+        width = table.size.width or self.app.size.width - 6
+        fixed = sum(VALUE_WIDTHS.values())
+        # each column has one cell of padding each side; two more for the scroll bar
+        first = max(12, width - fixed - 2 * len(COLUMNS) - 2)
+        for key, w in (("test", first), *VALUE_WIDTHS.items()):
+            column = table.columns[ColumnKey(key)]
+            column.auto_width = False
+            column.width = w
+        table.refresh()
 
     @work(thread=True, exclusive=True)
     def _compare(self) -> None:
@@ -73,34 +105,29 @@ class CompareScreen(Dialog[None]):
         table = self.query_one("#compare-readings", DataTable)
         table.clear()
         for d in cmp.devices:
-            if d.presence == "neither":
-                table.add_row(
-                    Text(f"{d.label} ({d.device})"), "", "", "", "not tested on either visit"
-                )
-                continue
-            where = {"added": " (later only)", "removed": " (earlier only)"}.get(d.presence, "")
-            first = True
+            heading = Text(device_heading(d), style="bold", overflow="ellipsis", no_wrap=True)
+            table.add_row(heading, "", "", "", key=d.device)
             for v in d.values:
-                name = f"{d.label} ({d.device}){where}" if first else ""
-                first = False
+                r = value_row(d.device, v)
                 table.add_row(
-                    Text(name),
-                    Text(v.key),
-                    Text(fmt_value(v.key, v.old)),
-                    Text(fmt_value(v.key, v.new)),
-                    Text(change_text(v)),
+                    Text(f"  {r.test}", overflow="ellipsis", no_wrap=True),
+                    Text(r.old, overflow="ellipsis", no_wrap=True),
+                    Text(r.new, overflow="ellipsis", no_wrap=True),
+                    Text(r.change, overflow="ellipsis", no_wrap=True),
                     key=f"{d.device}:{v.key}",
                 )
-        parts = []
-        for title, fs in (
-            ("New findings", cmp.findings_new),
-            ("Findings gone", cmp.findings_gone),
-            ("Unchanged", cmp.findings_unchanged),
-        ):
-            parts.append(f"{title}: {len(fs)}")
-            if title != "Unchanged":
-                parts.extend(f"  {f.severity.upper()} {f.rule} ({', '.join(f.nodes)})" for f in fs)
-        self.query_one("#compare-findings", Static).update("\n".join(parts))
+        self._fit_columns()
+        text = Text()
+        for title, fs in finding_groups(cmp):
+            text.append(f"{title}: {len(fs)}\n", style="bold")
+            if title == "Findings unchanged":
+                continue
+            for f in fs:
+                mark, style = SEVERITY_MARK[f.severity]
+                text.append(f" {mark} {f.severity:<11} ", style=tone(style))
+                text.append(f"{finding_text(cmp, f)}\n")
+        text.rstrip()
+        self.query_one("#compare-findings", Static).update(text)
 
     def action_step(self, delta: int) -> None:
         """Move both visits one visit earlier (-1) or later (+1) in the site's history."""

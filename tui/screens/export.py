@@ -9,7 +9,8 @@ from textual import on, work
 from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Horizontal, Vertical, VerticalScroll
-from textual.widgets import Button, Input, Label, Static
+from textual.timer import Timer
+from textual.widgets import Button, Input, Label, LoadingIndicator, Static
 
 from model.reports.heading import STATEMENT
 from model.reports.writer import (
@@ -62,6 +63,8 @@ class ExportScreen(Dialog[Path | None]):
         self._last_auto = ""
         self._confirm: Path | None = None
         self._busy = False
+        self._busy_timer: Timer | None = None
+        self._busy_s = 0
 
     def compose(self) -> ComposeResult:
         with Vertical(id="export-box"):
@@ -85,6 +88,7 @@ class ExportScreen(Dialog[Path | None]):
                     # select_on_focus off: a key typed on arrival must not wipe the path
                     yield Input(id="export-target", compact=True, select_on_focus=False)
                 yield Static("", id="export-status", markup=False)
+                yield LoadingIndicator(id="export-busy")
                 yield Static(STATEMENT, id="export-statement", markup=False)
             yield Static(KEYS_HINT, id="export-keys", markup=False)
             with Horizontal(id="export-buttons"):
@@ -197,10 +201,27 @@ class ExportScreen(Dialog[Path | None]):
                 )
                 return
             force = True
-        self._busy = True
+        self._set_busy(True, target)
         self.query_one("#export-write", Button).disabled = True
-        self._status(f"Writing {target.name}…")
         self._write(target, force)
+
+    def _set_busy(self, busy: bool, target: Path | None = None) -> None:
+        """While a document is written: a moving indicator and the seconds so far."""
+        self._busy = busy
+        self.query_one("#export-busy").display = busy
+        if self._busy_timer is not None:
+            self._busy_timer.stop()
+            self._busy_timer = None
+        if busy and target is not None:
+            self._busy_s = 0
+            name = target.name
+
+            def tick() -> None:
+                self._busy_s += 1
+                self._status(f"Writing {name}… {self._busy_s} s (a large site takes a while)")
+
+            self._status(f"Writing {name}…")
+            self._busy_timer = self.set_interval(1.0, tick)
 
     @work(exclusive=True, group="export")
     async def _write(self, target: Path, force: bool) -> None:
@@ -216,11 +237,12 @@ class ExportScreen(Dialog[Path | None]):
         except OSError as exc:
             self._failed(f"{target}: {exc.strerror or exc}")
             return
+        self._set_busy(False)
         self.app.notify(f"{KIND_TITLE[kind]} written to {path}", title="Export")
         self.dismiss(path)
 
     def _failed(self, message: str) -> None:
-        self._busy = False
+        self._set_busy(False)
         self._confirm = None
         button = self.query_one("#export-write", Button)
         button.disabled = False

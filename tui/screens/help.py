@@ -18,6 +18,7 @@ from textual.containers import Vertical, VerticalScroll
 from textual.widgets import Label, Static
 
 from tui.screens.closing import Dialog
+from tui.themes import tone
 
 #: Keys read as typing, not bindings: (where, keys, what).
 TYPED_KEYS: list[tuple[str, str, str]] = [
@@ -88,8 +89,8 @@ class HelpScreen(Dialog[None]):
 
     def compose(self) -> ComposeResult:
         table = Table(box=None, expand=True, show_header=True, header_style="bold")
-        table.add_column("where", style="#8fa7b3", no_wrap=True)
-        table.add_column("keys", style="bold #d9c28a", no_wrap=True)
+        table.add_column("where", style=tone("$tw-muted"), no_wrap=True)
+        table.add_column("keys", style=tone("bold $tw-value"), no_wrap=True)
         table.add_column("what it does")
         for where, keys, what in key_rows(self.app):
             table.add_row(where, keys, what)
@@ -97,7 +98,7 @@ class HelpScreen(Dialog[None]):
             yield Label("Keys", classes="dialog-title", markup=False)
             with VerticalScroll():
                 yield Static(table, markup=False)
-            yield Static(Text("Esc closes", style="#8fa7b3"), markup=False)
+            yield Static(Text("Esc closes", style=tone("$tw-muted")), markup=False)
 
     def action_close(self) -> None:
         self.dismiss(None)

@@ -55,6 +55,12 @@ class MainScreen(Screen[None]):
         if view.analysis is not None:
             self.findings.show(view.analysis, view.index)
 
+    def retone(self) -> None:
+        """The theme changed: redraw what was coloured when it was built."""
+        if site_view(self).has_site:
+            self.show_site(keep=None)
+        self.query_one(KeyBar).refresh_keys()
+
     def show_analysis(self) -> None:
         """A new analysis arrived: marks, findings, details."""
         view = site_view(self)

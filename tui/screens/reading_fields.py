@@ -12,6 +12,7 @@ from model.site.fields import field_choices
 from model.site.models import Reading, Visit
 from model.site.terms import TEST_NAMES
 from tui.format import node_summary, node_title
+from tui.themes import tone
 
 #: Each field of the pad: (name, kind, title), in the order of model.rules.entry.ENTRY_FIELDS.
 PAD_FIELDS: list[tuple[str, str, str]] = [
@@ -50,8 +51,8 @@ FLAG_WORDS: dict[str, str] = {
     "reading.test-not-applicable": "not for this type",
 }
 
-OK = "#7bd88f"
-BAD = "bold #ff4d5e"
+OK = "$tw-ok"
+BAD = "bold $tw-bad"
 
 
 def previous_text(prev: tuple[Visit, Reading] | None, name: str, waveform: str) -> Text:
@@ -63,7 +64,7 @@ def previous_text(prev: tuple[Visit, Reading] | None, name: str, waveform: str) 
     value = None if results is None else getattr(results, name)
     if value is None:
         return Text()
-    return Text(f"  was {fmt_value(name, value)}", style="#8fa7b3")
+    return Text(f"  was {fmt_value(name, value)}", style=tone("$tw-muted"))
 
 
 def header_text(
@@ -82,9 +83,9 @@ def header_text(
     left = sum(1 for d in rcds if is_untested(visit, d))
     t = Text(no_wrap=True, overflow="ellipsis")
     t.append(node_title(node), style="bold")
-    t.append(f"  {node.kind} {node_summary(node)}", style="#d9c28a")
-    t.append(f"  ·  {idx.path_text(device_id)}", style="#8fa7b3")
-    t2 = Text(no_wrap=True, overflow="ellipsis", style="#8fa7b3")
+    t.append(f"  {node.kind} {node_summary(node)}", style=tone("$tw-value"))
+    t.append(f"  ·  {idx.path_text(device_id)}", style=tone("$tw-muted"))
+    t2 = Text(no_wrap=True, overflow="ellipsis", style=tone("$tw-muted"))
     pos = rcds.index(device_id) + 1 if device_id in rcds else 0
     t2.append(f"device {pos} of {len(rcds)} · {left} untested")
     reading = None
@@ -94,8 +95,8 @@ def header_text(
         if visit.inspector:
             t2.append(f" ({visit.inspector})")
     t2.append(f" · rules {view.site.site.rules}")
-    t3 = Text(no_wrap=True, overflow="ellipsis", style="#8fa7b3")
-    t3.append(f"{page} test current", style="bold #d9c28a")
+    t3 = Text(no_wrap=True, overflow="ellipsis", style=tone("$tw-muted"))
+    t3.append(f"{page} test current", style=tone("bold $tw-value"))
     others = [r.waveform for r in reading.result_sets()] if reading is not None else []
     others = [w for w in others if w != page]
     if others:

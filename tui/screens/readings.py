@@ -45,6 +45,7 @@ from tui.screens.reading_fields import (
     header_text,
     previous_text,
 )
+from tui.themes import tone
 from tui.widgets.caution_bar import CautionBar
 from tui.widgets.key_bar import KeyBar
 from tui.widgets.reading_pad import ReadingPad
@@ -189,13 +190,13 @@ class ReadingScreen(ClosesOnce[str]):
         self.verdicts[name] = v.verdict
         text = Text(no_wrap=True, overflow="ellipsis")
         if v.mark == "unreadable":
-            text.append(f"✖ {v.verdict}", style=BAD)
+            text.append(f"✖ {v.verdict}", style=tone(BAD))
         elif v.mark == "flagged" and v.flag is not None:
-            text.append(f"✖ {FLAG_WORDS.get(v.flag, v.flag)}", style=BAD)
+            text.append(f"✖ {FLAG_WORDS.get(v.flag, v.flag)}", style=tone(BAD))
         elif v.mark == "in band":
-            text.append("✓ in band" if name != "button" else f"✓ {values[name]}", style=OK)
+            text.append("✓ in band" if name != "button" else f"✓ {values[name]}", style=tone(OK))
         elif v.mark == "recorded":
-            text = Text("· recorded", style="#8fa7b3")
+            text = Text("· recorded", style=tone("$tw-muted"))
         text.append_text(previous_text(self.previous, name, chosen_waveform(values)))
         self._verdict_text[name] = text
         self._show_status()
@@ -206,7 +207,7 @@ class ReadingScreen(ClosesOnce[str]):
             return
         name = self.pad.current
         text = self.verdicts.get(name, "")
-        style = BAD if self.flags.get(name) else "#8fa7b3"
+        style = tone(BAD if self.flags.get(name) else "$tw-muted")
         self.query_one("#rd-status", Static).update(
             Text(f"{self.pad.titles.get(name, name).strip()}: {text}" if text else "", style=style)
         )
@@ -316,7 +317,7 @@ class ReadingScreen(ClosesOnce[str]):
     def _refuse(self, field: str, message: str) -> None:
         self.flags[field] = None
         self.verdicts[field] = message
-        self._verdict_text[field] = Text(f"✖ not recorded: {message}", style=BAD)
+        self._verdict_text[field] = Text(f"✖ not recorded: {message}", style=tone(BAD))
         self.pad.refresh()
         self.app.bell()
 

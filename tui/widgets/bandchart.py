@@ -20,6 +20,7 @@ import math
 
 from rich.text import Text
 from textual.app import ComposeResult
+from textual.color import Color
 from textual.reactive import reactive
 from textual.widget import Widget
 from textual.widgets import Static
@@ -29,18 +30,21 @@ from textual_plotext.plot import Plot
 from model.reports.charts import PairChart
 from model.rules.findings import fmt_ma
 from model.site.terms import DID_NOT_TRIP
+from tui.themes import tone
 
-UP_RGB = (232, 163, 61)
-DOWN_RGB = (86, 182, 226)
-SHADE_RGB = (120, 52, 60)
-FAULT_RGB = (140, 140, 140)
+#: The chart's colours: theme variables (tui/themes.py), read when a chart is drawn.
+UP = "$tw-chart-up"
+DOWN = "$tw-chart-down"
+SHADE = "$tw-chart-shade"
+FAULT = "$tw-chart-fault"
 
 #: The top edge sits this factor above the largest time shown; it stands for ∞.
 TOP_FACTOR = 1.6
 
 
-def _hex(rgb: tuple[int, int, int]) -> str:
-    return "#{:02x}{:02x}{:02x}".format(*rgb)
+def _rgb(variable: str) -> tuple[int, int, int]:
+    """A theme colour as plotext takes it."""
+    return Color.parse(tone(variable)).rgb
 
 
 def draw_pair(plt: Plot, chart: PairChart) -> None:
@@ -57,24 +61,25 @@ def draw_pair(plt: Plot, chart: PairChart) -> None:
         return log(min(max(float(value), t_lo), top))
 
     xs = [log(c) for c in chart.currents_ma]
+    up_rgb, down_rgb, shade_rgb = _rgb(UP), _rgb(DOWN), _rgb(SHADE)
     plt.clear_data()
     plt.clear_figure()
     for lo, hi in chart.ranges:
         a, b = max(lo, x_lo), min(hi, x_hi)
         if b > a:
             plt.plot(
-                [log(a), log(b)], [log(top), log(top)], fillx=True, marker="░", color=SHADE_RGB
+                [log(a), log(b)], [log(top), log(top)], fillx=True, marker="░", color=shade_rgb
             )
     if chart.i_max_ma is not None and x_lo < chart.i_max_ma < x_hi:
-        plt.vline(log(chart.i_max_ma), FAULT_RGB)
+        plt.vline(log(chart.i_max_ma), _rgb(FAULT))
     for mins, maxs, rgb in (
-        (chart.up_min, chart.up_max, UP_RGB),
-        (chart.down_min, chart.down_max, DOWN_RGB),
+        (chart.up_min, chart.up_max, up_rgb),
+        (chart.down_min, chart.down_max, down_rgb),
     ):
         if any(v for v in mins if v is not None):  # a general device has no minimum
             plt.plot(xs, [ty(v) for v in mins], marker="dot", color=rgb)
         plt.plot(xs, [ty(v) for v in maxs], marker="braille", color=rgb)
-    for points, mark, rgb in ((chart.up_points, "■", UP_RGB), (chart.down_points, "●", DOWN_RGB)):
+    for points, mark, rgb in ((chart.up_points, "■", up_rgb), (chart.down_points, "●", down_rgb)):
         timed = [(c, t) for c, t, _ in points if t != DID_NOT_TRIP]
         silent = [c for c, t, _ in points if t == DID_NOT_TRIP]
         if timed:
@@ -97,7 +102,7 @@ def draw_pair(plt: Plot, chart: PairChart) -> None:
 
 def legend(chart: PairChart) -> Text:
     """The key to the chart, in the chart's colours."""
-    up, down = _hex(UP_RGB), _hex(DOWN_RGB)
+    up, down = tone(UP), tone(DOWN)
     text = Text()
     text.append("━ ", style=up)
     text.append(f"upstream {chart.up_label}   ")
@@ -105,7 +110,7 @@ def legend(chart: PairChart) -> Text:
     text.append(f"downstream {chart.down_label}")
     if chart.ranges:
         text.append("   ")
-        text.append("░", style=_hex(SHADE_RGB))
+        text.append("░", style=tone(SHADE))
         text.append(" selectivity not guaranteed")
     text.append("\nsolid max break · dotted min non-actuating · ∞ top edge · ")
     text.append("■", style=up)
@@ -117,7 +122,7 @@ def legend(chart: PairChart) -> Text:
     lo, hi = chart.current_span_ma
     if chart.i_max_ma is not None and lo < chart.i_max_ma < hi:
         text.append(" · ")
-        text.append("│", style=_hex(FAULT_RGB))
+        text.append("│", style=tone(FAULT))
         text.append(f" largest fault {fmt_ma(chart.i_max_ma)}")
     return text
 

@@ -10,11 +10,18 @@ from textual.app import ComposeResult
 from textual.binding import Binding
 from textual.containers import Horizontal, Vertical
 from textual.message import Message
-from textual.widgets import DataTable, Static
+from textual.timer import Timer
+from textual.widgets import DataTable, LoadingIndicator, Static
 
-from model.rules.findings import SEVERITIES, Analysis, Finding
+from model.rules.findings import SEVERITIES, SEVERITY_RANK, Analysis, Finding
 from model.site.tree import SiteIndex
 from tui.format import SEVERITY_MARK
+from tui.themes import tone
+
+#: Cells of the message column (a longer message is cut; the node's details show it all).
+MESSAGE_W = 240
+#: Seconds a check may run before the findings show a loading indicator.
+LOADING_AFTER_S = 0.4
 
 
 class FindingsTable(DataTable[Text]):
@@ -23,6 +30,7 @@ class FindingsTable(DataTable[Text]):
     BINDINGS = [
         Binding("enter", "jump", "Go to node"),
         Binding("1", "filter('severity')", "Severity filter"),
+        Binding("exclamation_mark", "filter('or-worse')", "Only / or worse"),
         Binding("2", "filter('board')", "Board filter"),
     ]
 
@@ -70,14 +78,21 @@ class FindingsPanel(Vertical):
         self._index: SiteIndex | None = None
         #: The filters now: a severity and a board id, or None for all.
         self.severity: str | None = None
+        #: With a severity: True shows it and every worse one, False that one only.
+        self.or_worse = False
         self.board: str | None = None
         self._boards: list[str] = []
+        #: True while the checks run (the count says so; a long run shows an indicator).
+        self.checking = False
+        self._count_text = ""
+        self._loading_timer: Timer | None = None
 
     def compose(self) -> ComposeResult:
         with Horizontal(id="findings-bar"):
             yield Static("Findings", id="findings-title", markup=False)
             yield Static("", id="filter-severity", classes="filter-chip", markup=False)
             yield Static("", id="filter-board", classes="filter-chip", markup=False)
+            yield LoadingIndicator(id="findings-busy")
             yield Static("", id="findings-count", markup=False)
         table = FindingsTable(id="findings-table", cursor_type="row", zebra_stripes=True)
         yield table
@@ -88,7 +103,8 @@ class FindingsPanel(Vertical):
         table.add_column("severity", key="severity", width=11)
         table.add_column("board", key="board", width=14)
         table.add_column("node", key="node", width=16)
-        table.add_column("finding", key="message")
+        # a fixed width: the table never waits on its own sizing to show a message in full
+        table.add_column("finding", key="message", width=MESSAGE_W)
 
     @property
     def shown(self) -> list[Finding]:
@@ -105,8 +121,14 @@ class FindingsPanel(Vertical):
         self._refill()
 
     def cycle_filter(self, which: str) -> None:
-        """Step a filter to its next value (all, then each severity or board)."""
-        if which == "severity":
+        """Step a filter to its next value (all, then each severity or board).
+
+        ``or-worse`` switches the severity filter between "this one only" and
+        "this or worse" (kept while the severity steps on).
+        """
+        if which == "or-worse":
+            self.or_worse = not self.or_worse
+        elif which == "severity":
             order: list[str | None] = [None, *SEVERITIES]
             self.severity = order[(order.index(self.severity) + 1) % len(order)]
         else:
@@ -120,13 +142,28 @@ class FindingsPanel(Vertical):
         if widget is not None and widget.id in ("filter-severity", "filter-board"):
             self.cycle_filter(widget.id.removeprefix("filter-"))
 
+    def severity_words(self) -> str:
+        """The severity filter in words: 'all', 'required only', 'required or worse'."""
+        sev = self.severity
+        if sev is None:
+            return "all"
+        if sev == SEVERITIES[0]:
+            return sev  # nothing is worse: both modes show the same
+        return f"{sev} or worse" if self.or_worse else f"{sev} only"
+
+    def _passes(self, f: Finding) -> bool:
+        sev = self.severity
+        if sev is not None:
+            if self.or_worse:
+                if SEVERITY_RANK[f.severity] > SEVERITY_RANK[sev]:
+                    return False
+            elif f.severity != sev:
+                return False
+        return self.board is None or f.board == self.board
+
     def _refill(self) -> None:
-        sev, board = self.severity, self.board
-        shown = [
-            f
-            for f in self._findings
-            if (sev is None or f.severity == sev) and (board is None or f.board == board)
-        ]
+        board = self.board
+        shown = [f for f in self._findings if self._passes(f)]
         self._shown = shown
         table = self.query_one(FindingsTable)
         row = table.cursor_row
@@ -134,6 +171,7 @@ class FindingsPanel(Vertical):
         idx = self._index
         for i, f in enumerate(shown):
             mark, style = SEVERITY_MARK[f.severity]
+            style = tone(style)
             node = f.nodes[0] if f.nodes else ""
             node_text = idx.label(node) if idx is not None and node in idx.by_id else node
             board_text = idx.label(f.board) if idx is not None and f.board in idx.by_id else f.board
@@ -148,13 +186,36 @@ class FindingsPanel(Vertical):
         if shown:
             table.move_cursor(row=min(max(row, 0), len(shown) - 1))
         board_name = idx.label(board) if idx is not None and board in idx.by_id else board
-        self.query_one("#filter-severity", Static).update(f"1 severity: {sev or 'all'}")
+        self.query_one("#filter-severity", Static).update(f"1 ! severity: {self.severity_words()}")
         self.query_one("#filter-board", Static).update(f"2 board: {board_name or 'all'}")
         total = len(self._findings)
-        count = f"{len(shown)} of {total}" if len(shown) != total else f"{total}"
-        self.query_one("#findings-count", Static).update(count)
+        self._count_text = f"{len(shown)} of {total}" if len(shown) != total else f"{total}"
+        self._show_count()
         # a short list leaves the rest of a tall screen to the tree (border, bar, header)
         self.styles.max_height = max(6, len(shown) + 5)
+
+    def set_checking(self, on: bool) -> None:
+        """The checks started (True) or finished (False).  A run longer than
+        :data:`LOADING_AFTER_S` shows a moving indicator beside the count, so a large
+        site's check never looks like a frozen screen (the table stays as it was)."""
+        self.checking = on
+        if self._loading_timer is not None:
+            self._loading_timer.stop()
+            self._loading_timer = None
+        if on:
+            self._loading_timer = self.set_timer(LOADING_AFTER_S, self._long_check)
+        else:
+            self.query_one("#findings-busy").display = False
+        self._show_count()
+
+    def _long_check(self) -> None:
+        self._loading_timer = None
+        if self.checking:
+            self.query_one("#findings-busy").display = True
+
+    def _show_count(self) -> None:
+        text = f"checking…  {self._count_text}" if self.checking else self._count_text
+        self.query_one("#findings-count", Static).update(text)
 
     @on(DataTable.RowHighlighted, "#findings-table")
     def _row_highlighted(self, event: DataTable.RowHighlighted) -> None:

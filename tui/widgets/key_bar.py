@@ -16,3 +16,7 @@ class KeyBar(Footer):
         kwargs.setdefault("compact", True)
         kwargs.setdefault("show_command_palette", True)
         super().__init__(**kwargs)
+
+    def refresh_keys(self) -> None:
+        """Redraw (after a change of theme)."""
+        self.refresh(recompose=True)

@@ -16,6 +16,7 @@ from model.site.nodes import NODE_CLASSES
 from model.site.terms import RCD_KINDS, TEST_NAMES
 from model.site.tree import SiteIndex
 from tui.format import SEVERITY_MARK, node_summary, node_title
+from tui.themes import tone
 
 TEST_TITLES = {
     "half_0": "½× 0°",
@@ -63,10 +64,10 @@ class NodeDetails(Static):
         node = idx.by_id[node_id]
         t = Text()
         t.append(node_title(node), style="bold")
-        t.append(f"  {node.kind} · {node.id}\n", style="#8fa7b3")
+        t.append(f"  {node.kind} · {node.id}\n", style=tone("$tw-muted"))
         if node.kind != "origin":
-            t.append(f"{node_summary(node)}\n", style="#d9c28a")
-        t.append(f"{idx.path_text(node_id)}\n", style="#8fa7b3")
+            t.append(f"{node_summary(node)}\n", style=tone("$tw-value"))
+        t.append(f"{idx.path_text(node_id)}\n", style=tone("$tw-muted"))
         self._values(t, node)
         if analysis is not None:
             mine = [f for f in analysis.findings if node_id in f.nodes]
@@ -74,6 +75,7 @@ class NodeDetails(Static):
                 t.append("\nFindings\n", style="bold underline")
                 for f in mine:
                     mark, style = SEVERITY_MARK[f.severity]
+                    style = tone(style)
                     t.append(f"{mark} ", style=style)
                     t.append(f"{f.message}\n")
         if node.kind in RCD_KINDS:
@@ -87,20 +89,23 @@ class NodeDetails(Static):
     def show_finding(self, idx: SiteIndex, f: Finding) -> None:
         """One finding in full: what, where, what to do, and what it rests on."""
         mark, style = SEVERITY_MARK[f.severity]
+        style = tone(style)
         t = Text()
         t.append(f"{mark} {f.severity}", style=style)
-        t.append(f"  {f.rule}\n", style="#8fa7b3")
+        t.append(f"  {f.rule}\n", style=tone("$tw-muted"))
         where = ", ".join(idx.path_text(n) for n in f.nodes if n in idx.by_id)
         if where:
-            t.append(f"{where}\n", style="#8fa7b3")
+            t.append(f"{where}\n", style=tone("$tw-muted"))
         t.append(f"\n{f.message}\n")
         if f.measured or f.band:
-            t.append(f"measured {f.measured or '—'}; band {f.band or '—'}\n", style="#d9c28a")
+            t.append(
+                f"measured {f.measured or '—'}; band {f.band or '—'}\n", style=tone("$tw-value")
+            )
         t.append("\nWhat to do\n", style="bold underline")
         t.append(f"{f.action}\n")
         basis = "" if f.basis == "standard" else f" ({f.basis}: advice, not a requirement)"
-        t.append(f"\nRests on: {f.source}{basis}\n", style="#8fa7b3")
-        t.append("Enter: go to the node\n", style="#8fa7b3")
+        t.append(f"\nRests on: {f.source}{basis}\n", style=tone("$tw-muted"))
+        t.append("Enter: go to the node\n", style=tone("$tw-muted"))
         self.update(t)
 
     def _values(self, t: Text, node: Any) -> None:
@@ -116,18 +121,18 @@ class NodeDetails(Static):
                 else ("yes" if v is True else f"{v:g}" if isinstance(v, float) else str(v))
             )
             unit = f" {spec.unit}" if spec.unit else ""
-            t.append(f"{spec.title}: ", style="#8fa7b3")
+            t.append(f"{spec.title}: ", style=tone("$tw-muted"))
             t.append(f"{shown}{unit}\n")
 
     def _readings(self, t: Text, node: Any, visit: Visit | None, rules: str) -> None:
         t.append("\nReadings", style="bold underline")
         if visit is None:
-            t.append("  (no visit yet; press r to start one)\n", style="#8fa7b3")
+            t.append("  (no visit yet; press r to start one)\n", style=tone("$tw-muted"))
             return
-        t.append(f"  visit {visit.date}\n", style="#8fa7b3")
+        t.append(f"  visit {visit.date}\n", style=tone("$tw-muted"))
         reading = visit.readings.get(node.id)
         if reading is None:
-            t.append("not tested yet (press r)\n", style="#5ec8e5")
+            t.append("not tested yet (press r)\n", style=tone("$tw-investigate"))
             return
         if reading.not_tested is not None:
             t.append(f"not tested: {reading.not_tested}\n")
@@ -139,12 +144,18 @@ class NodeDetails(Static):
                 continue
             j = verdicts[test]
             t.append(f"{TEST_TITLES[test]:<9}{fmt_result(value):<14}")
-            t.append("✖ " + j.text if j.flag else "✓", style="#ff9a3c" if j.flag else "#7bd88f")
+            t.append(
+                "✖ " + j.text if j.flag else "✓",
+                style=tone("$tw-required") if j.flag else tone("$tw-ok"),
+            )
             t.append("\n")
         if reading.ramp_ma is not None:
             j = verdicts["ramp_ma"]
             t.append(f"{'ramp':<9}{reading.ramp_ma:g} mA{'':<8}")
-            t.append("✖ " + j.text if j.flag else "✓", style="#ff9a3c" if j.flag else "#7bd88f")
+            t.append(
+                "✖ " + j.text if j.flag else "✓",
+                style=tone("$tw-required") if j.flag else tone("$tw-ok"),
+            )
             t.append("\n")
         if reading.button is not None:
             t.append(f"{'button':<9}{reading.button}\n")

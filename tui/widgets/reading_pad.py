@@ -18,6 +18,7 @@ from textual.reactive import reactive
 from textual.widget import Widget
 
 from model.site.terms import DID_NOT_TRIP
+from tui.themes import tone
 
 #: The key that records "did not trip" in a time field.
 DID_NOT_TRIP_KEY = "n"
@@ -88,9 +89,12 @@ class ReadingPad(Widget, can_focus=True):
             here = name == self.current and self.has_focus
             need, band, verdict = self._form.row_text(name)
             line = Text(no_wrap=True)
-            line.append("▸" if name == self.current else " ", style="bold #e0a526")
-            line.append(f"{title:<{title_w}}", style="bold" if here else "#9fb4bf")
-            line.append(f"{need:<{need_w}}", style="bold #5ec8e5" if need == "req" else "#6b7c86")
+            line.append("▸" if name == self.current else " ", style=tone("bold $accent"))
+            line.append(f"{title:<{title_w}}", style="bold" if here else tone("$tw-field"))
+            line.append(
+                f"{need:<{need_w}}",
+                style=tone("bold $tw-investigate") if need == "req" else tone("$tw-quiet"),
+            )
             value = self.values[name]
             if kind == "choice":
                 shown = " ".join(
@@ -101,10 +105,11 @@ class ReadingPad(Widget, can_focus=True):
                 typed_number = value and value != DID_NOT_TRIP
                 shown = value + ("▏" if here else (unit if typed_number else ""))
             line.append(
-                shown[: value_w - 1].ljust(value_w), style="on #3a3220" if here else "on #1e2a32"
+                shown[: value_w - 1].ljust(value_w),
+                style=tone("on $tw-cell-here") if here else tone("on $tw-cell"),
             )
             line.append(" ")
-            line.append(f"{band[: band_w - 1]:<{band_w}}", style="#d9c28a")
+            line.append(f"{band[: band_w - 1]:<{band_w}}", style=tone("$tw-value"))
             line.append_text(verdict)
             line.truncate(width, overflow="ellipsis")
             lines.append(line)

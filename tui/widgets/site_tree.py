@@ -10,6 +10,7 @@ from textual.widgets.tree import TreeNode
 
 from model.site.tree import SiteIndex
 from tui.format import NO_MARK, SEVERITY_MARK, node_summary, node_title
+from tui.themes import tone
 
 
 class SiteTree(Tree[str]):
@@ -37,12 +38,16 @@ class SiteTree(Tree[str]):
     def node_label(self, idx: SiteIndex, node_id: str) -> Text:
         node = idx.by_id[node_id]
         mark, style = SEVERITY_MARK.get(self._worst.get(node_id, ""), NO_MARK)
+        style = tone(style)
         text = Text(no_wrap=True, overflow="ellipsis")
         text.append(mark, style=style)
         text.append(" ")
+        way = getattr(node, "way", "")
+        if way:  # the board's way, as numbered on site
+            text.append(f"[{way}] ", style=tone("bold $tw-value"))
         text.append(node_title(node), style="bold" if node.kind in ("board", "origin") else "")
         text.append("  ")
-        text.append(node_summary(node), style="#8fa7b3")
+        text.append(node_summary(node), style=tone("$tw-muted"))
         return text
 
     def get_label_width(self, node: TreeNode[str]) -> int:

@@ -1,4 +1,4 @@
-"""The strip along the top: product, site name, file mode and save state."""
+"""The strip along the top: product, site name and file, file mode and save state."""
 
 from __future__ import annotations
 
@@ -30,7 +30,11 @@ class TopBar(Horizontal):
         self.watch(self.app, "save_message", self._show_save)
 
     def _show_name(self, name: str) -> None:
-        self.query_one("#site-name", Static).update(Text(name, overflow="ellipsis", no_wrap=True))
+        text = Text(name, overflow="ellipsis", no_wrap=True)
+        path = getattr(self.app, "site_path", None)
+        if path is not None:  # which file the edits go to (a demo copy, a colleague's copy)
+            text.append(f"  {path.name}", style="not bold")
+        self.query_one("#site-name", Static).update(text)
 
     def _show_save(self, _value: str = "") -> None:
         state = str(getattr(self.app, "save_state", "saved"))

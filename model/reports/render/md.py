@@ -78,7 +78,7 @@ def remedial_md(doc: RemedialDoc) -> bytes:
         lines += [f"## {esc(g.label)}{place}", ""]
         for i in g.items:
             lines += [f"### {i.number}. {i.severity.upper()}", ""]
-            for label, where in zip(i.node_labels, i.where, strict=True):
+            for label, where in zip(i.named_nodes, i.where, strict=True):
                 lines.append(f"- **{esc(label)}**: {esc(where)}")
             for name, text, _ in i.rows("in the PDF"):
                 lines.append(f"- **{esc(name)}:** {esc(text)}")
@@ -107,7 +107,7 @@ def cell_md(c: SheetCell, unit: str = "ms") -> str:
 
 
 def _row_md(r: SheetRow) -> str:
-    device = f"**{esc(r.label)}** `{r.device_id}`"
+    device = f"**{esc(r.named)}** `{r.device_id}`"
     head = [device, esc(r.board), esc(r.type_text)]
     if not r.recorded:
         rest = ["no reading recorded on this visit"] + [""] * 9

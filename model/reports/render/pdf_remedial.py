@@ -27,7 +27,7 @@ def _draw_item(pdf: ReportPdf, i: RemedialItem, draw: bool) -> float:
     w = pdf.content_w - 4.5
     lh = 4.3
     h = 6.2
-    node_lines: list[tuple[str, str]] = list(zip(i.node_labels, i.where, strict=True))
+    node_lines: list[tuple[str, str]] = list(zip(i.named_nodes, i.where, strict=True))
     for label, where in node_lines:
         h += pdf.para_h(w, lh, label, 9.2, True)
         h += pdf.para_h(w, lh - 0.4, where, 7.8)

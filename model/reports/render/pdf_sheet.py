@@ -109,7 +109,7 @@ def _value_row(table: Table, r: SheetRow, shade: bool, span: str) -> None:
     """The device's first row: label, board, type, then every recorded value."""
     row = table.row()
     top = CellBordersLayout.NONE
-    row.cell(r.label, style=_shade(_VALUE_BOLD, shade), border=top)
+    row.cell(r.named, style=_shade(_VALUE_BOLD, shade), border=top)
     row.cell(r.board, style=_shade(_VALUE, shade), border=top)
     row.cell(r.type_text, style=_shade(_VALUE, shade), border=top)
     n_tests = len(r.tests)

@@ -60,7 +60,7 @@ def remedial_txt(doc: RemedialDoc) -> bytes:
         lines += ["", *_wrap(title), "-" * min(WIDTH, len(title))]
         for i in g.items:
             lines += ["", f"[ ] {i.number}. {i.severity.upper()}"]
-            for label, where in zip(i.node_labels, i.where, strict=True):
+            for label, where in zip(i.named_nodes, i.where, strict=True):
                 lines += _wrap(f"{label}: {where}", "      ")
             for name, text, _ in i.rows("in the PDF"):
                 lines += _wrap(text, _IND, f"      {name + ':':<11}")
@@ -98,7 +98,7 @@ def sheet_txt(doc: SheetDoc) -> bytes:
         "recorded as common practice."
     )
     for r in doc.rows:
-        lines += ["", f"{r.label} [{r.device_id}]  {r.board}  {r.type_text}"]
+        lines += ["", f"{r.named} [{r.device_id}]  {r.board}  {r.type_text}"]
         if not r.recorded:
             lines.append("    no reading recorded on this visit")
             continue

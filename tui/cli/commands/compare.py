@@ -6,7 +6,8 @@ import argparse
 import json
 import sys
 
-from model.visits.compare import CompareError, compare_text, compare_visits
+from model.visits.compare import CompareError, compare_visits
+from model.visits.compare_words import compare_text
 from tui.cli.commands.common import load_or_report
 
 

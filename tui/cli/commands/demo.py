@@ -72,10 +72,11 @@ def run(args: argparse.Namespace) -> int:
             file=sys.stderr,
         )
         return 2
-    print(f"Demo copy of the invented sample site written to {path}", file=sys.stderr)
+    written = f"Demo copy of the invented sample site written to {path}"
+    print(written, file=sys.stderr)
     from tui.cli.commands.open import open_app
 
-    return open_app(str(path))
+    return open_app(str(path), welcome=f"{written}. Your changes are saved there; q quits.")
 
 
 def _check_bundled(name: str) -> int:

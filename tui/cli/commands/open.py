@@ -15,12 +15,15 @@ def register(sub: argparse._SubParsersAction) -> None:  # type: ignore[type-arg]
     p.set_defaults(func=run)
 
 
-def open_app(path: str, *, read_only: bool = False) -> int:
-    """Run the app on a site file; exit code 2 with one line on stderr when it cannot be opened."""
+def open_app(path: str, *, read_only: bool = False, welcome: str | None = None) -> int:
+    """Run the app on a site file; exit code 2 with one line on stderr when it cannot be opened.
+
+    ``welcome`` is shown in the app as it opens (the demo says where its copy is).
+    """
     from tui.app.shell import make_app
 
     try:
-        app = make_app(path, read_only=read_only)
+        app = make_app(path, read_only=read_only, welcome=welcome)
     except SiteLoadError as exc:
         print(f"tripwise: cannot open {exc}", file=sys.stderr)
         return 2
