@@ -140,4 +140,4 @@ def test_further_waveform_values_are_compared() -> None:
     d = compare_visits(site).device("rc1")
     (v,) = [v for v in d.values if v.key == "x1_0 (half-wave)"]
     assert (v.old, v.new, v.change, v.unit) == (25.0, 30.0, 5.0, "ms")
-    assert "x1_0 (half-wave)" in compare_text(compare_visits(site))
+    assert "1 × IΔn, 0° (half-wave)" in compare_text(compare_visits(site))

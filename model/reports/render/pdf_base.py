@@ -42,6 +42,10 @@ HEAD_H = 18.0
 FOOT_H = 22.0
 
 
+#: Line breaks and tabs lay text out; they are never glyphs to stand in for.
+_LAYOUT = frozenset("\n\r\t")
+
+
 class ReportPdf(FPDF):
     """An FPDF with our fonts and the page furniture drawn once the content is laid out."""
 
@@ -70,11 +74,11 @@ class ReportPdf(FPDF):
         character the font has no glyph for would be left out of the page.
         """
         cmap = getattr(self.current_font, "cmap", None)
-        if not cmap or all(ord(c) in cmap for c in text):
+        if not cmap or all(ord(c) in cmap or c in _LAYOUT for c in text):
             return super().normalize_text(text)
         out: list[str] = []
         for c in text:
-            if ord(c) in cmap:
+            if ord(c) in cmap or c in _LAYOUT:
                 out.append(c)
             else:
                 self.missing_glyphs.add(c)
