@@ -13,6 +13,7 @@ this module does not load the PDF library.
 from __future__ import annotations
 
 import datetime as dt
+import os
 from collections.abc import Callable
 from pathlib import Path
 from typing import Any, Literal
@@ -23,7 +24,8 @@ from model.reports.sheet import build_sheet
 from model.rules.checks import analyse
 from model.rules.findings import Analysis
 from model.site.models import SiteFile
-from model.storage.files import SaveError, write_atomic
+from model.storage.files import SaveError, plain_os_error, write_atomic
+from model.storage.sidefiles import protected_reason
 
 Kind = Literal["remedial", "sheet"]
 Fmt = Literal["pdf", "md", "csv", "txt"]
@@ -113,15 +115,26 @@ def write_report(
     :func:`model.storage.files.write_atomic` (the one atomic writer; a link at
     ``out_path`` is replaced, never followed): a failure at any step leaves no partial file and
     does not touch an existing one.  Without ``force`` an existing file is
-    never replaced (:class:`ReportExists`).
+    never replaced (:class:`ReportExists`), and never, even with ``force``,
+    a site file or its backup, journal or lock (:class:`ReportError`).
     """
     out = Path(out_path)
-    if out.is_dir():
-        raise ReportError(f"{out}: is a folder; give a file name")
-    if out.exists() and not force:
-        raise ReportExists(f"{out}: already exists; use --force to replace it (nothing written)")
-    if not out.parent.is_dir():
-        raise ReportError(f"{out.parent}: no such folder")
+    refused = protected_reason(out)
+    if refused is not None:
+        raise ReportError(f"{out}: not written there: {refused}; choose another file name")
+    try:
+        if out.is_dir():
+            raise ReportError(f"{out}: is a folder; give a file name")
+        if os.path.lexists(out) and not force:
+            raise ReportExists(
+                f"{out}: already exists; use --force to replace it (nothing written)"
+            )
+        if not out.parent.is_dir():
+            raise ReportError(f"{out.parent}: no such folder")
+    except ReportError:
+        raise
+    except OSError as exc:
+        raise ReportError(f"{out}: cannot write ({plain_os_error(exc)})") from None
     data = render(site, kind, fmt, generated=generated)
     try:
         write_atomic(out, data, replace=force, backup=False, follow_links=False)

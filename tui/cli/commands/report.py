@@ -37,11 +37,21 @@ def register(sub: argparse._SubParsersAction) -> None:  # type: ignore[type-arg]
     p.set_defaults(func=run)
 
 
+def _same_file(a: Path, b: Path) -> bool:
+    try:
+        return a.exists() and a.samefile(b)
+    except OSError:
+        return False
+
+
 def run(args: argparse.Namespace) -> int:
     site = load_or_report(args.site)
     if site is None:
         return 2
     out = Path(args.out) if args.out else default_name(Path(args.site), site, args.kind, args.fmt)
+    if _same_file(out, Path(args.site)):
+        print(f"tripwise: {out}: not written there: it is the site file", file=sys.stderr)
+        return 2
     try:
         written = write_report(site, args.kind, args.fmt, out, force=args.force)
     except ReportError as exc:
