@@ -55,7 +55,8 @@ def test_bad_rows_listed_and_site_byte_identical(tmp_path: Path) -> None:
     )
     p = run_cli("import-readings", str(site), str(csv_path), "--yes")
     assert p.returncode == 2
-    err = p.stderr
+    err = p.stdout + p.stderr
+    assert len(p.stderr.strip().splitlines()) == 1  # the refusal; the problems are on stdout
     assert "row 3, column 'device': no device 'ghost'" in err
     assert "row 4, column 'x5_0 [ms]'" in err and "row 5, column 'device'" in err
     assert "3 problem(s)" in err and "nothing written" in err and "Traceback" not in err

@@ -1,8 +1,9 @@
 """``tripwise import-readings SITE CSV [--visit ID] [--yes]``: readings from a spreadsheet.
 
 The CSV is the test-sheet layout (see README).  Every row is checked first;
-with any problem each one is listed (row, column, why) and nothing is
-written.  Otherwise the preview of what changes is printed, and the changes
+with any problem the first 50 are listed on stdout (row, column, why; a
+long value cut), the rest counted, one line on stderr says so, and nothing
+is written.  Otherwise the preview of what changes is printed, and the changes
 are applied with ``--yes``, or after a "y" at the prompt when run in a
 terminal, through an editing session as the app saves (the lock, and any
 unsaved edits in the recovery journal kept).  Only a regular CSV file of at
@@ -100,11 +101,12 @@ def run(args: argparse.Namespace) -> int:
         say(f"{args.site}: {exc}")
         return 2
     except CsvImportError as exc:
+        # the list is the command's report (stdout); stderr has the one line of the refusal
         for err in exc.errors[:MAX_PROBLEMS_SHOWN]:
-            say(f"{args.csv}: {clip(err.text())}")
+            print(f"{args.csv}: {clip(err.text())}")
         more = len(exc.errors) - MAX_PROBLEMS_SHOWN
         if more > 0:
-            say(f"{args.csv}: … and {more:,} more problem(s) not listed")
+            print(f"{args.csv}: … and {more:,} more problem(s) not listed")
         say(f"{len(exc.errors):,} problem(s) in {args.csv}; nothing written to {args.site}")
         return 2
     sys.stdout.write(preview_text(plan))
