@@ -13,6 +13,7 @@ this module does not load the PDF library.
 from __future__ import annotations
 
 import datetime as dt
+import os
 import re
 import unicodedata
 from collections.abc import Callable
@@ -26,7 +27,8 @@ from model.rules.checks import analyse
 from model.rules.findings import Analysis
 from model.site.history import cut_at, find_visit, known_visits_text
 from model.site.models import SiteFile, Visit
-from model.storage.files import SaveError, write_atomic
+from model.storage.files import SaveError, plain_os_error, write_atomic
+from model.storage.sidefiles import protected_reason
 
 Kind = Literal["remedial", "sheet"]
 Fmt = Literal["pdf", "md", "csv", "txt"]
@@ -180,16 +182,27 @@ def write_report(
     :func:`model.storage.files.write_atomic` (the one atomic writer; a link at
     ``out_path`` is replaced, never followed): a failure at any step leaves no partial file and
     does not touch an existing one.  Without ``force`` an existing file is
-    never replaced (:class:`ReportExists`).
+    never replaced (:class:`ReportExists`), and never, even with ``force``,
+    a site file or its backup, journal or lock (:class:`ReportError`).
     """
     report_visit(site, visit)  # an unknown visit is refused before anything else
     out = Path(out_path)
-    if out.is_dir():
-        raise ReportError(f"{out}: is a folder; give a file name")
-    if out.exists() and not force:
-        raise ReportExists(f"{out}: already exists; use --force to replace it (nothing written)")
-    if not out.parent.is_dir():
-        raise ReportError(f"{out.parent}: no such folder")
+    refused = protected_reason(out)
+    if refused is not None:
+        raise ReportError(f"{out}: not written there: {refused}; choose another file name")
+    try:
+        if out.is_dir():
+            raise ReportError(f"{out}: is a folder; give a file name")
+        if os.path.lexists(out) and not force:
+            raise ReportExists(
+                f"{out}: already exists; use --force to replace it (nothing written)"
+            )
+        if not out.parent.is_dir():
+            raise ReportError(f"{out.parent}: no such folder")
+    except ReportError:
+        raise
+    except OSError as exc:
+        raise ReportError(f"{out}: cannot write ({plain_os_error(exc)})") from None
     data = render(site, kind, fmt, generated=generated, visit=visit)
     try:
         write_atomic(out, data, replace=force, backup=False, follow_links=False)

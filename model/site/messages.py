@@ -22,6 +22,8 @@ _VALUE_ERROR_PREFIX = "Value error, "
 #: The longest one clause of a validation message may be (a pydantic message
 #: can quote a value; the value itself is cut to 60 characters first).
 _CLAUSE_LIMIT = 200
+#: Length of the problems listed in one message; the rest are counted.
+_PROBLEMS_LIMIT = 160
 
 
 def error_text(err: Mapping[str, Any], default: str = "invalid") -> str:
@@ -119,9 +121,15 @@ def describe_validation_error(exc: ValidationError, raw: Any) -> str:
     for where, msgs in merged.items():
         text = " or ".join(msgs)
         out.append(f"{where}: {text}" if where else text)
-    if len(out) > 5:
-        out = [*out[:5], f"and {len(out) - 5} more"]
-    return "; ".join(out)
+    # the first problems whole, as many as fit in a line a terminal shows; then a count
+    shown: list[str] = []
+    for clause in out:
+        if shown and sum(len(c) + 2 for c in shown) + len(clause) > _PROBLEMS_LIMIT:
+            break
+        shown.append(clause)
+    if len(shown) < len(out):
+        shown.append(f"and {len(out) - len(shown)} more problem(s)")
+    return "; ".join(shown)
 
 
 def plain_message(err: Mapping[str, Any], label: str, unit: str, given: Any) -> str:

@@ -14,13 +14,12 @@ from __future__ import annotations
 import contextlib
 import errno
 import os
-import re
-import secrets
 import stat
 from pathlib import Path
 
 from model.site.messages import one_line
 from model.storage.codec import SiteLoadError
+from model.storage.sidefiles import side_path, temp_name
 
 #: Largest site file that is read. [bytes]
 MAX_FILE_BYTES = 50 * 1024 * 1024
@@ -38,11 +37,9 @@ _PLAIN_ERRNO = {
     errno.ENOTDIR: "a part of the path is not a folder",
     errno.EISDIR: "a folder has that name",
     errno.ENAMETOOLONG: "the name is too long",
-    errno.EFBIG: "the file is too large for this disk",
+    errno.EFBIG: "the file is too large for this disk (or the file size limit of this shell)",
+    errno.ELOOP: "a symbolic link loops, or is not followed here",
 }
-
-#: A name made by :func:`temp_name`: ``.<target name>.<pid>-<8 hex>.tmp``.
-_TEMP_NAME = re.compile(r"^\.(?P<target>.+)\.(?P<pid>\d+)-[0-9a-f]{8}\.tmp$", re.DOTALL)
 
 
 def plain_os_error(exc: OSError) -> str:
@@ -95,37 +92,79 @@ def canonical_path(path: str | os.PathLike[str]) -> Path:
     return given if real == Path(os.path.abspath(given)) else real
 
 
+def size_text(n: int) -> str:
+    """A byte count as the user reads it: ``52,428,801 bytes (50.0 MiB)``."""
+    return f"{n:,} bytes" + (f" ({n / 2**20:.1f} MiB)" if n >= 2**20 else "")
+
+
+class FileRefused(Exception):
+    """A file that is only read was refused; ``reason`` is a few plain words."""
+
+    def __init__(self, path: str | os.PathLike[str], reason: str) -> None:
+        self.path = Path(path)
+        self.reason = reason
+        super().__init__(f"{self.path}: {reason}")
+
+
+def read_regular(
+    path: str | os.PathLike[str], limit: int, *, follow_links: bool = True, what: str = "file"
+) -> bytes:
+    """The bytes of a regular file of at most ``limit`` bytes, or :class:`FileRefused`.
+
+    Folders, devices (``/dev/zero``), pipes and sockets are refused before
+    anything is read, so nothing can hang or fill the memory; with
+    ``follow_links`` False a symbolic link is refused too.
+    """
+    flags = os.O_RDONLY | os.O_NONBLOCK | getattr(os, "O_CLOEXEC", 0)
+    if not follow_links:
+        flags |= os.O_NOFOLLOW
+    try:
+        fd = os.open(path, flags)
+    except FileNotFoundError:
+        raise FileRefused(path, "no such file") from None
+    except OSError as exc:
+        if exc.errno == errno.ELOOP and not follow_links:
+            raise FileRefused(path, "is a symbolic link, not followed") from None
+        raise FileRefused(path, plain_os_error(exc)) from None
+    try:
+        st = os.fstat(fd)
+        if stat.S_ISDIR(st.st_mode):
+            raise FileRefused(path, "is a folder, not a file")
+        if not stat.S_ISREG(st.st_mode):
+            raise FileRefused(
+                path, f"is not a regular file (a device, pipe or socket); a {what} must be"
+            )
+        too_big = f"the limit is {size_text(limit)}"
+        if st.st_size > limit:
+            raise FileRefused(path, f"is {size_text(st.st_size)}; {too_big}")
+        chunks: list[bytes] = []
+        got = 0
+        while got <= limit:
+            chunk = os.read(fd, min(1 << 20, limit + 1 - got))
+            if not chunk:
+                break
+            chunks.append(chunk)
+            got += len(chunk)
+        if got > limit:
+            raise FileRefused(path, f"grew over the limit while read; {too_big}")
+        return b"".join(chunks)
+    except OSError as exc:
+        raise FileRefused(path, plain_os_error(exc)) from None
+    finally:
+        os.close(fd)
+
+
 def read_site_bytes(path: str | os.PathLike[str]) -> bytes:
     """The bytes of a site file, refusing folders, devices and files over the size limit."""
-    p = Path(path)
     try:
-        st = p.stat()
-    except FileNotFoundError:
-        raise SiteLoadError(p, "no such file") from None
-    except OSError as exc:
-        raise SiteLoadError(p, plain_os_error(exc)) from None
-    if stat.S_ISDIR(st.st_mode):
-        raise SiteLoadError(p, "is a folder, not a site file")
-    if not stat.S_ISREG(st.st_mode):
-        raise SiteLoadError(p, "is not a regular file")
-    limit_mb = MAX_FILE_BYTES // 2**20
-    too_big = f"site files are limited to {limit_mb} MB"
-    if st.st_size > MAX_FILE_BYTES:
-        raise SiteLoadError(p, f"file is {st.st_size / 2**20:.0f} MB; {too_big}")
-    try:
-        with open(p, "rb") as fh:
-            data = fh.read(MAX_FILE_BYTES + 1)
-    except OSError as exc:
-        raise SiteLoadError(p, plain_os_error(exc)) from None
-    if len(data) > MAX_FILE_BYTES:
-        raise SiteLoadError(p, f"file is over {limit_mb} MB; {too_big}")
-    return data
+        return read_regular(path, MAX_FILE_BYTES, what="site file")
+    except FileRefused as exc:
+        raise SiteLoadError(Path(path), exc.reason) from None
 
 
 def backup_path(path: str | os.PathLike[str]) -> Path:
     """Where the previous version of a site file is kept: ``<name>.bak`` beside it."""
-    p = Path(path)
-    return p.with_name(p.name + BACKUP_SUFFIX)
+    return side_path(path, BACKUP_SUFFIX)
 
 
 def fsync_dir(folder: Path) -> None:
@@ -143,20 +182,10 @@ def fsync_dir(folder: Path) -> None:
         os.close(fd)
 
 
-def temp_name(target: Path) -> Path:
-    """A fresh temporary file beside ``target`` (named after it and this process)."""
-    return target.with_name(f".{target.name}.{os.getpid()}-{secrets.token_hex(4)}.tmp")
-
-
-def temp_file_of(name: str) -> tuple[str, int] | None:
-    """For a name made by :func:`temp_name`: the target's name and the writer's process id."""
-    m = _TEMP_NAME.match(name)
-    return None if m is None else (m.group("target"), int(m.group("pid")))
-
-
 def write_new_file(tmp: Path, data: bytes, mode: int | None) -> None:
     """Create ``tmp`` (it must not exist), write all of ``data`` and sync it to disk."""
-    fd = os.open(tmp, os.O_WRONLY | os.O_CREAT | os.O_EXCL | getattr(os, "O_CLOEXEC", 0), 0o666)
+    flags = os.O_WRONLY | os.O_CREAT | os.O_EXCL | os.O_NOFOLLOW | getattr(os, "O_CLOEXEC", 0)
+    fd = os.open(tmp, flags, 0o666)
     try:
         if mode is not None:
             os.fchmod(fd, stat.S_IMODE(mode))

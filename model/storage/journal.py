@@ -32,7 +32,15 @@ from pydantic import ValidationError
 from model.site.messages import describe_validation_error
 from model.site.models import SiteFile
 from model.site.ops import Op, ReplaceSite, op_from_dict, op_to_dict
-from model.storage.files import SaveError, fsync_dir, plain_os_error, write_atomic
+from model.storage.files import (
+    FileRefused,
+    SaveError,
+    fsync_dir,
+    plain_os_error,
+    read_regular,
+    write_atomic,
+)
+from model.storage.sidefiles import fit_name, side_path
 
 #: Suffix of the journal beside a site file (``site.json.tripwise-journal``).
 JOURNAL_SUFFIX = ".tripwise-journal"
@@ -44,10 +52,13 @@ COMPACT_BYTES = 8 * 1024 * 1024
 MAX_JOURNAL_BYTES = 256 * 1024 * 1024
 
 
+#: Opening a journal to append: never through a symbolic link, never blocking on a pipe.
+_WRITE_NO_LINK = os.O_WRONLY | os.O_NOFOLLOW | os.O_NONBLOCK | getattr(os, "O_CLOEXEC", 0)
+
+
 def journal_path(site_path: str | os.PathLike[str]) -> Path:
     """The journal file of a site file."""
-    p = Path(site_path)
-    return p.with_name(p.name + JOURNAL_SUFFIX)
+    return side_path(site_path, JOURNAL_SUFFIX)
 
 
 @dataclass
@@ -63,6 +74,8 @@ class JournalContents:
     warnings: list[str] = field(default_factory=list)
     #: Bytes up to the end of the last whole line (a torn tail starts here).
     good_size: int = 0
+    #: Why the journal was not read at all (a link, a pipe, too large ...), or None.
+    refused: str | None = None
 
 
 def _header(base: str) -> bytes:
@@ -87,21 +100,16 @@ def _lines(data: bytes) -> Iterator[tuple[int, bytes, int]]:
 def read_journal(path: str | os.PathLike[str]) -> JournalContents | None:
     """Read a journal (None when there is none).  Never raises for damaged content."""
     jp = Path(path)
-    try:
-        with open(jp, "rb") as fh:
-            data = fh.read(MAX_JOURNAL_BYTES + 1)
-    except FileNotFoundError:
+    if not os.path.lexists(jp):
         return None
-    except OSError as exc:
+    try:
+        data = read_regular(jp, MAX_JOURNAL_BYTES, follow_links=False, what="recovery journal")
+    except FileRefused as exc:
         out = JournalContents(jp, None)
-        out.warnings.append(
-            f"the recovery journal {jp.name} could not be read: {plain_os_error(exc)}"
-        )
+        out.refused = exc.reason
+        out.warnings.append(f"the recovery journal {jp.name} was not read: {exc.reason}")
         return out
     out = JournalContents(jp, None)
-    if len(data) > MAX_JOURNAL_BYTES:
-        out.warnings.append(f"the recovery journal {jp.name} is too large to read")
-        return out
     for lineno, line, end in _lines(data):
         out.good_size = end
         try:
@@ -166,7 +174,7 @@ class JournalWriter:
         return self._size if self._fd is not None else 0
 
     def _open_existing(self, good_size: int) -> None:
-        fd = os.open(self.path, os.O_WRONLY | getattr(os, "O_CLOEXEC", 0))
+        fd = os.open(self.path, _WRITE_NO_LINK)
         try:
             if os.fstat(fd).st_size != good_size:  # drop a torn tail before appending
                 os.ftruncate(fd, good_size)
@@ -183,10 +191,16 @@ class JournalWriter:
         Raises the ``OSError`` behind a failure: the callers say what they were doing.
         """
         try:
-            write_atomic(self.path, _header(self.base) + first_lines, replace=True, backup=False)
+            write_atomic(
+                self.path,
+                _header(self.base) + first_lines,
+                replace=True,
+                backup=False,
+                follow_links=False,
+            )
         except SaveError as exc:
             raise exc.os_error or OSError(exc.reason) from None
-        fd = os.open(self.path, os.O_WRONLY | getattr(os, "O_CLOEXEC", 0))
+        fd = os.open(self.path, _WRITE_NO_LINK)
         self._close_fd()
         self._fd = fd
         self._size = os.fstat(fd).st_size
@@ -282,7 +296,7 @@ def move_aside(path: Path, label: str) -> Path | None:
     stem = path.name[: -len(JOURNAL_SUFFIX)] if path.name.endswith(JOURNAL_SUFFIX) else path.name
     for n in range(100):
         extra = "" if n == 0 else f"-{n}"
-        dest = path.with_name(f"{stem}.{label}-{stamp}{extra}{JOURNAL_SUFFIX}")
+        dest = path.with_name(fit_name(stem, f".{label}-{stamp}{extra}{JOURNAL_SUFFIX}"))
         if dest.exists():
             continue
         try:

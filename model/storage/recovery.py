@@ -19,8 +19,10 @@ from pathlib import Path
 
 from model.site.models import SiteFile
 from model.site.ops import InvalidEdit, apply_op, describe_op
-from model.storage.files import temp_file_of
-from model.storage.journal import JOURNAL_SUFFIX, journal_path, move_aside, read_journal
+from model.storage.codec import SiteLoadError
+from model.storage.files import backup_path
+from model.storage.journal import journal_path, move_aside, read_journal
+from model.storage.sidefiles import temp_file_of, temp_stem, writer_running
 
 
 @dataclass
@@ -45,6 +47,12 @@ def recover(path: Path, site: SiteFile, digest: str, *, read_only: bool) -> Reco
     contents = read_journal(jp)
     if contents is None:
         return out
+    if contents.refused is not None and not read_only:
+        raise SiteLoadError(
+            path,
+            f"cannot open for editing: {jp.name} {contents.refused}; move it away or open "
+            "read-only",
+        )
     out.warnings.extend(contents.warnings)
     if contents.base == digest:
         for op in contents.ops:
@@ -112,30 +120,19 @@ def remove_stray_temp_files(path: Path) -> None:
     """Temporary files of this site's file, backups and journal left by a save that was cut off.
 
     Only the caller holding the editing lock may do this (nobody else saves
-    this site); files of a process still running are left alone.
+    this site); files of a process still running are left alone.  A process
+    is told by its id and the token in the name, so a later process that got
+    the same id does not keep a dead save's file alive.
     """
     name = path.name
-    mine = {name, name + ".bak", name + JOURNAL_SUFFIX}
+    mine = {temp_stem(n) for n in (name, backup_path(path).name, journal_path(path).name)}
     version_backup = re.compile(re.escape(name) + r"\.v\d+\.bak")
     with contextlib.suppress(OSError):
         for entry in os.scandir(path.parent):
             temp = temp_file_of(entry.name)
             if temp is None:
                 continue
-            target, pid = temp
-            if (target in mine or version_backup.fullmatch(target)) and not _pid_alive(pid):
+            stem, pid, token = temp
+            if (stem in mine or version_backup.fullmatch(stem)) and not writer_running(pid, token):
                 with contextlib.suppress(OSError):
                     os.unlink(entry.path)
-
-
-def _pid_alive(pid: int) -> bool:
-    """True when a process with this id is running on this machine (not this one)."""
-    if pid == os.getpid():
-        return False
-    try:
-        os.kill(pid, 0)
-    except ProcessLookupError:
-        return False
-    except OSError:
-        return True  # it exists but belongs to someone else
-    return True

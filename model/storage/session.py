@@ -49,10 +49,12 @@ from model.storage.files import (
     copy_aside,
     plain_os_error,
     write_atomic,
+    write_new_file,
 )
-from model.storage.journal import COMPACT_BYTES, JournalWriter
+from model.storage.journal import COMPACT_BYTES, JournalWriter, journal_path
 from model.storage.lock import LockHeld, LockInfo, LockUnavailable, SiteLock
 from model.storage.recovery import recover, remove_stray_temp_files, set_aside_old_journal
+from model.storage.sidefiles import side_path, temp_name
 from model.storage.sites import read_site
 
 _ID_RE = re.compile(ID_PATTERN)
@@ -119,8 +121,8 @@ class EditSession:
             except LockUnavailable as exc:
                 raise SiteLoadError(
                     p,
-                    f"cannot open for editing: {plain_os_error(exc)} when making the lock file "
-                    f"{Path(exc.filename or '').name}; open it read-only instead",
+                    f"cannot open for editing: {exc.plain or plain_os_error(exc)} when making "
+                    f"the lock file {Path(exc.filename or '').name}; open it read-only instead",
                 ) from None
         try:
             loaded = read_site(p)
@@ -148,6 +150,7 @@ class EditSession:
             s._recover()
             if not read_only:
                 remove_stray_temp_files(p)
+                s._warn_other_names()
         except BaseException:
             if lock is not None:
                 lock.release()
@@ -164,6 +167,13 @@ class EditSession:
         it, a file there is replaced and kept as ``<name>.bak``.  ``LockHeld``
         when another editor has the file open.
         """
+        if os.path.islink(path) and not os.path.exists(path):
+            raise SaveError(
+                path,
+                "creating the file",
+                "it is a symbolic link to a file that does not exist; tripwise does not create "
+                "a file at the far end of a link",
+            )
         p = canonical_path(path)
         if not replace and p.exists():
             raise FileExistsError(f"{p} already exists; tripwise will not overwrite it")
@@ -173,10 +183,11 @@ class EditSession:
         try:
             lock = SiteLock.acquire(p)
         except LockUnavailable as exc:
-            raise SaveError(p, "making the lock file", plain_os_error(exc)) from None
+            raise SaveError(p, "making the lock file", exc.plain or plain_os_error(exc)) from None
         try:
             data = dumps_site(site).encode("utf-8")
             write_atomic(p, data, replace=replace, backup=True)
+            lock.follow_file()
             s = cls(p, site, read_only=False, digest=digest_bytes(data), lock=lock)
             warning = set_aside_old_journal(p)
             if warning:
@@ -187,7 +198,36 @@ class EditSession:
         return s
 
     def _version_backup(self) -> Path:
-        return self.path.with_name(f"{self.path.name}.v{self._source_version}.bak")
+        return side_path(self.path, f".v{self._source_version}.bak")
+
+    def _warn_other_names(self) -> None:
+        with contextlib.suppress(OSError):
+            links = self.path.stat().st_nlink
+            if links > 1:
+                self.warnings.append(
+                    f"{self.path.name} has {links} names on this disk (hard links); a save "
+                    "writes a new file under this name only, so the other names keep the "
+                    "version of now"
+                )
+
+    def check_journal(self) -> None:
+        """Raise :class:`SaveError` when no recovery journal can be written beside the file.
+
+        The app calls it on opening, so a read-only folder or a full disk is
+        said at once and the site opened read-only, never at the first edit.
+        """
+        if self.read_only or self._journal is None or self._journal.size:
+            return
+        probe = temp_name(journal_path(self.path))
+        try:
+            write_new_file(probe, b"{}\n", None)
+        except OSError as exc:
+            raise SaveError(
+                journal_path(self.path), "starting the recovery journal", plain_os_error(exc)
+            ) from exc
+        finally:
+            with contextlib.suppress(OSError):
+                probe.unlink()
 
     def _recover(self) -> None:
         r = recover(self.path, self.site, self._digest, read_only=self.read_only)
@@ -297,6 +337,9 @@ class EditSession:
         assert self._journal is not None
         self._journal.mark_saving(new_digest)
         write_atomic(self.path, data, replace=True, backup=True)
+        if self._lock is not None:
+            with contextlib.suppress(LockHeld):
+                self._lock.follow_file()
         self._digest = new_digest
         self._source_version = FORMAT_VERSION
         self._pending = 0

@@ -7,6 +7,7 @@ import os
 from pathlib import Path
 
 from model.site.models import Reading
+from model.storage.files import backup_path
 from model.storage.journal import journal_path
 from model.storage.session import EditSession
 from model.storage.sites import load_site
@@ -54,7 +55,8 @@ def test_bad_rows_listed_and_site_byte_identical(tmp_path: Path) -> None:
     )
     p = run_cli("import-readings", str(site), str(csv_path), "--yes")
     assert p.returncode == 2
-    err = p.stderr
+    err = p.stdout + p.stderr
+    assert len(p.stderr.strip().splitlines()) == 1  # the refusal; the problems are on stdout
     assert "row 3, column 'device': no device 'ghost'" in err
     assert "row 4, column 'x5_0 [ms]'" in err and "row 5, column 'device'" in err
     assert "3 problem(s)" in err and "nothing written" in err and "Traceback" not in err
@@ -111,18 +113,29 @@ def test_written_as_the_app_saves_it(tmp_path: Path) -> None:
     assert (tmp_path / "oak-lane-house.json.bak").read_bytes() == before
 
 
-def test_unsaved_app_edits_are_left_for_the_app(tmp_path: Path) -> None:
+def test_unsaved_app_edits_are_replayed_not_dropped(tmp_path: Path) -> None:
+    # an app that stopped without saving left a journalled reading: the import keeps it
     site, csv_path, _ = setup(tmp_path, [{"device": "rb2", "x1_0": 19.0}])
-    s = EditSession.open(site)  # an app session that ended without saving
+    s = EditSession.open(site)
     s.set_reading(s.site.visits[-1].id, "rc1", Reading(x1_0=41.0))
     s.close()
-    journal = journal_path(site).read_bytes()
     p = run_cli("import-readings", str(site), str(csv_path), "--yes")
     assert p.returncode == 0, p.stderr
-    assert "has edits not yet saved" in p.stderr
+    assert "1 edit(s) in its recovery journal" in p.stderr
     r = load_site(site).visits[-1].readings
-    assert r["rb2"].x1_0 == 19.0 and r["rc1"].x1_0 == 22.0  # the file as imported
-    assert journal_path(site).read_bytes() == journal  # the app sets those edits aside
+    assert r["rb2"].x1_0 == 19.0 and r["rc1"].x1_0 == 41.0  # the journalled edit is in the file
+    assert not journal_path(site).exists()
+    assert load_site(backup_path(site)).visits[-1].readings["rc1"].x1_0 == 41.0
     again = EditSession.open(site)
-    assert any("1 unsaved edit was not applied" in w for w in again.warnings)
+    assert again.warnings == [] and not again.dirty
     again.close()
+
+
+def test_refused_while_the_app_holds_the_site(tmp_path: Path) -> None:
+    site, csv_path, before = setup(tmp_path, [{"device": "rb2", "x1_0": 19.0}])
+    with EditSession.open(site):
+        p = run_cli("import-readings", str(site), str(csv_path), "--yes")
+    assert p.returncode == 2
+    assert f"is open for editing by pid {os.getpid()}" in p.stderr
+    assert len(p.stderr.strip().splitlines()) == 1
+    assert site.read_bytes() == before

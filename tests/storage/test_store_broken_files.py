@@ -64,7 +64,20 @@ def test_file_over_50_mb_is_refused_with_its_size(tmp_path: Path) -> None:
     assert p.stat().st_size > MAX_FILE_BYTES
     with pytest.raises(SiteLoadError) as err:
         load_site(p)
-    assert "60 MB" in str(err.value) and "limited to 50 MB" in str(err.value)
+    size = p.stat().st_size
+    assert f"is {size:,} bytes (60.0 MiB)" in str(err.value)
+    assert "the limit is 52,428,800 bytes (50.0 MiB)" in str(err.value)
+
+
+def test_one_byte_over_the_limit_says_the_real_size(tmp_path: Path) -> None:
+    # "50 MB" for a 50 MiB + 1 byte file hid why it was refused: the size and the limit are exact
+    p = tmp_path / "site.json"
+    with open(p, "wb") as fh:
+        fh.truncate(MAX_FILE_BYTES + 1)
+    with pytest.raises(SiteLoadError) as err:
+        load_site(p)
+    assert "is 52,428,801 bytes" in str(err.value)
+    assert "the limit is 52,428,800 bytes" in str(err.value)
 
 
 def test_not_a_regular_file(tmp_path: Path) -> None:

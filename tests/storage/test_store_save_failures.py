@@ -158,6 +158,7 @@ def test_injected_os_errors_leave_original_identical(
     save_site(_edited(site_file), site_file)  # makes a backup too
     before = file_digest(site_file)
     before_bak = file_digest(backup_path(site_file))
+    edited = _edited(site_file)  # read before the failures are injected
     real = getattr(os, call)
     calls = {"n": 0}
 
@@ -181,7 +182,7 @@ def test_injected_os_errors_leave_original_identical(
 
         monkeypatch.setattr(files, "write_new_file", second_fails)
     with pytest.raises(SaveError) as err:
-        save_site(_edited(site_file), site_file)
+        save_site(edited, site_file)
     monkeypatch.undo()
     assert calls["n"] >= 1
     assert file_digest(site_file) == before

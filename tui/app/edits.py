@@ -15,6 +15,7 @@ from model.site.messages import error_text
 from model.site.models import Reading, SiteFile
 from model.site.tree import SiteIndex
 from model.site.undo import UndoStack
+from model.storage.files import SaveError
 from model.storage.session import EditSession
 from tui.screens.readings import ReadingScreen
 
@@ -64,7 +65,7 @@ class EditsMixin:
         before = self.site
         try:
             change(self.session)
-        except (ValueError, TypeError, KeyError, OSError) as exc:
+        except (ValueError, TypeError, KeyError, OSError, SaveError) as exc:
             return describe(exc)
         self.undo_stack.push(label, before)
         self._after_edit(structural=True, select=select)
@@ -82,7 +83,7 @@ class EditsMixin:
             return None  # nothing changed: nothing to journal
         try:
             self.session.set_reading(visit.id, device_id, reading)
-        except (ValueError, TypeError, KeyError, OSError) as exc:
+        except (ValueError, TypeError, KeyError, OSError, SaveError) as exc:
             return describe(exc)
         self._after_edit(structural=False)
         return None
@@ -105,7 +106,7 @@ class EditsMixin:
         label, state = self.undo_stack.undo()
         try:
             self.session.replace_site(state)
-        except (ValueError, TypeError, OSError) as exc:
+        except (ValueError, TypeError, OSError, SaveError) as exc:
             self.notify(f"Could not undo: {describe(exc)}", severity="error")
             return
         self.index = SiteIndex.build(self.site)

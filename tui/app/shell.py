@@ -23,7 +23,7 @@ from textual.screen import ModalScreen, Screen
 from model.rules.findings import Analysis
 from model.site.tree import SiteIndex
 from model.site.undo import UndoStack
-from model.storage.session import EditSession, LockHeld
+from model.storage.session import EditSession, LockHeld, SaveError
 from tui.app.analysis import AnalysisMixin
 from tui.app.autosave import AutosaveMixin
 from tui.app.commands import CommandsMixin
@@ -92,12 +92,15 @@ class TripwiseApp(
         *,
         lock_message: str | None = None,
         welcome: str | None = None,
+        open_error: str | None = None,
     ) -> None:
         show_controls_visibly()
         super().__init__()
         self.site_path = site_path
         #: Said as the site opens (where the demo copy is), then kept as the sub-title.
         self.welcome = welcome
+        #: Why a site that was to be edited is open read-only (no journal could be started).
+        self.open_error = open_error
         self.session: EditSession | None = session
         self.lock_message = lock_message
         self.analysis: Analysis | None = None
@@ -141,7 +144,12 @@ class TripwiseApp(
         self.session = session
         self.index = SiteIndex.build(session.site)
         self.site_name = session.site.site.name
-        self.save_state = "read-only" if session.read_only else "saved"
+        if session.read_only:
+            self.save_state = "read-only"
+            self.save_message = self.open_error or ""
+        else:
+            # edits replayed from the journal are not in the file until it is saved
+            self.save_state = "recovered" if session.dirty else "saved"
 
     def notify(
         self,
@@ -187,6 +195,13 @@ class TripwiseApp(
         self.sub_title = str(self.site_path)
         if self.welcome:
             self.notify(self.welcome, title="tripwise", timeout=30)
+        if self.open_error:
+            self.notify(
+                f"{self.open_error}; opened read-only",
+                title="Cannot edit",
+                severity="error",
+                timeout=20,
+            )
         for line in self.session.recovered:
             self.notify(line, title="Recovered from the journal", timeout=12)
         self._show_new_warnings()
@@ -211,7 +226,9 @@ class TripwiseApp(
         unsaved = (
             self.session is not None
             and not self.session.read_only
-            and (self.session.dirty or self.save_state in ("pending", "saving", "error"))
+            and (
+                self.session.dirty or self.save_state in ("pending", "saving", "error", "recovered")
+            )
         )
         if unsaved and not self.save_now():
 
@@ -252,4 +269,11 @@ def make_app(
         session = EditSession.open(path, read_only=read_only)
     except LockHeld as exc:
         return TripwiseApp(path, None, lock_message=str(exc), welcome=welcome)
+    try:
+        session.check_journal()
+    except SaveError as exc:
+        # a read-only folder or a full disk: edits could not be kept, so none are taken
+        session.close()
+        session = EditSession.open(path, read_only=True)
+        return TripwiseApp(path, session, open_error=str(exc), welcome=welcome)
     return TripwiseApp(path, session, welcome=welcome)

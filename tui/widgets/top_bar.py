@@ -9,6 +9,7 @@ from textual.widgets import Static
 
 SAVE_TEXT: dict[str, tuple[str, str]] = {
     "saved": ("✔ saved", "save-ok"),
+    "recovered": ("✎ recovered, not yet saved", "save-pending"),
     "pending": ("✎ journalled, saving…", "save-pending"),
     "saving": ("⟳ saving…", "save-pending"),
     "error": ("✖ not saved", "save-error"),
@@ -40,7 +41,7 @@ class TopBar(Horizontal):
         state = str(getattr(self.app, "save_state", "saved"))
         message = str(getattr(self.app, "save_message", ""))
         text, cls = SAVE_TEXT.get(state, (state, "save-pending"))
-        if state == "error" and message:
+        if state in ("error", "read-only") and message:
             text = f"{text}: {message}"
         label = self.query_one("#save-state", Static)
         label.update(Text(text, overflow="ellipsis", no_wrap=True))

@@ -2,16 +2,25 @@
 
 from __future__ import annotations
 
+import contextlib
+import os
 import sys
 from pathlib import Path
 
 from model.site.models import SiteFile
-from model.storage.codec import SiteLoadError
-from model.storage.files import canonical_path
+from model.site.ops import InvalidEdit
+from model.storage.codec import SiteLoadError, dumps_site
+from model.storage.files import SaveError, backup_path
 from model.storage.journal import journal_path
-from model.storage.lock import LockHeld, SiteLock
+from model.storage.lock import LockHeld
 from model.storage.session import EditSession
-from model.storage.sites import load_site, save_site
+from model.storage.sidefiles import protected_reason
+from model.storage.sites import load_site, read_site
+
+
+def say(message: str) -> None:
+    """One line on stderr, prefixed with the program's name."""
+    print(f"tripwise: {message}", file=sys.stderr)
 
 
 def load_or_report(path: str) -> SiteFile | None:
@@ -23,41 +32,94 @@ def load_or_report(path: str) -> SiteFile | None:
     try:
         site = load_site(path)
     except SiteLoadError as exc:
-        print(f"tripwise: cannot load {exc}", file=sys.stderr)
+        say(f"cannot load {exc}")
         return None
-    if journal_path(path).exists():
-        print(
-            f"tripwise: note: {path} has edits not yet saved into the file "
-            f"(in {journal_path(path).name}); open it in tripwise to recover them",
-            file=sys.stderr,
-        )
+    with contextlib.suppress(OSError):
+        jp = journal_path(path)
+        if os.path.lexists(jp):
+            say(
+                f"note: {path} has edits not yet saved into the file (in {jp.name}); "
+                "open it in tripwise to recover them"
+            )
     return site
 
 
-def write_site(path: Path, site: SiteFile, *, replace: bool) -> None:
-    """Write a whole site file the way the app saves one.
+class SiteChanged(Exception):
+    """The site on disk is no longer the one the command showed its changes against."""
 
-    Through :meth:`EditSession.create`: under the editing lock (``LockHeld``
-    when another editor has the file open), atomically, the file replaced (only
-    with ``replace``) kept as ``<name>.bak``.
 
-    A recovery journal beside the file holds edits an app session did not
-    save.  They are not in what the command read, so they are neither replayed
-    nor dropped: the file is written alone, still under the lock, and the
-    journal is left for the app, which sets those edits aside and says so when
-    it next opens the site.
+def write_site(
+    path: Path, site: SiteFile, *, replace: bool, expect: SiteFile | None = None
+) -> list[str]:
+    """Write a whole site file through an editing session, as the app saves one.
+
+    A new file is made by :meth:`EditSession.create`.  An existing one (only
+    with ``replace``) is opened for editing: the editing lock is taken
+    (``LockHeld`` names the holder), and a journal left by an editor that
+    stopped is replayed and saved into the file first, so the version
+    replaced, kept as ``<name>.bak``, holds those edits.  With ``expect``
+    the site as opened (journal included) must still be ``expect``
+    (:class:`SiteChanged` otherwise).  Returns the notes for the user.
     """
-    if journal_path(path).exists():
-        lock = SiteLock.acquire(canonical_path(path))
-        try:
-            save_site(site, path)
-        finally:
-            lock.release()
-        return
-    EditSession.create(path, site, replace=replace).close()
+    if not os.path.exists(path):  # nothing there, or a link to nothing (refused by create)
+        with EditSession.create(path, site) as s:
+            return list(s.warnings)
+    if not replace:
+        raise FileExistsError(f"{path} already exists")
+    try:
+        read_site(path)
+    except SiteLoadError:  # not a site (replaced under the lock; any journal is set aside)
+        with EditSession.create(path, site, replace=True) as s:
+            return list(s.warnings)
+    with EditSession.open(path) as s:
+        notes = list(s.warnings)
+        if expect is not None and dumps_site(s.site) != dumps_site(expect):
+            raise SiteChanged(f"{path} changed while this command ran")
+        if s.dirty:
+            s.save()
+            notes.append(
+                f"{len(s.recovered)} unsaved edit(s) found in the recovery journal were "
+                f"saved first; that version is kept as {backup_path(s.path).name}"
+            )
+        s.replace_site(site)
+        s.save()
+        notes.extend(s.warnings[len(notes) :])
+    return notes
+
+
+def save_or_report(
+    path: Path, site: SiteFile, *, replace: bool, expect: SiteFile | None = None
+) -> int:
+    """:func:`write_site`, every refusal and failure said in one line; 0 written, 2 not."""
+    refused = protected_reason(path, sites_too=False)
+    if refused is not None:
+        say(f"cannot write {path}: {refused}; nothing written")
+        return 2
+    try:
+        notes = write_site(path, site, replace=replace, expect=expect)
+    except LockHeld as exc:
+        return report_held(path, exc)
+    except SiteChanged:
+        say(f"{path} changed on disk while this command ran; nothing written (run it again)")
+        return 2
+    except FileExistsError:
+        say(f"{path} already exists; not overwritten")
+        return 2
+    except SiteLoadError as exc:
+        say(f"cannot write {exc}; nothing written")
+        return 2
+    except (SaveError, InvalidEdit) as exc:
+        say(f"{exc}")
+        return 2
+    except (OSError, RuntimeError) as exc:
+        say(f"cannot write {path}: {getattr(exc, 'strerror', None) or exc}; nothing written")
+        return 2
+    for line in notes:
+        say(f"note: {line}")
+    return 0
 
 
 def report_held(path: str | Path, exc: LockHeld) -> int:
     """Refuse to write a site another editor holds: one line on stderr; exit code 2."""
-    print(f"tripwise: cannot write {path}: {exc}; nothing written", file=sys.stderr)
+    say(f"cannot write {path}: {exc}; nothing written")
     return 2

@@ -22,7 +22,14 @@ def sample_names() -> list[str]:
 
 
 def copy_sample(name: str, dest_dir: Path | None = None) -> Path:
-    """Copy a bundled sample to a fresh file (never over an existing one) and return its path."""
+    """Copy a bundled sample to a fresh file (never over an existing one) and return its path.
+
+    Only a name from :func:`sample_names` is accepted (a path such as
+    ``../../x`` is not a sample), so nothing outside the samples is read and
+    nothing is written outside the demo folder.
+    """
+    if name not in sample_names():
+        raise FileNotFoundError(name)
     src = resources.files("sample_sites") / f"{name}.json"
     if not src.is_file():
         raise FileNotFoundError(name)
@@ -67,10 +74,14 @@ def run(args: argparse.Namespace) -> int:
     try:
         path = copy_sample(args.name)
     except FileNotFoundError:
+        shown = args.name if len(args.name) <= 60 else args.name[:60] + "…"
         print(
-            f"tripwise: no sample site {args.name!r}; choose from: {', '.join(sample_names())}",
+            f"tripwise: no sample site {shown!r}; choose from: {', '.join(sample_names())}",
             file=sys.stderr,
         )
+        return 2
+    except OSError as exc:
+        print(f"tripwise: cannot copy the demo site: {exc.strerror or exc}", file=sys.stderr)
         return 2
     written = f"Demo copy of the invented sample site written to {path}"
     print(written, file=sys.stderr)

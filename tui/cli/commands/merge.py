@@ -13,16 +13,17 @@ from __future__ import annotations
 
 import argparse
 import json
+import os
 import sys
 from pathlib import Path
 from typing import Any
 
 from model.rules.findings import CAUTION
-from model.storage.lock import LockHeld
+from model.storage.files import plain_os_error
 from model.visits.merge import merge_sites
 from model.visits.merge_conflicts import Conflict, MergeError, version_text
 from model.visits.merge_result import MergeResult
-from tui.cli.commands.common import load_or_report, report_held, write_site
+from tui.cli.commands.common import load_or_report, save_or_report, say
 
 
 def register(sub: argparse._SubParsersAction) -> None:  # type: ignore[type-arg]
@@ -56,7 +57,7 @@ def default_out(base: str) -> Path:
 def _same_file(a: Path, b: Path) -> bool:
     try:
         return a.resolve() == b.resolve() or (a.exists() and b.exists() and a.samefile(b))
-    except OSError:
+    except (OSError, RuntimeError):  # RuntimeError: a symbolic link loop
         return False
 
 
@@ -81,10 +82,15 @@ def run(args: argparse.Namespace) -> int:
                 file=sys.stderr,
             )
             return 2
-    if out.is_dir():
+    try:
+        is_dir, exists = out.is_dir(), os.path.lexists(out)
+    except OSError as exc:
+        say(f"cannot write {out}: {plain_os_error(exc)}")
+        return 2
+    if is_dir:
         print(f"tripwise: --out {out} is a folder, not a file", file=sys.stderr)
         return 2
-    if out.exists() and not args.force:
+    if exists and not args.force:
         print(
             f"tripwise: {out} already exists; choose another --out or add --force", file=sys.stderr
         )
@@ -124,12 +130,7 @@ def run(args: argparse.Namespace) -> int:
         else:
             print(f"tripwise: {exc}; nothing written", file=sys.stderr)
         return 1
-    try:
-        write_site(out, merged, replace=args.force)
-    except LockHeld as exc:
-        return report_held(out, exc)
-    except OSError as exc:
-        print(f"tripwise: cannot write {out}: {exc.strerror or exc}", file=sys.stderr)
+    if save_or_report(out, merged, replace=args.force) != 0:
         return 2
     s = result.summary()
     doc.update(taken=args.take if result.conflicts else None, written=True)

@@ -46,6 +46,13 @@ def register(sub: argparse._SubParsersAction) -> None:  # type: ignore[type-arg]
     p.set_defaults(func=run)
 
 
+def _same_file(a: Path, b: Path) -> bool:
+    try:
+        return a.exists() and a.samefile(b)
+    except OSError:
+        return False
+
+
 def run(args: argparse.Namespace) -> int:
     site = load_or_report(args.site)
     if site is None:
@@ -60,6 +67,9 @@ def run(args: argparse.Namespace) -> int:
         if args.out
         else default_name(Path(args.site), site, args.kind, args.fmt, args.visit)
     )
+    if _same_file(out, Path(args.site)):
+        print(f"tripwise: {out}: not written there: it is the site file", file=sys.stderr)
+        return 2
     try:
         written = write_report(site, args.kind, args.fmt, out, force=args.force, visit=args.visit)
     except ReportError as exc:
