@@ -44,6 +44,16 @@ FIELD_TITLES: dict[str, str] = {
     "concealed_shallow": "Concealed < 50 mm",
     "leakage_ma": "Standing leakage",
     "zs_ohm": "Zs",
+    "fuse_type": "Fuse type",
+    "breaking_ka": "Breaking capacity",
+    "ia_a": "Ia (operates in time)",
+    "zs_max_ohm": "Zs maximum (table)",
+    "pscc_ka": "Prospective fault current",
+    "conditional_ka": "Conditional rating",
+    "ir_a": "Ir",
+    "isd_a": "Isd",
+    "tsd_s": "tsd",
+    "ii_a": "Ii",
 }
 
 _UNIT_RE = re.compile(r"\[([^\]]+)\]\s*$")
@@ -124,7 +134,10 @@ def field_specs(cls: type[BaseModel]) -> list[FieldSpec]:
         if origin is Literal:
             kind, options = "choice", annotation_choices(inner)
         elif origin is list:
-            kind, options = "flags", annotation_choices(typing.get_args(inner)[0])
+            item = typing.get_args(inner)[0]
+            if isinstance(item, type) and issubclass(item, BaseModel):
+                continue  # a table of rows (maker's data): kept as it is, not a form field
+            kind, options = "flags", annotation_choices(item)
         elif inner is bool:
             kind = "flag"
         elif inner in (float, int):

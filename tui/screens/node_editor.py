@@ -125,6 +125,9 @@ class NodeEditorScreen(ModalScreen[str | None]):
         if "parent" in self._values:
             data["parent"] = self._values["parent"]
         bad: dict[str, str] = {}
+        # fields the form does not show (a maker's table of rows) are kept as they are
+        shown = {spec.name for spec in self._specs} | {"kind", "parent"}
+        data.update({k: v for k, v in self._values.items() if k not in shown})
         for spec in self._specs:
             w = self.query_one(f"#f-{spec.name}")
             if isinstance(w, Select):
