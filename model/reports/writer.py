@@ -17,19 +17,30 @@ from collections.abc import Callable
 from pathlib import Path
 from typing import Any, Literal
 
-from model.reports import remedial, sheet
+from model.reports import remedial, sheet, study
 from model.reports.remedial import build_remedial
 from model.reports.sheet import build_sheet
+from model.reports.study import build_study
 from model.rules.checks import analyse
 from model.rules.findings import Analysis
 from model.site.models import SiteFile
 from model.storage.files import SaveError, write_atomic
 
-Kind = Literal["remedial", "sheet"]
+Kind = Literal["remedial", "sheet", "study"]
 Fmt = Literal["pdf", "md", "csv", "txt"]
-KINDS: tuple[Kind, ...] = ("remedial", "sheet")
+KINDS: tuple[Kind, ...] = ("remedial", "sheet", "study")
 FORMATS: tuple[Fmt, ...] = ("pdf", "md", "csv", "txt")
-KIND_TITLE: dict[str, str] = {"remedial": remedial.TITLE, "sheet": sheet.TITLE}
+KIND_TITLE: dict[str, str] = {
+    "remedial": remedial.TITLE,
+    "sheet": sheet.TITLE,
+    "study": study.TITLE,
+}
+#: The formats each kind can be written in (the study is a document of charts).
+KIND_FORMATS: dict[str, tuple[str, ...]] = {
+    "remedial": ("pdf", "md", "csv", "txt"),
+    "sheet": ("pdf", "md", "csv", "txt"),
+    "study": ("pdf", "md"),
+}
 FORMAT_TITLE: dict[str, str] = {
     "pdf": "PDF",
     "md": "Markdown",
@@ -66,6 +77,17 @@ def render(
         raise ReportError(f"unknown report kind {kind!r}; choose {' or '.join(KINDS)}")
     if fmt not in FORMATS:
         raise ReportError(f"unknown format {fmt!r}; choose one of {', '.join(FORMATS)}")
+    if fmt not in KIND_FORMATS[kind]:
+        raise ReportError(
+            f"the {KIND_TITLE[kind].lower()} is written as {' or '.join(KIND_FORMATS[kind])}, "
+            f"not {fmt}"
+        )
+    if kind == "study":
+        from model.reports.render import md_study, pdf_study
+
+        result = analysis if analysis is not None else analyse(site)
+        doc_study = build_study(site, result, generated=generated)
+        return (pdf_study.study_pdf if fmt == "pdf" else md_study.study_md)(doc_study)
     renderer = _renderer(kind, fmt)
     if kind == "remedial":
         doc: Any = build_remedial(
@@ -73,6 +95,16 @@ def render(
         )
     else:
         doc = build_sheet(site, generated=generated)
+        if fmt == "md":
+            from model.reports.render.md_study import zs_table_md
+            from model.reports.zs_sheet import build_zs_rows
+
+            rows = build_zs_rows(site, analysis if analysis is not None else analyse(site))
+            text = renderer(doc).decode("utf-8")
+            cut = text.rfind("\n---\n")  # the table goes before the closing caution
+            cut = len(text) if cut < 0 else cut
+            table = "\n".join(["", *zs_table_md(rows)])
+            return (text[:cut] + table + text[cut:]).encode("utf-8")
     return renderer(doc)
 
 
