@@ -22,6 +22,9 @@ from model.site.terms import choices_of
 
 FieldKind = Literal["text", "number", "choice", "flag", "flags"]
 
+#: Shared optional fields (fault level, maker's and table data) shown after a node's own.
+LATE_FIELDS = frozenset({"pscc_ka", "conditional_ka", "breaking_ka", "ia_a", "zs_max_ohm"})
+
 #: Fields a form never shows (set by the tree, not typed).
 HIDDEN_FIELDS = frozenset({"parent", "kind"})
 
@@ -159,7 +162,7 @@ def field_specs(cls: type[BaseModel]) -> list[FieldSpec]:
                 default=default,
             )
         )
-    out.sort(key=lambda f: f.name == "notes")
+    out.sort(key=lambda f: (f.name == "notes", f.name in LATE_FIELDS))
     return out
 
 

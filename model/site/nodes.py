@@ -46,13 +46,13 @@ class _NodeBase(StrictModel):
     )
 
 
-class OriginNode(_NodeBase, FaultLevel):
+class OriginNode(FaultLevel, _NodeBase):
     """The supply: the point where the installation begins."""
 
     kind: Literal["origin"]
 
 
-class BoardNode(_NodeBase, FaultLevel):
+class BoardNode(FaultLevel, _NodeBase):
     """A distribution board or consumer unit: a place that groups devices."""
 
     kind: Literal["board"]
@@ -75,7 +75,7 @@ class SwitchNode(_NodeBase):
     )
 
 
-class FuseNode(_NodeBase, OvercurrentData):
+class FuseNode(OvercurrentData, _NodeBase):
     """A fuse (including the supply cut-out fuse)."""
 
     kind: Literal["fuse"]
@@ -87,7 +87,7 @@ class FuseNode(_NodeBase, OvercurrentData):
     rated_a: Annotated[float, Field(gt=0, le=6300)] = Field(description="Rated current. [A]")
 
 
-class McbNode(_NodeBase, OvercurrentData):
+class McbNode(OvercurrentData, _NodeBase):
     """A circuit-breaker giving overcurrent protection only."""
 
     kind: Literal["mcb"]
@@ -145,7 +145,7 @@ class RccbNode(_RcdBase):
     kind: Literal["rccb"]
 
 
-class RcboNode(_RcdBase, OvercurrentData):
+class RcboNode(OvercurrentData, _RcdBase):
     """Residual-current circuit-breaker with overcurrent protection (IEC 61009-1)."""
 
     kind: Literal["rcbo"]
@@ -164,7 +164,7 @@ class PrcdNode(_RcdBase):
     kind: Literal["prcd"]
 
 
-class CbrNode(_RcdBase, OvercurrentData):
+class CbrNode(OvercurrentData, _RcdBase):
     """Industrial breaker with residual-current relay (IEC 60947-2 Annex B / M)."""
 
     kind: Literal["cbr"]

@@ -38,8 +38,10 @@ class NodeEditorScreen(ModalScreen[str | None]):
             self.node = node
             self.new = new
 
-    def __init__(self, values: dict[str, Any], *, new: bool) -> None:
+    def __init__(self, values: dict[str, Any], *, new: bool, facts: str = "") -> None:
         super().__init__()
+        #: What the analysis says of this device (Zs maximum and required time), shown above.
+        self._facts = facts
         self._kind = str(values["kind"])
         self._cls = NODE_CLASSES[self._kind]
         self._values = values
@@ -62,6 +64,8 @@ class NodeEditorScreen(ModalScreen[str | None]):
                 classes="dialog-title",
                 markup=False,
             )
+            if self._facts:
+                yield Static(self._facts, id="form-facts", markup=False)
             yield Static("", id="form-error", classes="field-error", markup=False)
             with VerticalScroll(id="form-fields"):
                 for spec in self._specs:

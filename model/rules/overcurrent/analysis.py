@@ -231,3 +231,16 @@ def _explain(
             + (f"; not shown: {', '.join(rest)}" if rest else "")
         )
     return f"{pair}: the published bands cannot settle {bad}; {NEEDS_MAKER}"
+
+
+def nearest_oc_pair(idx: SiteIndex, device_id: str) -> tuple[str, str] | None:
+    """(upstream, downstream) for an overcurrent device and its nearest one above, else below."""
+    if device_id not in idx.by_id or idx.by_id[device_id].kind not in OVERCURRENT_KINDS:
+        return None
+    above = idx.ocpd_above.get(device_id, ())
+    if above:
+        return above[0], device_id
+    for nid in idx.descendants(device_id):
+        if idx.by_id[nid].kind in OVERCURRENT_KINDS:
+            return device_id, nid
+    return None

@@ -164,3 +164,32 @@ def disconnections(
                           rcd, basis, source, note)
         )  # fmt: skip
     return out
+
+
+def device_summary(rows: list[Disconnection], device_id: str) -> str:
+    """The Zs maximum and required time of a device's circuits, in words ('' when none).
+
+    For the node form: 'Zs max 2.73 Ω (cold reading ≤ 2.19 Ω) to disconnect in 0.4 s
+    (Table 41.1) — 1 circuit'.
+    """
+    mine = [r for r in rows if r.device == device_id]
+    if not mine:
+        return ""
+    parts: list[str] = []
+    seen: set[tuple[float | None, float | None]] = set()
+    for r in mine:
+        key = (r.required_s, r.zs_max_ohm)
+        if key in seen:
+            continue
+        seen.add(key)
+        if r.required_s is None:
+            parts.append("no required time (IT system or U0 ≤ 50 V)")
+        elif r.zs_max_ohm is None:
+            parts.append(f"to disconnect in {r.required_s:g} s: Zs maximum not known ({r.source})")
+        else:
+            cold = "" if r.limit_ohm is None else f" (cold reading ≤ {r.limit_ohm:.3g} Ω)"
+            parts.append(
+                f"Zs max {r.zs_max_ohm:.3g} Ω{cold} to disconnect in {r.required_s:g} s "
+                f"(Table 41.1)"
+            )
+    return "; ".join(parts) + f" — {len(mine)} circuit(s)"
