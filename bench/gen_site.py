@@ -111,7 +111,12 @@ class _Builder:
                     if self.left() < 2:
                         break
                     m = self.add(
-                        "m", rc, kind="mcb", rated_a=rng.choice([6.0, 16.0, 20.0, 32.0]), curve="B"
+                        "m",
+                        rc,
+                        kind="mcb",
+                        rated_a=rng.choice([6.0, 16.0, 20.0, 32.0]),
+                        curve="B",
+                        breaking_ka=6.0,
                     )
                     c = self.circuit(m)
                     if rng.random() < 0.15 and self.left() >= 2:
@@ -158,8 +163,11 @@ def generate_site(n_nodes: int, seed: int = 0) -> SiteFile:
         raise ValueError("a generated site needs at least 4 nodes")
     b = _Builder(n_nodes, seed)
     b.add("supply", None, kind="origin", label="Supply intake")
-    b.add("cutout", "supply1", kind="fuse", rated_a=100.0, label="Cut-out fuse")
-    b.add("mb", "cutout1", kind="board", label="Main board", place="Plant room")
+    b.add(
+        "cutout", "supply1", kind="fuse", rated_a=100.0, fuse_type="gG", breaking_ka=33.0,
+        label="Cut-out fuse",
+    )  # fmt: skip
+    b.add("mb", "cutout1", kind="board", label="Main board", place="Plant room", pscc_ka=4.0)
     while b.left() > 0:
         b.group("mb1", 0)
     visits = [

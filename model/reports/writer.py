@@ -20,9 +20,10 @@ from collections.abc import Callable
 from pathlib import Path
 from typing import Any, Literal
 
-from model.reports import remedial, sheet
+from model.reports import remedial, sheet, study
 from model.reports.remedial import build_remedial
 from model.reports.sheet import build_sheet
+from model.reports.study import build_study
 from model.rules.checks import analyse
 from model.rules.findings import Analysis
 from model.site.history import cut_at, find_visit, known_visits_text
@@ -30,11 +31,21 @@ from model.site.models import SiteFile, Visit
 from model.storage.files import SaveError, plain_os_error, write_atomic
 from model.storage.sidefiles import protected_reason
 
-Kind = Literal["remedial", "sheet"]
+Kind = Literal["remedial", "sheet", "study"]
 Fmt = Literal["pdf", "md", "csv", "txt"]
-KINDS: tuple[Kind, ...] = ("remedial", "sheet")
+KINDS: tuple[Kind, ...] = ("remedial", "sheet", "study")
 FORMATS: tuple[Fmt, ...] = ("pdf", "md", "csv", "txt")
-KIND_TITLE: dict[str, str] = {"remedial": remedial.TITLE, "sheet": sheet.TITLE}
+KIND_TITLE: dict[str, str] = {
+    "remedial": remedial.TITLE,
+    "sheet": sheet.TITLE,
+    "study": study.TITLE,
+}
+#: The formats each kind can be written in (the study is a document of charts).
+KIND_FORMATS: dict[str, tuple[str, ...]] = {
+    "remedial": ("pdf", "md", "csv", "txt"),
+    "sheet": ("pdf", "md", "csv", "txt"),
+    "study": ("pdf", "md"),
+}
 FORMAT_TITLE: dict[str, str] = {
     "pdf": "PDF",
     "md": "Markdown",
@@ -128,9 +139,20 @@ def render(
         raise ReportError(f"unknown report kind {kind!r}; choose {' or '.join(KINDS)}")
     if fmt not in FORMATS:
         raise ReportError(f"unknown format {fmt!r}; choose one of {', '.join(FORMATS)}")
+    if fmt not in KIND_FORMATS[kind]:
+        raise ReportError(
+            f"the {KIND_TITLE[kind].lower()} is written as {' or '.join(KIND_FORMATS[kind])}, "
+            f"not {fmt}"
+        )
     shown, later = report_visit(site, visit)
     if later is not None:
         analysis = None
+    if kind == "study":
+        from model.reports.render import md_study, pdf_study
+
+        result = analysis if analysis is not None else analyse(shown)
+        doc_study = build_study(shown, result, generated=generated)
+        return (pdf_study.study_pdf if fmt == "pdf" else md_study.study_md)(doc_study)
     renderer = _renderer(kind, fmt)
     if kind == "remedial":
         doc: Any = build_remedial(
@@ -141,6 +163,16 @@ def render(
         )
     else:
         doc = build_sheet(shown, generated=generated, later=later)
+        if fmt == "md":
+            from model.reports.render.md_study import zs_table_md
+            from model.reports.zs_sheet import build_zs_rows
+
+            rows = build_zs_rows(shown, analysis if analysis is not None else analyse(shown))
+            text = renderer(doc).decode("utf-8")
+            cut = text.rfind("\n---\n")  # the table goes before the closing caution
+            cut = len(text) if cut < 0 else cut
+            table = "\n".join(["", *zs_table_md(rows)])
+            return (text[:cut] + table + text[cut:]).encode("utf-8")
     return renderer(doc)
 
 

@@ -131,6 +131,10 @@ class Analysis:
     findings: list[Finding] = field(default_factory=list)
     pairs: list[PairAnalysis] = field(default_factory=list)
     caution: str = CAUTION
+    #: Series pairs of overcurrent devices (``model.rules.overcurrent.pairs.OcPair``).
+    oc_pairs: list[Any] = field(default_factory=list)
+    #: The rest of the overcurrent analysis (``checks.overcurrent.OcAnalysis``).
+    oc: Any = field(default=None, repr=False, compare=False)
     #: The tree index the checks read (reused by reports instead of building another).
     index: SiteIndex | None = field(default=None, repr=False, compare=False)
 
@@ -163,6 +167,7 @@ class Analysis:
             "counts": self.counts(),
             "findings": [f.as_json() for f in self.findings],
             "pairs": [p.as_json() for p in self.pairs],
+            "oc_pairs": [p.as_json() for p in self.oc_pairs],
         }
 
 

@@ -22,6 +22,9 @@ from model.site.terms import ID_RULE, choices_of
 
 FieldKind = Literal["text", "number", "choice", "flag", "flags"]
 
+#: Shared optional fields (fault level, maker's and table data) shown after a node's own.
+LATE_FIELDS = frozenset({"pscc_ka", "conditional_ka", "breaking_ka", "ia_a", "zs_max_ohm"})
+
 #: Fields a form never shows (set by the tree, not typed).
 HIDDEN_FIELDS = frozenset({"parent", "kind"})
 
@@ -48,6 +51,16 @@ FIELD_TITLES: dict[str, str] = {
     "date": "Date",
     "inspector": "Inspector",
     "instrument": "Instrument",
+    "fuse_type": "Fuse type",
+    "breaking_ka": "Breaking capacity",
+    "ia_a": "Ia (operates in time)",
+    "zs_max_ohm": "Zs maximum (table)",
+    "pscc_ka": "Prospective fault current",
+    "conditional_ka": "Conditional rating",
+    "ir_a": "Ir",
+    "isd_a": "Isd",
+    "tsd_s": "tsd",
+    "ii_a": "Ii",
 }
 
 #: Internal field names as they may appear inside a model's own message.
@@ -135,7 +148,10 @@ def field_specs(cls: type[BaseModel]) -> list[FieldSpec]:
             kind, options = "choice", annotation_choices(inner)
             options = _limited(cls, name, options)
         elif origin is list:
-            kind, options = "flags", annotation_choices(typing.get_args(inner)[0])
+            item = typing.get_args(inner)[0]
+            if isinstance(item, type) and issubclass(item, BaseModel):
+                continue  # a table of rows (maker's data): kept as it is, not a form field
+            kind, options = "flags", annotation_choices(item)
         elif inner is bool:
             kind = "flag"
         elif inner in (float, int):
@@ -157,7 +173,13 @@ def field_specs(cls: type[BaseModel]) -> list[FieldSpec]:
                 default=default,
             )
         )
-    out.sort(key=lambda f: 0 if f.name in ("id", "label", "way") else 2 if f.name == "notes" else 1)
+    out.sort(
+        key=lambda f: (
+            f.name == "notes",
+            f.name in LATE_FIELDS,
+            0 if f.name in ("id", "label", "way") else 1,
+        )
+    )
     return out
 
 

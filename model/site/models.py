@@ -21,9 +21,11 @@ from pydantic import (
 )
 
 from model.site.nodes import ALLOWED_CHILDREN, Node
+from model.site.ocpd import Measurement
 from model.site.terms import (
     FORMAT_NAME,
     FORMAT_VERSION,
+    OVERCURRENT_KINDS,
     RCD_KINDS,
     TEST_NAMES,
     TEST_VALUE_KEYS,
@@ -246,6 +248,11 @@ class Visit(StrictModel):
     readings: dict[NodeId, Reading] = Field(
         default_factory=dict, description="Readings by residual-current device id."
     )
+    measurements: dict[NodeId, Measurement] = Field(
+        default_factory=dict,
+        description="Measured Zs by circuit id and prospective fault current by board or "
+        "origin id; the latest visit's value wins over the node's.",
+    )
 
     @field_validator("date")
     @classmethod
@@ -338,7 +345,45 @@ def tree_problems(sf: SiteFile) -> list[str]:
                     f"visits[{vi}].readings.{dev}: readings are for residual-current devices, "
                     f"not a {node.kind}"
                 )
+        problems.extend(_measurement_problems(vi, v, by_id))
+    problems.extend(_maker_problems(sf, by_id))
     return problems
+
+
+def _measurement_problems(vi: int, v: Visit, by_id: dict[str, Any]) -> list[str]:
+    out: list[str] = []
+    for nid, m in v.measurements.items():
+        where = f"visits[{vi}].measurements.{nid}"
+        node = by_id.get(nid)
+        if node is None:
+            out.append(f"{where}: no node with id {nid!r}")
+            continue
+        if m.zs_ohm is not None and node.kind != "circuit":
+            out.append(f"{where}: zs_ohm is measured at a circuit, not a {node.kind}")
+        if m.pscc_ka is not None and node.kind not in ("board", "origin"):
+            out.append(f"{where}: pscc_ka is measured at a board or the origin, not a {node.kind}")
+    return out
+
+
+def _maker_problems(sf: SiteFile, by_id: dict[str, Any]) -> list[str]:
+    """Makers' selectivity and back-up rows must name an overcurrent device above."""
+    out: list[str] = []
+    for i, n in enumerate(sf.nodes):
+        rows = [("maker_selectivity", r.upstream) for r in getattr(n, "maker_selectivity", ())] + [
+            ("maker_backup", r.upstream) for r in getattr(n, "maker_backup", ())
+        ]
+        for field_name, up in rows:
+            above: set[str] = set()
+            cur = n.parent
+            while cur is not None and cur in by_id and cur not in above:
+                above.add(cur)
+                cur = by_id[cur].parent
+            if up not in above or by_id[up].kind not in OVERCURRENT_KINDS:
+                out.append(
+                    f"nodes[{i}] ({n.id}).{field_name}: {up!r} is not an overcurrent device "
+                    "upstream of this one"
+                )
+    return out
 
 
 def _cycles(sf: SiteFile, by_id: dict[str, Any]) -> list[str]:

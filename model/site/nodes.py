@@ -18,6 +18,7 @@ from pydantic import (
     model_validator,
 )
 
+from model.site.ocpd import FaultLevel, FuseType, KiloAmps, OvercurrentData
 from model.site.terms import (
     CircuitUse,
     Curve,
@@ -54,6 +55,9 @@ def _way() -> str:
     )
 
 
+_SettingA = Annotated[float, Field(gt=0, le=1_000_000)]
+
+
 class _NodeBase(StrictModel):
     id: NodeId
     parent: NodeId | None = Field(
@@ -67,18 +71,23 @@ class _NodeBase(StrictModel):
     )
 
 
-class OriginNode(_NodeBase):
+class OriginNode(FaultLevel, _NodeBase):
     """The supply: the point where the installation begins."""
 
     kind: Literal["origin"]
 
 
-class BoardNode(_NodeBase):
+class BoardNode(FaultLevel, _NodeBase):
     """A distribution board or consumer unit: a place that groups devices."""
 
     kind: Literal["board"]
     place: Annotated[str, StringConstraints(max_length=200)] = Field(
         default="", description="Where the board is (e.g. 'garage, left of door')."
+    )
+    conditional_ka: KiloAmps | None = Field(
+        default=None,
+        description="The assembly's conditional short-circuit rating with its maker's "
+        "devices (BS EN 61439-3 Annex ZB). [kA]",
     )
 
 
@@ -92,15 +101,20 @@ class SwitchNode(_NodeBase):
     )
 
 
-class FuseNode(_NodeBase):
+class FuseNode(OvercurrentData, _NodeBase):
     """A fuse (including the supply cut-out fuse)."""
 
     kind: Literal["fuse"]
     way: Way = _way()
+    fuse_type: FuseType | None = Field(
+        default=None,
+        description="gG (any gG link to IEC 60269-1: BS 88-2, BS 88-3, NH, D), bs3036 "
+        "(semi-enclosed), bs1361 or other.",
+    )
     rated_a: Annotated[float, Field(gt=0, le=6300)] = Field(description="Rated current. [A]")
 
 
-class McbNode(_NodeBase):
+class McbNode(OvercurrentData, _NodeBase):
     """A circuit-breaker giving overcurrent protection only."""
 
     kind: Literal["mcb"]
@@ -164,7 +178,7 @@ class RccbNode(_RcdBase):
     way: Way = _way()
 
 
-class RcboNode(_RcdBase):
+class RcboNode(OvercurrentData, _RcdBase):
     """Residual-current circuit-breaker with overcurrent protection (IEC 61009-1)."""
 
     kind: Literal["rcbo"]
@@ -184,12 +198,22 @@ class PrcdNode(_RcdBase):
     kind: Literal["prcd"]
 
 
-class CbrNode(_RcdBase):
+class CbrNode(OvercurrentData, _RcdBase):
     """Industrial breaker with residual-current relay (IEC 60947-2 Annex B / M)."""
 
     kind: Literal["cbr"]
     CHOICE_LIMITS: ClassVar[dict[str, tuple[str, ...]]] = {}
     way: Way = _way()
+    ir_a: _SettingA | None = Field(default=None, description="Long-time current setting Ir. [A]")
+    isd_a: _SettingA | None = Field(
+        default=None, description="Short-time pick-up current setting Isd. [A]"
+    )
+    tsd_s: Annotated[float, Field(gt=0, le=10)] | None = Field(
+        default=None, description="Short-time delay setting tsd. [s]"
+    )
+    ii_a: _SettingA | None = Field(
+        default=None, description="Instantaneous pick-up current setting Ii. [A]"
+    )
     delay_ms: Annotated[float, Field(gt=0, le=10_000)] | None = Field(
         default=None,
         description="Declared limiting non-actuating time when delay is 'set'. [ms]",
@@ -211,6 +235,12 @@ class CbrNode(_RcdBase):
             and self.max_break_ms < self.delay_ms
         ):
             raise ValueError("max_break_ms cannot be shorter than delay_ms")
+        for name in ("isd_a", "ii_a"):
+            value = getattr(self, name)
+            if value is not None and self.ir_a is not None and value < self.ir_a:
+                raise ValueError(f"{name} {value:g} A is below the setting ir_a {self.ir_a:g} A")
+        if self.tsd_s is not None and self.isd_a is None:
+            raise ValueError("tsd_s applies only with a short-time pick-up isd_a")
         return self
 
 

@@ -30,13 +30,16 @@ def test_findings_exit_1_grouped_by_board_with_caution() -> None:
 
 
 def test_clean_site_exits_0(tmp_path: Path) -> None:
+    # a typed gG 100 A fuse over a B32 at 0.5 kA is selective (IEC 60269-1 gates, from memory;
+    # IEC 60898-1 Table 7): an untyped fuse would leave its selectivity not shown
     doc = site_doc(
         [
-            node("f", "o", "fuse", rated_a=60.0),
-            node("m", "f", "mcb", rated_a=32.0),
+            node("f", "o", "fuse", rated_a=100.0, fuse_type="gG"),
+            node("m", "f", "mcb", rated_a=32.0, curve="B"),
             circuit("c", "m", "cooker", rated_a=32.0),
         ]
     )
+    doc["nodes"][0]["pscc_ka"] = 0.5
     out = tripwise("check", str(write_doc(tmp_path / "clean site é.json", doc)))
     assert out.returncode == 0, out.stdout + out.stderr
     assert "No findings." in out.stdout
@@ -46,7 +49,7 @@ def test_json_is_one_object_and_nothing_else() -> None:
     out = tripwise("check", "--json", str(SAMPLES / "oak-lane-house.json"))
     assert out.returncode == 1
     doc = json.loads(out.stdout)
-    assert set(doc) >= {"findings", "pairs", "caution", "counts", "rules"}
+    assert set(doc) >= {"findings", "pairs", "oc_pairs", "caution", "counts", "rules"}
     f = doc["findings"][0]
     assert set(f) == {
         "rule",

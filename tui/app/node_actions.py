@@ -66,7 +66,13 @@ class NodeActionsMixin:
         if nid is None or not self._writable():
             return
         values = self.index.by_id[nid].model_dump()
-        self.push_screen(NodeEditorScreen(values, new=False))
+        facts = ""
+        oc = getattr(self.analysis, "oc", None)
+        if oc is not None:
+            from model.rules.overcurrent.disconnection import device_summary
+
+            facts = device_summary(oc.disconnection, nid)
+        self.push_screen(NodeEditorScreen(values, new=False, facts=facts))
 
     def on_node_editor_screen_apply(self, message: NodeEditorScreen.Apply) -> None:
         """A node form's validated node: add or change it (asking first when that re-judges
@@ -273,7 +279,18 @@ class NodeActionsMixin:
             return
         pair = editing.nearest_pair(self.index, nid)
         if pair is None:
-            self.notify("Choose a residual-current device with another RCD above or below it.")
+            from model.rules.overcurrent.analysis import nearest_oc_pair
+
+            oc = nearest_oc_pair(self.index, nid)
+            if oc is not None and self.analysis is not None:
+                from tui.screens.oc_pair import OcPairScreen
+
+                self.push_screen(OcPairScreen(self.site, self.analysis, oc[0], oc[1]))
+                return
+            self.notify(
+                "Choose a residual-current device with another RCD above or below it, "
+                "or a fuse or breaker with another above or below it."
+            )
             return
         from tui.screens.pair import PairScreen
 

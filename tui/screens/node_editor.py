@@ -53,8 +53,10 @@ class NodeEditorScreen(Dialog[str | None]):
             #: The node's id before this form (None for a new node).
             self.old_id = old_id
 
-    def __init__(self, values: dict[str, Any], *, new: bool) -> None:
+    def __init__(self, values: dict[str, Any], *, new: bool, facts: str = "") -> None:
         super().__init__()
+        #: What the analysis says of this device (Zs maximum and required time), shown above.
+        self._facts = facts
         self._kind = str(values["kind"])
         self._cls = NODE_CLASSES[self._kind]
         self._values = values
@@ -79,6 +81,8 @@ class NodeEditorScreen(Dialog[str | None]):
                 classes="dialog-title",
                 markup=False,
             )
+            if self._facts:
+                yield Static(self._facts, id="form-facts", markup=False)
             yield Static("", id="form-error", classes="field-error", markup=False)
             with VerticalScroll(id="form-fields"):
                 for spec in self._specs:
@@ -139,6 +143,9 @@ class NodeEditorScreen(Dialog[str | None]):
         if "parent" in self._values:
             data["parent"] = self._values["parent"]
         bad: dict[str, str] = {}
+        # fields the form does not show (a maker's table of rows) are kept as they are
+        shown = {spec.name for spec in self._specs} | {"kind", "parent"}
+        data.update({k: v for k, v in self._values.items() if k not in shown})
         for spec in self._specs:
             w = self.query_one(f"#f-{spec.name}")
             if isinstance(w, ChoiceRow):

@@ -24,6 +24,7 @@ from model.rules.checks.coverage import (
 )
 from model.rules.checks.earthing import check_earthing
 from model.rules.checks.ev import check_ev
+from model.rules.checks.overcurrent import check_overcurrent
 from model.rules.checks.readings import check_readings
 from model.rules.checks.trend import check_trend
 from model.rules.findings import Analysis, Finding
@@ -45,6 +46,7 @@ CHECKS: list[Check] = [
     check_lighting,
     check_readings,
     check_trend,
+    check_overcurrent,
 ]
 
 
@@ -70,7 +72,14 @@ def analyse(site: SiteFile, index: SiteIndex | None = None) -> Analysis:
         if ctx.rules.name == "iec-60364":
             findings = [_iec_source(f) for f in findings]
         findings.sort(key=Finding.sort_key)
-        return Analysis(rules=site.site.rules, findings=findings, pairs=ctx.pairs, index=ctx.index)
+        return Analysis(
+            rules=site.site.rules,
+            findings=findings,
+            pairs=ctx.pairs,
+            index=ctx.index,
+            oc_pairs=ctx.oc.pairs if ctx.oc is not None else [],
+            oc=ctx.oc,
+        )
     finally:
         if paused:
             gc.enable()

@@ -3,6 +3,7 @@
 from __future__ import annotations
 
 from dataclasses import dataclass, field
+from typing import Any
 
 from model.rules.findings import PairAnalysis
 from model.rules.limits import RuleSet, rule_set
@@ -17,6 +18,8 @@ class Context:
     rules: RuleSet
     latest: Visit | None
     pairs: list[PairAnalysis] = field(default_factory=list)
+    #: The overcurrent analysis (``checks.overcurrent.OcAnalysis``), built by its check.
+    oc: Any = None
 
     @classmethod
     def build(cls, site: SiteFile, index: SiteIndex | None = None) -> Context:

@@ -1,0 +1,214 @@
+"""The PDF of the coordination study: every series pair's chart, verdict, ranges and data.
+
+Residual-current pairs are drawn by :func:`model.reports.render.pdf_chart.draw_chart`;
+fuse and breaker pairs here, on log-log axes: the estimated band shaded, the
+staircase reading as thin lines, the not-selective and not-shown currents as
+strips, the largest fault current and the selectivity limit as marked lines.
+"""
+
+from __future__ import annotations
+
+import math
+from collections.abc import Sequence
+
+from model.reports.oc_chart import OcChart
+from model.reports.render.pdf_base import INK, MUTED, RGB, ReportPdf, caution_box
+from model.reports.render.pdf_chart import (
+    CHART_BLOCK_H,
+    CLASH_EDGE,
+    CLASH_STRONG,
+    DOWN_COLOUR,
+    UP_COLOUR,
+    _band,
+    _legend,
+    _log_ticks,
+    draw_chart,
+)
+from model.reports.study import OC_METHOD, RCD_METHOD, StudyDoc
+from model.reports.zs_sheet import COLUMNS, NOTE, TITLE, ZsRow
+from model.rules.overcurrent.pairs import fmt_a
+
+UNSHOWN: RGB = (150, 150, 150)
+LIMIT: RGB = (30, 130, 60)
+OC_PLOT_H = 70.0
+OC_BLOCK_H = 150.0
+
+
+def _fmt_s(t: float) -> str:
+    if t >= 3600:
+        return f"{t / 3600:g} h"
+    return f"{t:g} s" if t >= 0.01 else f"{t * 1000:g} ms"
+
+
+def _inf(values: Sequence[float | None]) -> list[float]:
+    return [math.inf if v is None else v for v in values]
+
+
+def draw_oc_chart(pdf: ReportPdf, c: OcChart, x: float, y: float, width: float) -> None:
+    """One fuse or breaker pair: title, verdict, log-log plot, legend and the data it rests on."""
+    pdf.set_y(y)
+    title = f"Pair {c.number}: {c.up_label} ({c.up_name}) over {c.down_label} ({c.down_name})"
+    pdf.para(x, width, 5, title, 10.5, True)
+    pdf.para(x, width, 4.2, f"Verdict: {c.verdict} — {c.verdict_words}.", 9, True)
+    pdf.para(x, width, 3.9, c.explanation + ".", 7.8, False, MUTED)
+    top = pdf.get_y() + 5.5
+    px, pw, py, ph = x + 16, width - 20, top, OC_PLOT_H
+    xmin, xmax = c.current_span_a
+    ymin, ymax = c.time_span_s
+    lx0, lx1 = math.log10(xmin), math.log10(xmax)
+    ly0, ly1 = math.log10(ymin), math.log10(ymax)
+
+    def fx(v: float) -> float:
+        v = min(max(v, xmin), xmax)
+        return px + pw * (math.log10(v) - lx0) / (lx1 - lx0)
+
+    def fy(t: float) -> float:
+        t = min(max(t, ymin), ymax)
+        return py + ph - ph * (math.log10(t) - ly0) / (ly1 - ly0)
+
+    pdf.set_line_width(0.15)
+    pdf.font(6.4)
+    pdf.ink(MUTED)
+    for v, major in _log_ticks(xmin, xmax):
+        pdf.set_draw_color(*((214, 219, 224) if major else (236, 239, 242)))
+        pdf.line(fx(v), py, fx(v), py + ph)
+        if major or (lx1 - lx0) < 2.5:
+            pdf.set_xy(fx(v) - 8, py + ph + 0.8)
+            pdf.cell(16, 3, fmt_a(v), align="C")
+    for t, major in _log_ticks(ymin, ymax):
+        if not major:
+            continue
+        pdf.set_draw_color(214, 219, 224)
+        pdf.line(px, fy(t), px + pw, fy(t))
+        pdf.set_xy(px - 15.5, fy(t) - 1.5)
+        pdf.cell(15, 3, _fmt_s(t), align="R")
+    cur = c.currents_a
+    for mins, maxs, rig_min, rig_max, rgb in (
+        (c.down_min, c.down_max, c.down_min_rig, c.down_max_rig, DOWN_COLOUR),
+        (c.up_min, c.up_max, c.up_min_rig, c.up_max_rig, UP_COLOUR),
+    ):
+        if not mins:
+            continue
+        _band(pdf, cur, _inf(mins), _inf(maxs), rgb, fx, fy, ymin, ymax)
+        pdf.set_draw_color(*rgb)
+        pdf.set_line_width(0.2)
+        for series in (rig_min, rig_max):
+            pts = [(fx(i), fy(t)) for i, t in zip(cur, series, strict=True) if t is not None]
+            if len(pts) > 1:
+                pdf.polyline(pts)
+    for lo, hi, kind in c.ranges:
+        a, b = max(lo, xmin), min(hi, xmax)
+        if b <= a:
+            continue
+        colour = CLASH_STRONG if kind == "not-selective" else UNSHOWN
+        with pdf.local_context(fill_opacity=0.3):
+            pdf.set_fill_color(*colour)
+            pdf.rect(fx(a), py, max(fx(b) - fx(a), 0.3), ph, style="F")
+    for value, rgb, text in (
+        (c.i_max_a, CLASH_EDGE, "largest fault current"),
+        (c.limit_a, LIMIT, "selective up to"),
+    ):
+        if value is None or not (xmin <= value <= xmax):
+            continue
+        pdf.set_draw_color(*rgb)
+        pdf.set_line_width(0.45)
+        pdf.set_dash_pattern(dash=1.5, gap=1.0)
+        pdf.line(fx(value), py, fx(value), py + ph)
+        pdf.set_dash_pattern()
+        pdf.font(6)
+        pdf.ink(rgb)
+        ty = py + 0.8 if rgb == LIMIT else py + 4
+        if fx(value) > px + pw - 32:
+            pdf.set_xy(fx(value) - 31, ty)
+            pdf.cell(30, 3, f"{text} {fmt_a(value)}", align="R")
+        else:
+            pdf.set_xy(fx(value) + 0.6, ty)
+            pdf.cell(30, 3, f"{text} {fmt_a(value)}")
+    pdf.set_draw_color(*MUTED)
+    pdf.set_line_width(0.3)
+    pdf.rect(px, py, pw, ph)
+    pdf.font(6.8)
+    pdf.ink(MUTED)
+    pdf.set_xy(px, py + ph + 4.2)
+    pdf.cell(pw, 3, "prospective current", align="C")
+    pdf.set_xy(x, py - 5.2)
+    pdf.cell(15.5, 3, "time", align="R")
+    ly = py + ph + 8.5
+    _legend(pdf, x, ly, UP_COLOUR, "upstream", f"{c.up_label} ({c.up_name})")
+    _legend(pdf, x, ly + 4.2, DOWN_COLOUR, "downstream", f"{c.down_label} ({c.down_name})")
+    _legend(
+        pdf, x, ly + 8.4, CLASH_STRONG, "not selective", "the upstream device may operate first"
+    )
+    _legend(pdf, x, ly + 12.6, UNSHOWN, "not shown", "the published bands cannot settle it")
+    pdf.set_y(ly + 17.5)
+    pdf.para(
+        x, width, 3.8, "Shaded: estimate; thin lines: staircase (guaranteed).", 7.4, False, MUTED
+    )
+    for line in [*c.data, *c.notes]:
+        pdf.para(x, width, 3.6, "• " + line, 7.2, False, MUTED)
+
+
+def _zs_table(pdf: ReportPdf, rows: list[ZsRow]) -> None:
+    widths = (0.14, 0.14, 0.11, 0.09, 0.17, 0.11, 0.24)
+    w = pdf.content_w
+    pdf.para(pdf.l_margin, w, 7, TITLE, 13, True)
+    pdf.para(pdf.l_margin, w, 4, NOTE, 8, False, MUTED)
+    pdf.set_y(pdf.get_y() + 2)
+
+    def line(cells: Sequence[str], bold: bool) -> None:
+        heights = [
+            pdf.para_h(f * w - 1, 3.8, t, 7.6, bold) for f, t in zip(widths, cells, strict=True)
+        ]
+        h = max(heights) + 1.2
+        if pdf.get_y() + h > pdf.bottom:
+            pdf.add_page()
+        y0 = pdf.get_y()
+        x = pdf.l_margin
+        for f, text in zip(widths, cells, strict=True):
+            pdf.set_y(y0)
+            pdf.para(x, f * w - 1, 3.8, text, 7.6, bold, INK)
+            x += f * w
+        pdf.set_y(y0 + h)
+        pdf.set_draw_color(220, 224, 228)
+        pdf.set_line_width(0.15)
+        pdf.line(pdf.l_margin, y0 + h - 0.4, pdf.l_margin + w, y0 + h - 0.4)
+
+    line(COLUMNS, True)
+    for r in rows:
+        line(r.cells(), False)
+
+
+def study_pdf(doc: StudyDoc) -> bytes:
+    pdf = ReportPdf(doc.heading, "portrait")
+    pdf.add_page()
+    count = len(doc.rcd) + len(doc.oc)
+    lead = (
+        f"{count} series pair(s): for each, the bands of both devices, the verdict, the currents "
+        "where selectivity is not shown or not given, and the data it rests on."
+    )
+    pdf.title_block(doc.heading, lead)
+    w = pdf.content_w
+    pdf.para(pdf.l_margin, w, 7, "Residual-current pairs", 13, True)
+    pdf.para(pdf.l_margin, w, 4, RCD_METHOD, 8, False, MUTED)
+    if not doc.rcd:
+        pdf.para(pdf.l_margin, w, 4.5, "No series pairs of residual-current devices.", 9)
+    for s in doc.rcd:
+        if pdf.get_y() + CHART_BLOCK_H > pdf.bottom:
+            pdf.add_page()
+        pdf.para(pdf.l_margin, w, 4.5, f"Verdict: {s.verdict}", 9, True)
+        draw_chart(pdf, s.chart, pdf.l_margin, pdf.get_y(), w)
+    pdf.add_page()
+    pdf.para(pdf.l_margin, w, 7, "Fuse and breaker pairs", 13, True)
+    pdf.para(pdf.l_margin, w, 4, OC_METHOD, 8, False, MUTED)
+    if not doc.oc:
+        pdf.para(pdf.l_margin, w, 4.5, "No series pairs of overcurrent devices.", 9)
+    for c in doc.oc:
+        if pdf.get_y() + OC_BLOCK_H > pdf.bottom:
+            pdf.add_page()
+        draw_oc_chart(pdf, c, pdf.l_margin, pdf.get_y() + 3, w)
+    if doc.zs_rows:
+        pdf.add_page()
+        _zs_table(pdf, doc.zs_rows)
+    caution_box(pdf, doc.caution)
+    pdf.stamp_pages()
+    return bytes(pdf.output())
