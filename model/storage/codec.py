@@ -16,9 +16,9 @@ version only when it is next saved.
 
 from __future__ import annotations
 
-import hashlib
 import contextlib
 import gc
+import hashlib
 import json
 import os
 import re
@@ -90,7 +90,7 @@ _NUMBER_HOOKS: dict[str, Callable[[str], Any]] = {
 }
 #: Text that may hold a number the hooks would refuse (also matches inside strings:
 #: then the slower careful reading is used, with the same result).
-_RISKY_NUMBER = re.compile(r"\d{%d,}|[eE][+-]?\d{3,}" % (_MAX_NUMBER_DIGITS + 1))
+_RISKY_NUMBER = re.compile(rf"\d{{{_MAX_NUMBER_DIGITS + 1},}}|[eE][+-]?\d{{3,}}")
 
 
 @contextlib.contextmanager
