@@ -16,11 +16,13 @@ version only when it is next saved.
 
 from __future__ import annotations
 
+import contextlib
+import gc
 import hashlib
 import json
 import os
 import re
-from collections.abc import Callable
+from collections.abc import Callable, Iterator
 from typing import Any
 
 from pydantic import ValidationError
@@ -82,6 +84,29 @@ def _refuse_constant(name: str) -> Any:
     raise _BadLiteral(name, f"{name} is not allowed in a site file (numbers must be finite)")
 
 
+_NUMBER_HOOKS: dict[str, Callable[[str], Any]] = {
+    "parse_float": _parse_float,
+    "parse_int": _parse_int,
+}
+#: Text that may hold a number the hooks would refuse (also matches inside strings:
+#: then the slower careful reading is used, with the same result).
+_RISKY_NUMBER = re.compile(rf"\d{{{_MAX_NUMBER_DIGITS + 1},}}|[eE][+-]?\d{{3,}}")
+
+
+@contextlib.contextmanager
+def _gc_paused() -> Iterator[None]:
+    """Pause the cyclic garbage collector while a site is built: building tens of
+    thousands of objects that all stay alive triggers collections that find nothing
+    (a large site validates in about half the time)."""
+    was_on = gc.isenabled()
+    gc.disable()
+    try:
+        yield
+    finally:
+        if was_on:
+            gc.enable()
+
+
 def _line_col(text: str, index: int) -> tuple[int, int]:
     line = text.count("\n", 0, index) + 1
     return line, index - (text.rfind("\n", 0, index) + 1) + 1
@@ -126,14 +151,18 @@ def _decode_json(data: str | bytes, path: str | os.PathLike[str] | None) -> Any:
         text = text[1:]
     if not text.strip():
         raise SiteLoadError(path, "the file is empty")
+    # The number hooks cost a Python call per number; they can only refuse a run of
+    # over 40 digits or an exponent of three digits or more, so a text without
+    # either is read by the C parser's own number reading (the result is the same).
+    numbers = {} if _RISKY_NUMBER.search(text) is None else _NUMBER_HOOKS
     try:
-        return json.loads(
-            text,
-            parse_constant=_refuse_constant,
-            parse_float=_parse_float,
-            parse_int=_parse_int,
-            object_pairs_hook=_no_duplicate_keys,
-        )
+        with _gc_paused():
+            return json.loads(
+                text,
+                parse_constant=_refuse_constant,
+                object_pairs_hook=_no_duplicate_keys,
+                **numbers,  # type: ignore[arg-type]
+            )
     except json.JSONDecodeError as exc:
         raise SiteLoadError(
             path, f"not valid JSON at line {exc.lineno}, column {exc.colno}: {exc.msg}"
@@ -197,7 +226,8 @@ def migrate(raw: dict[str, Any], path: str | os.PathLike[str] | None = None) -> 
 
 def _validate(raw: dict[str, Any], path: str | os.PathLike[str] | None) -> SiteFile:
     try:
-        return SiteFile.model_validate(raw)
+        with _gc_paused():
+            return SiteFile.model_validate(raw)
     except ValidationError as exc:
         raise SiteLoadError(path, describe_validation_error(exc, raw)) from None
     except RecursionError:

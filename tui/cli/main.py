@@ -16,23 +16,28 @@ from collections.abc import Sequence
 from model import __version__
 from tui.cli.output import SafeStream, guarded_output
 
-COMMAND_MODULES = [
-    "tui.cli.commands.check",
-    "tui.cli.commands.schema",
-    "tui.cli.commands.demo",
-    "tui.cli.commands.compare",
-    "tui.cli.commands.merge",
-    "tui.cli.commands.import_readings",
-    "tui.cli.commands.report",
-    "tui.cli.commands.print_",
-    "tui.cli.commands.open",
-    "tui.cli.commands.new",
-]
+#: Every sub-command and the module that registers it.  Only the module of the
+#: command being run is imported (a start-up cost the user would otherwise pay
+#: for every command); ``tripwise --help`` and an unknown word load them all.
+COMMANDS: dict[str, str] = {
+    "check": "tui.cli.commands.check",
+    "schema": "tui.cli.commands.schema",
+    "demo": "tui.cli.commands.demo",
+    "compare": "tui.cli.commands.compare",
+    "merge": "tui.cli.commands.merge",
+    "import-readings": "tui.cli.commands.import_readings",
+    "report": "tui.cli.commands.report",
+    "print": "tui.cli.commands.print_",
+    "open": "tui.cli.commands.open",
+    "new": "tui.cli.commands.new",
+}
+COMMAND_MODULES = list(COMMANDS.values())
 
 EXIT_OK, EXIT_FINDINGS, EXIT_BAD_INPUT = 0, 1, 2
 
 
-def build_parser() -> argparse.ArgumentParser:
+def build_parser(only: str | None = None) -> argparse.ArgumentParser:
+    """The parser; with ``only``, just that command is registered (its module alone imported)."""
     parser = argparse.ArgumentParser(
         prog="tripwise",
         description="Residual-current protection checks for inspectors. Results support, and "
@@ -40,7 +45,7 @@ def build_parser() -> argparse.ArgumentParser:
     )
     parser.add_argument("--version", action="version", version=f"tripwise {__version__}")
     sub = parser.add_subparsers(dest="command", metavar="COMMAND")
-    for name in COMMAND_MODULES:
+    for name in [COMMANDS[only]] if only in COMMANDS else COMMAND_MODULES:
         importlib.import_module(name).register(sub)
     return parser
 
@@ -53,10 +58,9 @@ def main(argv: Sequence[str] | None = None) -> int:
 
 def _run(argv: Sequence[str] | None, messages: SafeStream) -> int:
     args_in = list(sys.argv[1:] if argv is None else argv)
-    parser = build_parser()
-    known = set(parser._subparsers._group_actions[0].choices) if parser._subparsers else set()  # type: ignore[union-attr]
-    if args_in and not args_in[0].startswith("-") and args_in[0] not in known:
-        args_in = ["open", *args_in] if "open" in known else args_in
+    if args_in and not args_in[0].startswith("-") and args_in[0] not in COMMANDS:
+        args_in = ["open", *args_in]
+    parser = build_parser(args_in[0] if args_in else None)
     try:
         args = parser.parse_args(args_in)
     except SystemExit as exc:

@@ -29,8 +29,9 @@ def run(args: argparse.Namespace) -> int:
     result = analyse(site)
     if args.json:
         doc = {"site": site.site.name, "file": args.site, **result.as_json()}
-        json.dump(doc, sys.stdout, ensure_ascii=False, indent=2)
-        sys.stdout.write("\n")
+        # Built whole, then written once: json.dump writes piece by piece, one
+        # system call each when the output is unbuffered.
+        sys.stdout.write(json.dumps(doc, ensure_ascii=False, indent=2) + "\n")
     else:
         sys.stdout.write(check_text(site, result))
     return 1 if result.findings else 0
