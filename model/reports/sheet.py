@@ -13,6 +13,7 @@ from typing import Any
 
 from model.reports.heading import Heading, build_heading
 from model.reports.text import clean, clean_lines, with_way
+from model.reports.zs_sheet import ZsRow
 from model.rules.bands import (
     GROUP_TITLE,
     group_of,
@@ -106,6 +107,8 @@ class SheetDoc:
     required_groups: tuple[str, ...]
     rules_source: str
     caution: str = CAUTION
+    #: One row per circuit fed through an overcurrent device (Zs against its maximum).
+    zs_rows: tuple[ZsRow, ...] = ()
 
 
 def _mark(flag: str | None, value: object, judged: bool) -> str:

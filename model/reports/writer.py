@@ -17,6 +17,7 @@ import os
 import re
 import unicodedata
 from collections.abc import Callable
+from dataclasses import replace
 from pathlib import Path
 from typing import Any, Literal
 
@@ -162,12 +163,13 @@ def render(
             later=later,
         )
     else:
-        doc = build_sheet(shown, generated=generated, later=later)
+        from model.reports.zs_sheet import build_zs_rows
+
+        rows = build_zs_rows(shown, analysis if analysis is not None else analyse(shown))
+        doc = replace(build_sheet(shown, generated=generated, later=later), zs_rows=tuple(rows))
         if fmt == "md":
             from model.reports.render.md_study import zs_table_md
-            from model.reports.zs_sheet import build_zs_rows
 
-            rows = build_zs_rows(shown, analysis if analysis is not None else analyse(shown))
             text = renderer(doc).decode("utf-8")
             cut = text.rfind("\n---\n")  # the table goes before the closing caution
             cut = len(text) if cut < 0 else cut

@@ -56,8 +56,26 @@ class ZsRow:
         )
 
 
-def _row(idx: object, d: Disconnection) -> ZsRow:
+def _way(idx: object, d: Disconnection) -> str:
+    """The circuit's way as numbered on site, else its protective device's ('' if neither)."""
+    node = idx.node  # type: ignore[attr-defined]
+    for nid in (d.circuit, d.device):
+        way = getattr(node(nid), "way", "") if nid else ""
+        if way:
+            return str(way)
+    return ""
+
+
+def _circuit_name(idx: object, d: Disconnection) -> str:
+    """The circuit's label; a circuit without one is named by its device's label."""
     label = idx.label  # type: ignore[attr-defined]
+    name = str(label(d.circuit))
+    if name == d.circuit and d.device and label(d.device) != d.device:
+        return f"{label(d.device)} ({d.circuit})"
+    return name
+
+
+def _row(idx: object, d: Disconnection) -> ZsRow:
     zs_max = "—"
     if d.zs_max_ohm is not None:
         zs_max = f"{d.zs_max_ohm:.3g} Ω"
@@ -69,8 +87,8 @@ def _row(idx: object, d: Disconnection) -> ZsRow:
     mark = d.mark if not d.note else f"{d.mark}: {d.note}"
     return ZsRow(
         circuit_id=d.circuit,
-        way=label(d.device) if d.device else "",
-        circuit=label(d.circuit),
+        way=_way(idx, d),
+        circuit=_circuit_name(idx, d),
         device=d.device_name,
         required="—" if d.required_s is None else f"{d.required_s:g} s",
         zs_max=zs_max,

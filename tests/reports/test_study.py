@@ -45,7 +45,7 @@ def test_study_md_carries_ranges_data_and_loop_rows(tmp_path: Path) -> None:
     assert "measured at Workshop board on visit 2026-11-20" in text  # the data it rests on
     # one row per circuit: way, circuit, device, required time, Zs maximum, measured, mark
     assert (
-        "| Workshop sockets | c-ws | B16 | 0.4 s | 2.73 Ω (cold 2.19 Ω) | 2.31 Ω | too high |"
+        "| 2 | Workshop sockets (c-ws) | B16 | 0.4 s | 2.73 Ω (cold 2.19 Ω) | 2.31 Ω | too high |"
         in text
     )
     assert CAUTION.split(".")[0] in text
@@ -56,7 +56,8 @@ def test_test_sheet_md_gains_the_loop_table_before_the_caution(tmp_path: Path) -
     table = text.index("## Loop impedance and disconnection")
     assert table < text.rindex("\n---\n")
     assert (
-        "| Saw fuse | c-saw | gG 20 A | 0.4 s | 1.48 Ω (cold 1.18 Ω) | 1.3 Ω | too high |" in text
+        "| 1 | Saw fuse (c-saw) | gG 20 A | 0.4 s | 1.48 Ω (cold 1.18 Ω) | 1.3 Ω | too high |"
+        in text
     )
 
 
@@ -76,3 +77,20 @@ def test_remedial_list_carries_the_new_findings(tmp_path: Path) -> None:
         "overcurrent.not-selective",
     ):
         assert rule in text.replace("\\", "")
+
+
+@pytest.mark.parametrize("fmt", ["pdf", "txt"])
+def test_test_sheet_pdf_and_text_carry_the_loop_table(tmp_path: Path, fmt: str) -> None:
+    # BS 7671 Table 41.1 and 411.4.4: B16 at 230 V, 0.4 s: Ia = 5 × 16 A, Zs max =
+    # 0.95 × 230 / 80 = 2.73 Ω, 0.8 × that = 2.19 Ω for a cold reading (common practice)
+    out = write_report(load_site(EXAMPLE), "sheet", fmt, tmp_path / f"sheet.{fmt}")
+    if fmt == "pdf":
+        import pypdf
+
+        text = " ".join(p.extract_text() for p in pypdf.PdfReader(out).pages)
+    else:
+        text = out.read_text(encoding="utf-8")
+    flat = " ".join(text.split())
+    assert "Loop impedance and disconnection" in flat
+    assert "2.73 Ω (cold 2.19 Ω)" in flat and "Workshop sockets (c-ws)" in flat
+    assert "too high" in flat

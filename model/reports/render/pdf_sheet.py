@@ -210,6 +210,11 @@ def sheet_pdf(doc: SheetDoc) -> bytes:
                 span = _span_text(r)
                 _value_row(table, r, n % 2 == 1, span)
                 _band_row(table, r, n % 2 == 1, span)
+    if doc.zs_rows:
+        from model.reports.render.pdf_study import zs_table
+
+        pdf.set_y(pdf.get_y() + 6)
+        zs_table(pdf, list(doc.zs_rows))
     caution_box(pdf, doc.caution)
     pdf.stamp_pages()
     return bytes(pdf.output())

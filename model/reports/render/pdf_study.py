@@ -148,7 +148,8 @@ def draw_oc_chart(pdf: ReportPdf, c: OcChart, x: float, y: float, width: float) 
         pdf.para(x, width, 3.6, "• " + line, 7.2, False, MUTED)
 
 
-def _zs_table(pdf: ReportPdf, rows: list[ZsRow]) -> None:
+def zs_table(pdf: ReportPdf, rows: list[ZsRow]) -> None:
+    """The loop-impedance section (the study and the test sheet print it alike)."""
     widths = (0.14, 0.14, 0.11, 0.09, 0.17, 0.11, 0.24)
     w = pdf.content_w
     pdf.para(pdf.l_margin, w, 7, TITLE, 13, True)
@@ -208,7 +209,7 @@ def study_pdf(doc: StudyDoc) -> bytes:
         draw_oc_chart(pdf, c, pdf.l_margin, pdf.get_y() + 3, w)
     if doc.zs_rows:
         pdf.add_page()
-        _zs_table(pdf, doc.zs_rows)
+        zs_table(pdf, doc.zs_rows)
     caution_box(pdf, doc.caution)
     pdf.stamp_pages()
     return bytes(pdf.output())

@@ -7,7 +7,9 @@ import textwrap
 from model.reports.heading import Heading
 from model.reports.remedial import CHECK_IDS_TITLE, RemedialDoc
 from model.reports.sheet import MARK_FAIL, MARK_NOT_JUDGED, MARK_OUT, MARK_PASS, SheetCell, SheetDoc
-from model.reports.text import clean
+from model.reports.text import clean, with_way
+from model.reports.zs_sheet import NOTE as ZS_NOTE
+from model.reports.zs_sheet import TITLE as ZS_TITLE
 
 WIDTH = 100
 _IND = " " * 17
@@ -114,5 +116,11 @@ def sheet_txt(doc: SheetDoc) -> bytes:
             lines.append(f"    {'Test button':<26}{button}")
         if r.note:
             lines += _wrap(r.note, "          ", "    Note: ")
+    if doc.zs_rows:
+        lines += ["", ZS_TITLE, "-" * len(ZS_TITLE), *_wrap(ZS_NOTE)]
+        for z in doc.zs_rows:
+            lines += ["", *_wrap(f"{with_way(z.circuit, z.way)}, {z.device}", "    ")]
+            lines.append(f"    required time {z.required}; Zs maximum {z.zs_max}")
+            lines += _wrap(f"measured {z.measured or '—'}: {z.mark}", "      ", "    ")
     lines += _bottom(h, doc.caution)
     return ("\n".join(lines) + "\n").encode("utf-8")
