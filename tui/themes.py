@@ -46,6 +46,8 @@ _DARK_TONES: dict[str, str] = {
     "tw-chart-down": "#56b6e2",  # the downstream device
     "tw-chart-shade": "#78343c",  # currents where selectivity is not guaranteed
     "tw-chart-fault": "#8c8c8c",  # the largest fault current
+    "tw-chart-limit": "#5aaa5a",  # the current a pair is selective up to
+    "tw-chart-unshown": "#5a5a5a",  # currents the published bands cannot settle
 }
 
 #: The same variables for daylight: dark text on a pale ground, deeper colours
@@ -81,6 +83,8 @@ _LIGHT_TONES: dict[str, str] = {
     "tw-chart-down": "#0a5f8f",
     "tw-chart-shade": "#e7b7bd",
     "tw-chart-fault": "#6b6b6b",
+    "tw-chart-limit": "#2e7d32",
+    "tw-chart-unshown": "#b0b0b0",
 }
 
 THEMES: dict[str, Theme] = {

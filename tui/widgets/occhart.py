@@ -23,10 +23,12 @@ from textual_plotext.plot import Plot
 
 from model.reports.oc_chart import OcChart
 from model.rules.overcurrent.pairs import fmt_a
-from tui.widgets.bandchart import DOWN_RGB, FAULT_RGB, SHADE_RGB, TOP_FACTOR, UP_RGB, _hex
+from tui.themes import tone
+from tui.widgets.bandchart import DOWN, FAULT, SHADE, TOP_FACTOR, UP, _rgb
 
-LIMIT_RGB = (90, 170, 90)
-UNSHOWN_RGB = (90, 90, 90)
+#: Theme variables (tui/themes.py) of the marks only this chart has.
+LIMIT = "$tw-chart-limit"
+UNSHOWN = "$tw-chart-unshown"
 
 
 def _fmt_s(t: float) -> str:
@@ -49,11 +51,11 @@ def draw_oc_pair(plt: Plot, chart: OcChart) -> None:
     for lo, hi, kind in chart.ranges:
         a, b = max(lo, x_lo), min(hi, x_hi)
         if b > a:
-            rgb, mark = (SHADE_RGB, "░") if kind == "not-selective" else (UNSHOWN_RGB, "▒")
+            rgb, mark = (_rgb(SHADE), "░") if kind == "not-selective" else (_rgb(UNSHOWN), "▒")
             plt.plot([log(a), log(b)], [log(top), log(top)], fillx=True, marker=mark, color=rgb)
     for mins, maxs, rgb in (
-        (chart.up_min, chart.up_max, UP_RGB),
-        (chart.down_min, chart.down_max, DOWN_RGB),
+        (chart.up_min, chart.up_max, _rgb(UP)),
+        (chart.down_min, chart.down_max, _rgb(DOWN)),
     ):
         if not mins:
             continue
@@ -66,9 +68,9 @@ def draw_oc_pair(plt: Plot, chart: OcChart) -> None:
         plt.plot(xs, lows, marker="dot", color=rgb)
         plt.plot(xs, highs, marker="braille", color=rgb)
     if chart.i_max_a is not None and x_lo < chart.i_max_a < x_hi:
-        plt.vline(log(chart.i_max_a), FAULT_RGB)
+        plt.vline(log(chart.i_max_a), _rgb(FAULT))
     if chart.limit_a is not None and x_lo < chart.limit_a < x_hi:
-        plt.vline(log(chart.limit_a), LIMIT_RGB)
+        plt.vline(log(chart.limit_a), _rgb(LIMIT))
     plt.xlim(log(x_lo), log(x_hi))
     plt.ylim(log(t_lo), log(top))
     x_dec = range(math.ceil(log(x_lo)), math.floor(log(x_hi)) + 1)
@@ -81,22 +83,22 @@ def draw_oc_pair(plt: Plot, chart: OcChart) -> None:
 def oc_legend(chart: OcChart) -> Text:
     """The key to the chart, in the chart's colours."""
     text = Text()
-    text.append("━ ", style=_hex(UP_RGB))
+    text.append("━ ", style=tone(UP))
     text.append(f"upstream {chart.up_label} ({chart.up_name})   ")
-    text.append("━ ", style=_hex(DOWN_RGB))
+    text.append("━ ", style=tone(DOWN))
     text.append(f"downstream {chart.down_label} ({chart.down_name})")
     text.append("\nsolid: operated by · dotted: not before · dots between: estimate · ")
-    text.append("░", style=_hex(SHADE_RGB))
+    text.append("░", style=tone(SHADE))
     text.append(" not selective ")
-    text.append("▒", style=_hex(UNSHOWN_RGB))
+    text.append("▒", style=tone(UNSHOWN))
     text.append(" not shown")
     if chart.i_max_a is not None:
         text.append(" · ")
-        text.append("│", style=_hex(FAULT_RGB))
+        text.append("│", style=tone(FAULT))
         text.append(f" largest fault {fmt_a(chart.i_max_a)}")
     if chart.limit_a is not None:
         text.append(" · ")
-        text.append("│", style=_hex(LIMIT_RGB))
+        text.append("│", style=tone(LIMIT))
         text.append(f" selective up to {fmt_a(chart.limit_a)}")
     return text
 
