@@ -244,7 +244,8 @@ async def test_save_error_is_shown_and_recovered_lines_too(
         monkeypatch.setattr(app.session, "save", full_disk)
         app.main.select("wb")
         await pilot.press("c")  # any accepted edit
-        assert app.save_state == "pending"
+        # the autosave may already have tried (and failed) by now: either way not saved
+        assert app.save_state in ("pending", "error")
         await pilot.press("ctrl+s")
         assert app.save_state == "error"
         bar = str(app.screen.query_one("#save-state").render())

@@ -11,6 +11,7 @@ from textual.widgets import Label, OptionList
 from textual.widgets.option_list import Option
 
 from tui.screens.closing import Dialog
+from tui.themes import tone
 
 
 class ChoiceScreen(Dialog[str | None]):
@@ -54,7 +55,7 @@ class ChoiceScreen(Dialog[str | None]):
         key = self._keys.get(value)
         if key is None:
             return Text(text)
-        return Text.assemble((f"{key} ", "bold #e0a526"), text)
+        return Text.assemble((f"{key} ", tone("bold $tw-value")), text)
 
     def on_key(self, event: events.Key) -> None:
         ch = event.character or ""
