@@ -33,7 +33,13 @@ from tui.widgets.findings_panel import FindingsTable
 README = Path(__file__).resolve().parents[2] / "README.md"
 Check = Callable[[TripwiseApp, Any], Awaitable[None]]
 #: README's key names as the keys pressed.
-PRESS = {"F1": "f1", "?": "question_mark", "esc": "escape", "pgdn": "pagedown"}
+PRESS = {
+    "F1": "f1",
+    "?": "question_mark",
+    "esc": "escape",
+    "pgdn": "pagedown",
+    "!": "exclamation_mark",
+}
 PRESS |= {"pgup": "pageup", "↑": "up", "↓": "down"}
 
 
@@ -135,6 +141,26 @@ def _filter(which: str) -> Check:
         app.main.focus_tree()
 
     return check
+
+
+async def _or_worse(app: TripwiseApp, pilot: Any, key: str) -> None:
+    panel = app.main.findings
+    before = panel.or_worse
+    app.main.focus_findings()
+    await pilot.press(key)
+    assert panel.or_worse is (not before)
+    await pilot.press(key)
+    app.main.focus_tree()
+
+
+async def _theme(app: TripwiseApp, pilot: Any, key: str) -> None:
+    # the settings file goes to the test's own folder (tests/tui/conftest.py)
+    before = app.theme
+    app.main.focus_tree()
+    await pilot.press(key)
+    assert app.theme != before
+    await pilot.press(key)
+    assert app.theme == before
 
 
 async def _form_next(app: TripwiseApp, pilot: Any, key: str) -> None:
@@ -313,6 +339,8 @@ CHECKS: dict[tuple[str, str], Callable[[str], Check]] = {
     ("findings", "enter"): lambda k: lambda a, p: _jump(a, p, k),
     ("findings", "1"): _const(_filter("severity")),
     ("findings", "2"): _const(_filter("board")),
+    ("findings", "!"): lambda k: lambda a, p: _or_worse(a, p, k),
+    ("anywhere", "l"): lambda k: lambda a, p: _theme(a, p, k),
     ("form", "enter"): lambda k: lambda a, p: _form_next(a, p, k),
     ("form", "ctrl+s"): lambda k: lambda a, p: _form_apply(a, p, k),
     ("form", "esc"): lambda k: lambda a, p: _form_cancel(a, p, k),

@@ -336,9 +336,11 @@ async def test_a_non_standard_rating_is_kept_with_a_note(oak_lane: Path) -> None
     app = make_app(oak_lane)
     async with app.run_test(size=(120, 40)) as pilot:
         app.main.select("rc1")
-        await pilot.press("e", "enter", "ctrl+u", "7")  # label, Enter to IΔn, 7 mA
+        await pilot.press("e")
         editor = app.screen
         assert isinstance(editor, NodeEditorScreen)
+        editor.query_one("#f-idn_ma").focus()
+        await pilot.press("ctrl+u", "7")  # IΔn 7 mA
         # IEC 61008-1 preferred values of IΔn are 6, 10, 30, 100, 300, 500 mA (from memory)
         note = str(editor.query_one("#err-idn_ma").render())
         assert "not a standard rating" in note and "idn_ma" not in editor.errors
