@@ -40,7 +40,7 @@ def build_parser(only: str | None = None) -> argparse.ArgumentParser:
     """The parser; with ``only``, just that command is registered (its module alone imported)."""
     parser = argparse.ArgumentParser(
         prog="tripwise",
-        description="Residual-current protection checks for inspectors. Results support, and "
+        description="Protection checks for inspectors (RCDs, fuses, breakers). Results support, and "
         "do not replace, your judgement and local wiring rules; nothing here is a certificate.",
     )
     parser.add_argument("--version", action="version", version=f"tripwise {__version__}")
