@@ -200,6 +200,11 @@ def device_name(node: Any) -> str:
     return str(kind)
 
 
+#: The smallest breaker rating makers list (from memory; IEC 60898-1 sets only the
+#: upper end, 125 A).  A smaller value is a typing slip, never given a band.
+BREAKER_MIN_A = 0.5
+
+
 def band_of(node: Any) -> Band | str:
     """The band of an overcurrent device, or the reason why the published data give none.
 
@@ -211,7 +216,7 @@ def band_of(node: Any) -> Band | str:
     kind = d["kind"]
     if kind == "mcb" or kind == "rcbo":
         curve, rated = d["curve"], d["rated_a"]
-        if curve is not None and rated is not None and rated <= 125:
+        if curve is not None and rated is not None and BREAKER_MIN_A <= rated <= 125:
             return breaker_band(str(curve), float(rated))
     return _band_reason_or_band(node, device_name(node), kind)
 
@@ -234,6 +239,12 @@ def _band_reason_or_band(node: Any, name: str, kind: str) -> Band | str:
             return f"{name}: curve and rated current are needed (curve, rated_a)"
         if node.rated_a > 125:
             return f"{name}: IEC 60898-1 covers breakers up to 125 A (maker_curve)"
+        if node.rated_a < BREAKER_MIN_A:
+            return (
+                f"{name}: a rated current of {node.rated_a:g} A is below any breaker's "
+                f"({BREAKER_MIN_A:g} A, from memory); check the rating or record the "
+                "maker's curve (maker_curve)"
+            )
         return breaker_band(str(node.curve), float(node.rated_a))
     return (
         f"{name}: IEC 60947-2 fixes no band shape for an industrial breaker; "
@@ -312,7 +323,10 @@ def evaluate(bands: PackedBands, i_a: FloatArray) -> dict[str, FloatArray]:
     device does not operate); ``max_*`` infinite below the first point of the
     upper boundary (operation not guaranteed).
     """
-    lx = np.log10(i_a)
+    # a current of 0 (a sample under the smallest float) reads as "below every band":
+    # log10 gives -inf there, which the comparisons below handle
+    with np.errstate(divide="ignore"):
+        lx = np.log10(i_a)
     below_min = lx < bands.min_est[0][:, :1]
     below_max = lx < bands.max_est[0][:, :1]
     min_est = np.where(below_min, np.inf, 10.0 ** _loglog(bands.min_est, lx))

@@ -146,7 +146,11 @@ def judge(items: list[PairInput]) -> Judged:
     lo = np.array([it.down_band.non_trip_a for it in items])
     hi = np.maximum(np.array([it.i_max_a for it in items]), lo * (1 + 1e-9))
     limit = np.array([it.maker_limit_a if it.maker_limit_a else np.nan for it in items])
-    grid = lo[:, None] * (hi / lo)[:, None] ** np.linspace(0.0, 1.0, LOG_POINTS)[None, :]
+    # a maker's curve may start at any current above zero: a span too wide for a float
+    # is infinite here, and every sample is clipped back into [lo, hi] below
+    with np.errstate(over="ignore"):
+        span = hi / lo
+    grid = lo[:, None] * span[:, None] ** np.linspace(0.0, 1.0, LOG_POINTS)[None, :]
     parts = [lo[:, None], hi[:, None], grid, np.where(np.isnan(limit), lo, limit)[:, None]]
     for packed in (ups, dns):
         for lx, _ in (packed.min_est, packed.max_est, packed.min_rig, packed.max_rig):
