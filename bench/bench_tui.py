@@ -25,13 +25,13 @@ from typing import Any
 sys.path.insert(0, str(Path(__file__).resolve().parent.parent))
 sys.path.insert(0, str(Path(__file__).resolve().parent))
 
+from bare_app import BareApp  # type: ignore[import-not-found]  # noqa: E402
 from textual.app import App, ComposeResult  # noqa: E402
-from textual.widgets import DataTable, Tree  # noqa: E402
+from textual.widgets import Tree  # noqa: E402
 
 from model.site.models import SiteFile
 from model.site.terms import RCD_KINDS
-from model.site.tree import SiteIndex  # noqa: E402
-from model.storage.sites import load_site, save_site  # noqa: E402
+from model.storage.sites import save_site  # noqa: E402
 from tui.app.shell import make_app  # noqa: E402
 from tui.screens.readings import ReadingScreen  # noqa: E402
 
@@ -91,32 +91,6 @@ except ImportError:  # the shared generator is not on this branch: a small one o
                 "visits": [{"id": "v1", "date": "2026-11-01", "readings": readings}],
             }
         )
-
-
-class BareApp(App[None]):
-    """The yardstick: one Tree and one DataTable filled from the same site file."""
-
-    def __init__(self, path: Path) -> None:
-        super().__init__()
-        self.path = path
-
-    def compose(self) -> ComposeResult:
-        yield Tree("site", id="t")
-        yield DataTable(id="d")
-
-    def on_mount(self) -> None:
-        site = load_site(self.path)
-        idx = SiteIndex.build(site)
-        tree: Tree[str] = self.query_one(Tree)
-        table: DataTable[str] = self.query_one(DataTable)
-        table.add_columns("id", "kind", "label")
-        nodes = {idx.root: tree.root}
-        for nid in idx.order[1:]:
-            n = idx.by_id[nid]
-            parent = nodes[n.parent]
-            nodes[nid] = parent.add(f"{n.label or nid}  {n.kind}", data=nid, expand=True)
-            table.add_row(nid, n.kind, n.label)
-        tree.root.expand()
 
 
 def _tree_size(tree: Tree[Any]) -> int:
