@@ -8,7 +8,6 @@ from typing import Any
 
 from textual.app import SystemCommand
 from textual.screen import Screen
-from textual.theme import Theme
 
 from tui.settings import Settings, load_settings, save_settings
 from tui.themes import DARK, LIGHT, THEME_WORDS, THEMES, tone_defaults
@@ -32,7 +31,7 @@ class LooksMixin:
         app: Any = self
         for note in self.settings.notes:
             app.notify(note, title="Settings", severity="warning", timeout=10)
-        app.theme_changed_signal.subscribe(app, self._theme_changed)
+        app.watch(app, "theme", self._theme_changed, init=False)
 
     def get_theme_variable_defaults(self) -> dict[str, str]:
         # a theme of Textual's own (chosen elsewhere) still has our variables
@@ -42,17 +41,17 @@ class LooksMixin:
         """Daylight if dark, dark if daylight."""
         self.theme = DARK if self.theme == LIGHT else LIGHT
 
-    def _theme_changed(self, theme: Theme) -> None:
+    def _theme_changed(self, name: str) -> None:
         app: Any = self
-        if theme.name not in THEMES:
+        if name not in THEMES:
             return
         for screen in app.screen_stack:
             retone = getattr(screen, "retone", None)
             if retone is not None:
                 retone()
-        if theme.name == self.settings.theme:
+        if name == self.settings.theme:
             return
-        self.settings.theme = theme.name
+        self.settings.theme = name
         problem = save_settings(self.settings)
         if problem:
             app.notify(problem, severity="warning")
