@@ -1,0 +1,174 @@
+"""A planned remedy as data: device changes, and how they are made on a site.
+
+A :class:`DeviceChange` is one line of a remedial plan as an electrician
+would quote it ("replace RCCB rc2 (30 mA, Type AC, general) with a 100 mA
+Type A type S RCCB"): one device, one or more :class:`FieldChange`, and the
+findings the change clears.  :func:`change_ops` turns changes into the site's
+own edit ops (:mod:`model.site.ops`), so the same change is made by the plan
+command (on a copy), by the app (through the journal, undoable) and by the
+tests; :func:`apply_changes` folds them over a site.
+
+A replaced device is a new device: the readings taken of the old one do not
+belong to it, so the ops remove the replaced device's readings from the copy
+(the original site keeps them), and the new device needs its own tests.
+
+A finding is named across two analyses by :func:`finding_key`: its rule and
+the nodes it names (message texts may change with the data; the key does not).
+"""
+
+from __future__ import annotations
+
+from collections.abc import Iterable, Sequence
+from dataclasses import dataclass, field
+from typing import Any
+
+from model.rules.findings import Finding
+from model.site.models import SiteFile
+from model.site.nodes import Node
+from model.site.ops import DeleteNodes, Op, SetReading, UpsertNode, apply_op
+from model.site.terms import RCD_KINDS
+
+#: ``field`` of a :class:`FieldChange` that removes the device (its children move up
+#: to its parent); ``before`` is the device's kind, ``after`` is None.
+REMOVED = "removed"
+
+FindingKey = tuple[str, tuple[str, ...]]
+
+
+def finding_key(f: Finding) -> FindingKey:
+    """What names a finding across analyses: its rule and the nodes it names."""
+    return (f.rule, f.nodes)
+
+
+@dataclass(frozen=True, slots=True)
+class FieldChange:
+    """One field of one device, from one value to another (JSON values; None = absent)."""
+
+    node: str
+    field: str
+    before: Any
+    after: Any
+
+    def as_json(self) -> dict[str, Any]:
+        return {"node": self.node, "field": self.field, "from": self.before, "to": self.after}
+
+
+@dataclass(frozen=True, slots=True)
+class DeviceChange:
+    """One device changed (or removed), as a line of the remedial plan."""
+
+    node: str
+    fields: tuple[FieldChange, ...]
+    #: The findings this change clears (keys of findings of the site before the plan).
+    clears: tuple[FindingKey, ...] = ()
+    #: The change in words: "replace RCCB "Studio RCCB" (30 mA, Type AC, general) with ...".
+    text: str = ""
+
+    @property
+    def removes(self) -> bool:
+        return any(fc.field == REMOVED for fc in self.fields)
+
+
+@dataclass(frozen=True, slots=True)
+class Unresolved:
+    """A finding the plan leaves, and why no device change clears it."""
+
+    finding: Finding
+    reason: str
+
+
+@dataclass
+class Plan:
+    """A set of device changes for a site, with what they clear and what remains."""
+
+    changes: list[DeviceChange] = field(default_factory=list)
+    remaining: list[Unresolved] = field(default_factory=list)
+
+    def as_json(self) -> dict[str, Any]:
+        """The ``plan --json`` form: one entry a field changed, with the findings it clears."""
+        from model.rules.findings import CAUTION
+
+        rows: list[dict[str, Any]] = []
+        for dc in self.changes:
+            clears = [{"rule": r, "nodes": list(n)} for r, n in dc.clears]
+            for fc in dc.fields:
+                rows.append({**fc.as_json(), "clears": clears, "text": dc.text})
+        return {
+            "changes": rows,
+            "remaining": [{**u.finding.as_json(), "reason": u.reason} for u in self.remaining],
+            "caution": PLAN_CAUTION + " " + CAUTION,
+        }
+
+
+#: Said with every plan, in every output, beside the general caution.
+PLAN_CAUTION = (
+    "A plan supports, and does not replace, a competent person's design to the local "
+    "wiring rules: check each change against the installation, the makers' data and "
+    "the loads before any work, isolate and prove dead before working, and test every "
+    "new or changed device after installation."
+)
+
+
+def change_ops(site: SiteFile, changes: Sequence[DeviceChange]) -> list[Op]:
+    """The site's own edit ops that make ``changes`` (in order) on ``site``.
+
+    A field change sets the field on the node (a ``kind`` change makes the node
+    a different kind, keeping id, parent, label, way and notes, plus the fields
+    given); a removal moves the node's children to its parent and deletes it.
+    Readings of a changed residual-current device are removed (they were taken
+    of the device that is being replaced).  Raises ``KeyError`` for an unknown
+    node; an invalid result is refused by :func:`model.site.ops.apply_op`.
+    """
+    nodes: dict[str, Node] = {n.id: n for n in site.nodes}
+    ops: list[Op] = []
+    for dc in changes:
+        node = nodes[dc.node]
+        if dc.removes:
+            for child in [n for n in nodes.values() if n.parent == dc.node]:
+                moved = type(child).model_validate({**child.model_dump(), "parent": node.parent})
+                nodes[child.id] = moved
+                ops.append(UpsertNode(node=moved))
+            ops.extend(_drop_readings(site, dc.node))
+            ops.append(DeleteNodes(ids=[dc.node]))
+            del nodes[dc.node]
+            continue
+        data = node.model_dump(exclude_unset=False)
+        for fc in dc.fields:
+            if fc.after is None:
+                data.pop(fc.field, None)
+            else:
+                data[fc.field] = fc.after
+        new = UpsertNode.model_validate({"node": data}).node
+        nodes[dc.node] = new
+        if node.kind in RCD_KINDS:
+            ops.extend(_drop_readings(site, dc.node))
+        ops.append(UpsertNode(node=new))
+    return ops
+
+
+def _drop_readings(site: SiteFile, device: str) -> Iterable[Op]:
+    for v in site.visits:
+        if device in v.readings:
+            yield SetReading(visit=v.id, device=device, reading=None)
+
+
+def apply_changes(site: SiteFile, changes: Sequence[DeviceChange]) -> SiteFile:
+    """The site after ``changes``; ``site`` itself is never changed."""
+    out = site
+    for op in change_ops(site, changes):
+        out = apply_op(out, op)
+    return out
+
+
+__all__ = [
+    "REMOVED",
+    "DeviceChange",
+    "FieldChange",
+    "FindingKey",
+    "Plan",
+    "PLAN_CAUTION",
+    "Unresolved",
+    "apply_changes",
+    "change_ops",
+    "finding_key",
+]
