@@ -152,6 +152,46 @@ def _drop_readings(site: SiteFile, device: str) -> Iterable[Op]:
             yield SetReading(visit=v.id, device=device, reading=None)
 
 
+@dataclass
+class FindingDiff:
+    """Findings before and after changes, matched by :func:`finding_key`."""
+
+    cleared: list[Finding] = field(default_factory=list)
+    created: list[Finding] = field(default_factory=list)
+    kept: list[Finding] = field(default_factory=list)
+    #: ``reading.missing`` of a changed device: the new device is to be tested after
+    #: installation; expected of every change, never counted as a finding it creates.
+    to_test: list[Finding] = field(default_factory=list)
+
+
+def diff_findings(
+    before: Iterable[Finding], after: Iterable[Finding], changed: Iterable[str] = ()
+) -> FindingDiff:
+    """What ``after`` cleared, created and kept of ``before``.
+
+    A key found n times before and m times after keeps min(n, m), clears or
+    creates the rest.  ``changed``: the ids of the changed devices, whose new
+    ``reading.missing`` findings go to ``to_test``.
+    """
+    changed_ids = set(changed)
+    left: dict[FindingKey, list[Finding]] = {}
+    for f in before:
+        left.setdefault(finding_key(f), []).append(f)
+    out = FindingDiff()
+    for f in after:
+        same = left.get(finding_key(f))
+        if same:
+            same.pop(0)
+            out.kept.append(f)
+        elif f.rule == "reading.missing" and set(f.nodes) <= changed_ids:
+            out.to_test.append(f)
+        else:
+            out.created.append(f)
+    for rest in left.values():
+        out.cleared.extend(rest)
+    return out
+
+
 def apply_changes(site: SiteFile, changes: Sequence[DeviceChange]) -> SiteFile:
     """The site after ``changes``; ``site`` itself is never changed."""
     out = site
@@ -164,11 +204,13 @@ __all__ = [
     "REMOVED",
     "DeviceChange",
     "FieldChange",
+    "FindingDiff",
     "FindingKey",
     "Plan",
     "PLAN_CAUTION",
     "Unresolved",
     "apply_changes",
     "change_ops",
+    "diff_findings",
     "finding_key",
 ]
