@@ -22,10 +22,13 @@ from collections.abc import Iterable, Sequence
 from dataclasses import dataclass, field
 from typing import Any
 
+from pydantic import ValidationError
+
 from model.rules.findings import Finding
+from model.site.messages import describe_validation_error
 from model.site.models import SiteFile
 from model.site.nodes import Node
-from model.site.ops import DeleteNodes, Op, SetReading, UpsertNode, apply_op
+from model.site.ops import DeleteNodes, InvalidEdit, Op, SetReading, UpsertNode, apply_op
 from model.site.terms import RCD_KINDS
 
 #: ``field`` of a :class:`FieldChange` that removes the device (its children move up
@@ -116,13 +119,16 @@ def change_ops(site: SiteFile, changes: Sequence[DeviceChange]) -> list[Op]:
     a different kind, keeping id, parent, label, way and notes, plus the fields
     given); a removal moves the node's children to its parent and deletes it.
     Readings of a changed residual-current device are removed (they were taken
-    of the device that is being replaced).  Raises ``KeyError`` for an unknown
-    node; an invalid result is refused by :func:`model.site.ops.apply_op`.
+    of the device that is being replaced).  Raises :class:`InvalidEdit` (one
+    line, naming the device) for an unknown node or a device the change would
+    make invalid; an invalid site is refused by :func:`model.site.ops.apply_op`.
     """
     nodes: dict[str, Node] = {n.id: n for n in site.nodes}
     ops: list[Op] = []
     for dc in changes:
-        node = nodes[dc.node]
+        node = nodes.get(dc.node)
+        if node is None:
+            raise InvalidEdit(f"cannot change {dc.node}: no such node")
         if dc.removes:
             for child in [n for n in nodes.values() if n.parent == dc.node]:
                 moved = type(child).model_validate({**child.model_dump(), "parent": node.parent})
@@ -138,7 +144,12 @@ def change_ops(site: SiteFile, changes: Sequence[DeviceChange]) -> list[Op]:
                 data.pop(fc.field, None)
             else:
                 data[fc.field] = fc.after
-        new = UpsertNode.model_validate({"node": data}).node
+        try:
+            new = UpsertNode.model_validate({"node": data}).node
+        except ValidationError as exc:
+            raise InvalidEdit(
+                f"cannot change {dc.node}: {describe_validation_error(exc, {'node': data})}"
+            ) from None
         nodes[dc.node] = new
         if node.kind in RCD_KINDS:
             ops.extend(_drop_readings(site, dc.node))
