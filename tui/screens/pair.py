@@ -2,20 +2,16 @@
 
 from __future__ import annotations
 
-from rich.text import Text
-from textual import on
-from textual.app import ComposeResult
-from textual.binding import Binding
-from textual.containers import ScrollableContainer, Vertical
-from textual.widgets import Button, Static
+from textual.widget import Widget
+from textual.widgets import Static
 
 from model.reports.analysis_view import site_index
 from model.reports.charts import CHART_SOURCE, MeasuredPoint, PairChart, pair_chart_data
 from model.rules.bands import GROUP_TITLE, fmt_result, group_of
-from model.rules.findings import CAUTION, Analysis, PairAnalysis, device_text, fmt_ma, fmt_ratio
+from model.rules.findings import Analysis, PairAnalysis, device_text, fmt_ma, fmt_ratio
 from model.rules.limits import CASCADE_RATIO
 from model.site.models import SiteFile
-from tui.screens.closing import Dialog
+from tui.screens.pair_view import PairView
 from tui.widgets.bandchart import BandChart
 
 VERDICT_TITLE = {
@@ -63,17 +59,8 @@ def measured_text(p: PairAnalysis, visit: str | None) -> str:
     return where + p.measured.explanation
 
 
-class PairScreen(Dialog[None]):
+class PairScreen(PairView):
     """Selectivity of an upstream and a downstream residual-current device."""
-
-    BINDINGS = [
-        Binding("escape", "close", "Close"),
-        Binding("q", "close", "Close", show=False),
-        Binding("c", "show_chart", "Chart"),
-    ]
-
-    CSS_PATH = "pair.tcss"
-    HORIZONTAL_BREAKPOINTS = [(0, "-narrow"), (130, "-wide")]
 
     def __init__(self, site: SiteFile, analysis: Analysis, up_id: str, down_id: str) -> None:
         super().__init__()
@@ -90,7 +77,7 @@ class PairScreen(Dialog[None]):
         except (KeyError, ValueError) as exc:
             self.chart_error = str(exc).strip("'")
 
-    def _lines(self) -> list[tuple[str, str, str]]:
+    def rows(self) -> list[tuple[str, str, str]]:
         """(heading, text, css class) rows of the summary."""
         idx = self.index
         up, down = idx.node(self.up_id), idx.node(self.down_id)
@@ -124,44 +111,14 @@ class PairScreen(Dialog[None]):
                 rows.append(("Note", note, "-muted"))
         return rows
 
-    def compose(self) -> ComposeResult:
-        idx = self.index
-        with Vertical(id="pair-box"):
-            yield Static(
-                Text(
-                    f"Selectivity: {idx.label(self.up_id)} above {idx.label(self.down_id)}",
-                    style="bold",
-                ),
-                id="pair-title",
-                markup=False,
-            )
-            with ScrollableContainer(id="pair-body"):
-                with Vertical(id="pair-text"):
-                    for heading, text, cls in self._lines():
-                        row = Text()
-                        row.append(f"{heading}: ", style="bold")
-                        row.append(text)
-                        yield Static(row, classes=f"pair-row {cls}".strip(), markup=False)
-                if self.chart is not None:
-                    yield BandChart(id="pair-chart")
-                else:
-                    yield Static(f"No chart: {self.chart_error}", id="pair-no-chart", markup=False)
-            yield Static(CAUTION, classes="caution", markup=False)
-            yield Button("Close (Esc) · c: chart", id="pair-close", compact=True)
+    def title_text(self) -> str:
+        return f"Selectivity: {self.index.label(self.up_id)} above {self.index.label(self.down_id)}"
 
-    def on_mount(self) -> None:
+    def chart_widget(self) -> Widget:
+        if self.chart is not None:
+            return BandChart(id="pair-chart")
+        return Static(f"No chart: {self.chart_error}", id="pair-no-chart", markup=False)
+
+    def fill_chart(self) -> None:
         if self.chart is not None:
             self.query_one(BandChart).chart = self.chart
-        self.query_one("#pair-body").focus()
-
-    def action_close(self) -> None:
-        self.dismiss(None)
-
-    def action_show_chart(self) -> None:
-        """Scroll the chart into view (on a short terminal it sits below the text)."""
-        for chart in self.query(BandChart):
-            chart.scroll_visible(animate=False)
-
-    @on(Button.Pressed, "#pair-close")
-    def _close_pressed(self) -> None:
-        self.dismiss(None)
