@@ -194,7 +194,8 @@ class TripwiseApp(
         assert self.session is not None
         self.sub_title = str(self.site_path)
         if self.welcome:
-            self.notify(self.welcome, title="tripwise", timeout=30)
+            # long enough to read the path; it stays in the title bar afterwards
+            self.notify(self.welcome, title="tripwise", timeout=10)
         if self.open_error:
             self.notify(
                 f"{self.open_error}; opened read-only",
