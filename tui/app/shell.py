@@ -194,7 +194,7 @@ class TripwiseApp(
         assert self.session is not None
         self.sub_title = str(self.site_path)
         if self.welcome:
-            # long enough to read the path; it stays in the title bar afterwards
+            # long enough to read the path; the file name stays in the top bar afterwards
             self.notify(self.welcome, title="tripwise", timeout=10)
         if self.open_error:
             self.notify(
