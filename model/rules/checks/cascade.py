@@ -11,8 +11,16 @@ from model.rules.checks.pair_verdict import (
     five_x_confirmed_ms,
     pair_verdict,
     remedies,
+    selective_verdict,
 )
-from model.rules.envelope import DeviceCurve, all_unsafe_ranges, pair_bands
+from model.rules.envelope import (
+    DeviceArrays,
+    DeviceCurve,
+    all_unsafe_ranges,
+    class_pair_bands,
+    curve_key,
+    pair_bands,
+)
 from model.rules.findings import (
     CurrentRange,
     Finding,
@@ -153,31 +161,52 @@ def measured_margin(
 
 
 def analyse_pairs(ctx: Context) -> list[PairAnalysis]:
-    """Rule verdict, non-selective current ranges and measured margin of every series pair."""
+    """Rule verdict, non-selective current ranges and measured margin of every series pair.
+
+    The bands of each distinct device curve are built once; every pair is
+    judged in one numpy pass (:func:`model.rules.envelope.class_pair_bands`);
+    the words are built per pair only where its verdict needs them.
+    """
     pairs = series_pairs(ctx)
     if not pairs:
         return []
-    idx = ctx.index
+    by_id = ctx.index.by_id
     faults = largest_fault_ma(ctx)
-    curves = {r: DeviceCurve.of(idx.by_id[r]) for r in idx.rcds()}
-    ups = [curves[u] for u, _ in pairs]
-    downs = [curves[d] for _, d in pairs]
+    # one curve per device class; each device points at its class's row
+    class_of: dict[tuple[float, str, float | None, float | None], int] = {}
+    curves: list[DeviceCurve] = []
+    row_of: dict[str, int] = {}
+    for r in ctx.index.rcds():
+        key = curve_key(by_id[r])
+        k = class_of.get(key)
+        if k is None:
+            k = class_of[key] = len(curves)
+            curves.append(DeviceCurve(*key))
+        row_of[r] = k
     imax = [faults[d] for _, d in pairs]
-    bands = pair_bands(ups, downs, imax)
+    bands = class_pair_bands(
+        DeviceArrays.build(curves),
+        [row_of[u] for u, _ in pairs],
+        [row_of[d] for _, d in pairs],
+        imax,
+    )
     std_ranges = all_unsafe_ranges(bands)
-    confirmed = {
-        r: ms
-        for r in idx.rcds()
-        if (ms := five_x_confirmed_ms(ctx, idx.by_id[r], curves[r])) is not None
-    }
-    conf_rows = [row for row, (_, d) in enumerate(pairs) if d in confirmed and std_ranges[row]]
+    # a downstream 5 IΔn test within 40 ms matters only where the bands leave a range
+    confirmed: dict[str, float | None] = {}
+    conf_rows: list[int] = []
+    for row, (_, d) in enumerate(pairs):
+        if std_ranges[row]:
+            if d not in confirmed:
+                confirmed[d] = five_x_confirmed_ms(ctx, by_id[d], curves[row_of[d]])
+            if confirmed[d] is not None:
+                conf_rows.append(row)
     conf_ranges: dict[int, list[tuple[float, float]]] = {}
     if conf_rows:
         conf_bands = pair_bands(
-            [ups[row] for row in conf_rows],
+            [curves[row_of[pairs[row][0]]] for row in conf_rows],
             [
                 DeviceCurve(c.idn_ma, c.delay, c.delay_ms, c.max_break_ms, True)
-                for c in (downs[row] for row in conf_rows)
+                for c in (curves[row_of[pairs[row][1]]] for row in conf_rows)
             ],
             [imax[row] for row in conf_rows],
         )
@@ -187,7 +216,7 @@ def analyse_pairs(ctx: Context) -> list[PairAnalysis]:
     remedy_rows = []
     gaps: list[int] = []
     for row, (u, d) in enumerate(pairs):
-        up, down = idx.by_id[u], idx.by_id[d]
+        up, down = by_id[u], by_id[d]
         ratio = float(up.idn_ma) / float(down.idn_ma)
         notes: list[str] = []
         delayed = _delayed(up)
@@ -197,16 +226,27 @@ def analyse_pairs(ctx: Context) -> list[PairAnalysis]:
         if short:
             notes.append(f"IΔn ratio {fmt_ratio(ratio)} is below {_RATIO}")
         ranges = std_ranges[row]
-        judged = conf_ranges.get(row, ranges) if ranges else ranges
-        note = confirm_note(down, confirmed[d]) if ranges and row in conf_ranges else ""
+        if not ranges:  # selective by the bands: nothing measured is needed
+            rows.append((u, d, ratio, delayed, notes, ranges, None, selective_verdict(imax[row])))
+            continue
+        judged = conf_ranges.get(row, ranges)
+        ms = confirmed[d]
+        note = confirm_note(down, ms) if ms is not None and row in conf_ranges else ""
         margin = measured_margin(ctx, up, down, judged)
         v = pair_verdict(not notes, imax[row], ranges, judged, margin, note)
         if v.verdict in ("not-guaranteed", "not-selective"):
             gaps.append(row)
             remedy_rows.append(
-                (ups[row], downs[row], imax[row], delayed, short, row in conf_ranges)
+                (
+                    curves[row_of[u]],
+                    curves[row_of[d]],
+                    imax[row],
+                    delayed,
+                    short,
+                    row in conf_ranges,
+                )
             )
-        rows.append((u, d, ratio, delayed, tuple(notes), ranges, margin, v))
+        rows.append((u, d, ratio, delayed, notes, ranges, margin, v))
     actions = dict(zip(gaps, remedies(remedy_rows), strict=True))
     return [
         PairAnalysis(
@@ -215,9 +255,9 @@ def analyse_pairs(ctx: Context) -> list[PairAnalysis]:
             ratio=ratio,
             up_delayed=delayed,
             rule_ok=not notes,
-            rule_notes=notes,
+            rule_notes=tuple(notes),
             i_max_ma=float(imax[row]),
-            ranges=tuple(CurrentRange(lo, hi) for lo, hi in ranges),
+            ranges=tuple(CurrentRange(lo, hi) for lo, hi in ranges) if ranges else (),
             measured=margin,
             verdict=v.verdict,
             explanation=v.explanation,

@@ -7,6 +7,7 @@ from typing import Any
 
 from model.rules.findings import PairAnalysis
 from model.rules.limits import RuleSet, rule_set
+from model.site.history import visits_before
 from model.site.models import SiteFile, Visit
 from model.site.tree import SiteIndex
 
@@ -20,6 +21,14 @@ class Context:
     pairs: list[PairAnalysis] = field(default_factory=list)
     #: The overcurrent analysis (``checks.overcurrent.OcAnalysis``), built by its check.
     oc: Any = None
+    _earlier: list[Visit] | None = field(default=None, repr=False)
+
+    def earlier_visits(self) -> list[Visit]:
+        """The visits before the latest one, most recent first (worked out once)."""
+        if self._earlier is None:
+            latest = self.latest
+            self._earlier = [] if latest is None else visits_before(self.site, latest.id)
+        return self._earlier
 
     @classmethod
     def build(cls, site: SiteFile, index: SiteIndex | None = None) -> Context:

@@ -17,6 +17,7 @@ IEC 61008-1 Ed.3 Table 1 and its note on 0.25 A.
 from __future__ import annotations
 
 from dataclasses import dataclass
+from functools import lru_cache
 from typing import Any
 
 from model.rules.checks.context import Context
@@ -66,6 +67,12 @@ def ranges_words(ranges: list[tuple[float, float]]) -> str:
     return ", ".join(f"{fmt_ma(lo)} and {fmt_ma(hi)}" for lo, hi in ranges)
 
 
+@lru_cache(maxsize=4096)
+def selective_verdict(i_max_ma: float) -> Verdict:
+    """The verdict on a pair whose bands do not overlap (shared by pairs of one fault level)."""
+    return Verdict("selective", "the bands do not overlap anywhere up to " + fmt_ma(i_max_ma), [])
+
+
 def pair_verdict(
     rule_ok: bool,
     i_max_ma: float,
@@ -76,9 +83,7 @@ def pair_verdict(
 ) -> Verdict:
     """The verdict and its explanation (see the module docstring)."""
     if not ranges:
-        return Verdict(
-            "selective", "the bands do not overlap anywhere up to " + fmt_ma(i_max_ma), []
-        )
+        return selective_verdict(i_max_ma)
     if not judged:
         return Verdict(
             "selective-in-practice",

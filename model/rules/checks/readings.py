@@ -14,13 +14,12 @@ from model.rules.bands import (
     judge_ramp,
     judge_time,
     ramp_band,
-    time_band,
     worse,
 )
 from model.rules.checks.context import Context
 from model.rules.findings import Finding, Severity
+from model.rules.flags import GROUP_KEYS, group_bands, ramp_flag, time_flag
 from model.rules.waveforms import WAVEFORM_TYPE_SOURCE, waveform_applies
-from model.site.history import visits_before
 from model.site.models import Reading, Visit
 from model.site.terms import DID_NOT_TRIP
 
@@ -116,7 +115,7 @@ def _outstanding(
     Common practice: a failure stays outstanding until a later test shows the
     device (or its replacement) passing.
     """
-    for v in visits_before(ctx.site, latest.id):
+    for v in ctx.earlier_visits():
         r = v.readings.get(dev)
         if r is None or r.not_tested is not None or not r.has_values():
             continue
@@ -169,29 +168,33 @@ def reading_findings(
             )
             continue
         title = "" if wf == REQUIRED_WAVEFORM else f" {wf}"
-        for group in GROUPS:
-            band = time_band(node, group, wf, rules, res.test_current)
-            v0, v180 = getattr(res, f"{group}_0"), getattr(res, f"{group}_180")
+        values = res.__dict__
+        bands = group_bands(node, wf, rules, values["test_current"])
+        for band, (group, k0, k180) in zip(bands, GROUP_KEYS, strict=True):
+            v0, v180 = values[k0], values[k180]
             if v0 is None and v180 is None:
                 continue
             if band.required:
                 required_seen = True
-            both = f"0°: {fmt_result(v0)}, 180°: {fmt_result(v180)}"
-            j = judge_time(band, worse(v0, v180, group))
-            if j.flag is None and band.min_ms is not None:
+            judged = worse(v0, v180, group)
+            flag = time_flag(band, judged)
+            if flag is None and band.min_ms is not None:
                 # too fast is judged on the faster of the two
                 times = [float(v) for v in (v0, v180) if v is not None and v != DID_NOT_TRIP]
                 if times:
-                    j = judge_time(band, min(times))
-            if j.flag is None:
-                continue
+                    judged = min(times)
+                    flag = time_flag(band, judged)
+            if flag is None:
+                continue  # within its band: no words needed
+            j = judge_time(band, judged)
+            both = f"0°: {fmt_result(v0)}, 180°: {fmt_result(v180)}"
             yield Finding(
-                rule=j.flag,
-                severity=_SEVERITY[j.flag],
+                rule=flag,
+                severity=_SEVERITY[flag],
                 nodes=(dev,),
                 board=board,
                 message=f"{label}: {GROUP_TITLE[group]}{title} test {j.text} ({both}).",
-                action=_ACTION[j.flag],
+                action=_ACTION[flag],
                 source=band.source,
                 basis=band.basis,
                 measured=both,
@@ -232,6 +235,9 @@ def reading_findings(
 
 
 def _ramp(ctx: Context, dev: str, node: Any, res: Any, visit_id: str) -> Iterator[Finding]:
+    flag = ramp_flag(node, res.waveform, res.ramp_ma)
+    if flag is None or flag == NOT_APPLICABLE:
+        return  # within its band (or not recorded): no words needed
     rb = ramp_band(node, res.waveform)
     jr = judge_ramp(rb, res.ramp_ma)
     if jr.flag is None or jr.flag == NOT_APPLICABLE:

@@ -6,8 +6,9 @@ from collections.abc import Iterator
 from typing import Any
 
 from model.rules.bands import (
-    FAILURE_FLAGS,
     GROUP_TITLE,
+    GROUPS,
+    Band,
     fmt_value,
     group_of,
     judge_reading,
@@ -17,13 +18,14 @@ from model.rules.bands import (
 )
 from model.rules.checks.context import Context
 from model.rules.findings import Finding
-from model.site.history import visits_before
+from model.rules.flags import failing_keys, group_bands
 from model.site.models import Reading, TrendSettings, Visit
 from model.site.terms import TEST_NAMES, reading_label
 
 #: The tests a device must trip on; a growing trip time there means something.
 #: The ½ IΔn tests are left out: the device must not trip there at all.
 TREND_TESTS: tuple[str, ...] = tuple(t for t in TEST_NAMES if group_of(t) in ("x1", "x5"))
+_GROUP_INDEX: dict[str, int] = {t: GROUPS.index(group_of(t)) for t in TREND_TESTS}
 
 _SOURCE = (
     "Site trend thresholds (common practice: a trip time that grows markedly between "
@@ -55,7 +57,7 @@ def check_trend(ctx: Context) -> Iterator[Finding]:
     latest = ctx.latest
     if latest is None:
         return
-    earlier = visits_before(ctx.site, latest.id)
+    earlier = ctx.earlier_visits()
     if not earlier:
         return
     trend = ctx.site.site.trend
@@ -126,19 +128,29 @@ def _growth(
 ) -> Iterator[Finding]:
     grown: list[tuple[str, Visit, float, float]] = []
     wf = res.waveform
+    values = res.__dict__
+    tc = values["test_current"]
+    bands: tuple[Band, ...] | None = None
+    #: earlier results with this test waveform and test current, most recent first
+    prevs: list[tuple[Visit, dict[str, Any]]] | None = None
     for key in TREND_TESTS:
-        now = numeric_value(getattr(res, key))
+        now = numeric_value(values[key])
         if now is None:
             continue
-        band = time_band(node, group_of(key), wf, ctx.rules.name, res.test_current)
+        if bands is None:
+            bands = group_bands(node, wf, ctx.rules.name, tc)
+        band = bands[_GROUP_INDEX[key]]
         if not band.applies:
             continue
-        for prev_visit in earlier:
-            r = prev_visit.readings.get(dev)
-            prev = None if r is None else r.results_for(wf)
-            if prev is None or prev.test_current != res.test_current:
-                continue
-            then = numeric_value(getattr(prev, key))
+        if prevs is None:
+            prevs = []
+            for prev_visit in earlier:
+                r = prev_visit.readings.get(dev)
+                prev = None if r is None else r.results_for(wf)
+                if prev is not None and prev.test_current == tc:
+                    prevs.append((prev_visit, prev.__dict__))
+        for prev_visit, prev_values in prevs:
+            then = numeric_value(prev_values[key])
             if then is None:
                 continue
             if grown_too_much(then, now, band.min_ms, band.max_ms, trend):
@@ -197,15 +209,12 @@ def _newly_failing(
     if prev is None or prev_visit is None:
         return
     rules = ctx.rules.name
-    now = judge_reading(node, reading, rules)
-    failing = [(k, j) for k, j in now.items() if j.flag in FAILURE_FLAGS]
-    if not failing:
+    keys = failing_keys(node, reading, rules)
+    if not keys or failing_keys(node, prev, rules):
         return
-    before = judge_reading(node, prev, rules)
-    if any(j.flag in FAILURE_FLAGS for j in before.values()):
-        return
+    now = judge_reading(node, reading, rules)  # the words, for the failing values only
+    failing = [(k, now[k]) for k in keys]
     label = ctx.index.label(dev)
-    keys = [k for k, _ in failing]
     then_vals = ", ".join(f"{reading_label(k)} {fmt_value(k, getattr(prev, k))}" for k in keys)
     now_vals = ", ".join(f"{reading_label(k)} {fmt_value(k, getattr(reading, k))}" for k in keys)
     yield Finding(
