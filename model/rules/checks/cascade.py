@@ -85,10 +85,6 @@ def largest_fault_ma(ctx: Context) -> dict[str, float]:
     return {r: (u0 / z * 1000.0 if z != inf else fallback) for r, z in min_zs.items()}
 
 
-def _delayed(node: Any) -> bool:
-    return str(node.delay) in ("S", "set")
-
-
 def _times(reading: Any, group: str) -> list[float | str]:
     vals = [getattr(reading, f"{group}_0"), getattr(reading, f"{group}_180")]
     return [v for v in vals if v is not None]
@@ -183,14 +179,12 @@ def analyse_pairs(ctx: Context) -> list[PairAnalysis]:
             k = class_of[key] = len(curves)
             curves.append(DeviceCurve(*key))
         row_of[r] = k
+    up_rows = [row_of[u] for u, _ in pairs]
+    dn_rows = [row_of[d] for _, d in pairs]
     imax = [faults[d] for _, d in pairs]
-    bands = class_pair_bands(
-        DeviceArrays.build(curves),
-        [row_of[u] for u, _ in pairs],
-        [row_of[d] for _, d in pairs],
-        imax,
+    std_ranges = all_unsafe_ranges(
+        class_pair_bands(DeviceArrays.build(curves), up_rows, dn_rows, imax)
     )
-    std_ranges = all_unsafe_ranges(bands)
     # a downstream 5 IΔn test within 40 ms matters only where the bands leave a range
     confirmed: dict[str, float | None] = {}
     conf_rows: list[int] = []
@@ -203,68 +197,88 @@ def analyse_pairs(ctx: Context) -> list[PairAnalysis]:
     conf_ranges: dict[int, list[tuple[float, float]]] = {}
     if conf_rows:
         conf_bands = pair_bands(
-            [curves[row_of[pairs[row][0]]] for row in conf_rows],
+            [curves[up_rows[row]] for row in conf_rows],
             [
                 DeviceCurve(c.idn_ma, c.delay, c.delay_ms, c.max_break_ms, True)
-                for c in (curves[row_of[pairs[row][1]]] for row in conf_rows)
+                for c in (curves[dn_rows[row]] for row in conf_rows)
             ],
             [imax[row] for row in conf_rows],
         )
         conf_all = all_unsafe_ranges(conf_bands)
         conf_ranges = {row: conf_all[k] for k, row in enumerate(conf_rows)}
-    rows: list[tuple[Any, ...]] = []
-    remedy_rows = []
-    gaps: list[int] = []
+    # the 3:1 and time-delay rule reads only the two curves: once per pair of classes
+    rule_of: dict[tuple[int, int], tuple[float, bool, bool, tuple[str, ...]]] = {}
+    out: list[PairAnalysis | None] = []
+    open_rows: list[tuple[int, float, bool, tuple[str, ...], Any, Any]] = []
     for row, (u, d) in enumerate(pairs):
-        up, down = by_id[u], by_id[d]
-        ratio = float(up.idn_ma) / float(down.idn_ma)
-        notes: list[str] = []
-        delayed = _delayed(up)
-        if not delayed:
-            notes.append("upstream is not time-delayed")
-        short = ratio_below(ratio)
-        if short:
-            notes.append(f"IΔn ratio {fmt_ratio(ratio)} is below {_RATIO}")
+        classes = (up_rows[row], dn_rows[row])
+        rule = rule_of.get(classes)
+        if rule is None:
+            rule = rule_of[classes] = _rule(curves[classes[0]], curves[classes[1]])
+        ratio, delayed, short, notes = rule
         ranges = std_ranges[row]
         if not ranges:  # selective by the bands: nothing measured is needed
-            rows.append((u, d, ratio, delayed, notes, ranges, None, selective_verdict(imax[row])))
+            v = selective_verdict(imax[row])
+            out.append(
+                PairAnalysis(u, d, ratio, delayed, not notes, notes, float(imax[row]), (),
+                             None, v.verdict, v.explanation)
+            )  # fmt: skip
             continue
+        up, down = by_id[u], by_id[d]
         judged = conf_ranges.get(row, ranges)
         ms = confirmed[d]
         note = confirm_note(down, ms) if ms is not None and row in conf_ranges else ""
         margin = measured_margin(ctx, up, down, judged)
         v = pair_verdict(not notes, imax[row], ranges, judged, margin, note)
-        if v.verdict in ("not-guaranteed", "not-selective"):
-            gaps.append(row)
-            remedy_rows.append(
-                (
-                    curves[row_of[u]],
-                    curves[row_of[d]],
-                    imax[row],
-                    delayed,
-                    short,
-                    row in conf_ranges,
-                )
+        open_rows.append((row, ratio, delayed, notes, margin, v))
+        out.append(None)  # filled in below, once the remedies are known
+    gaps = [r for r in open_rows if r[5].verdict in ("not-guaranteed", "not-selective")]
+    actions = remedies(
+        [
+            (
+                curves[up_rows[row]],
+                curves[dn_rows[row]],
+                imax[row],
+                delayed,
+                ratio_below(ratio),
+                row in conf_ranges,
             )
-        rows.append((u, d, ratio, delayed, notes, ranges, margin, v))
-    actions = dict(zip(gaps, remedies(remedy_rows), strict=True))
-    return [
-        PairAnalysis(
+            for row, ratio, delayed, _, _, _ in gaps
+        ]
+    )
+    action_of = {r[0]: a for r, a in zip(gaps, actions, strict=True)}
+    for row, ratio, delayed, notes, margin, v in open_rows:
+        u, d = pairs[row]
+        out[row] = PairAnalysis(
             up=u,
             down=d,
             ratio=ratio,
             up_delayed=delayed,
             rule_ok=not notes,
-            rule_notes=tuple(notes),
+            rule_notes=notes,
             i_max_ma=float(imax[row]),
-            ranges=tuple(CurrentRange(lo, hi) for lo, hi in ranges) if ranges else (),
+            ranges=tuple(CurrentRange(lo, hi) for lo, hi in std_ranges[row]),
             measured=margin,
             verdict=v.verdict,
             explanation=v.explanation,
-            action=actions.get(row, ""),
+            action=action_of.get(row, ""),
         )
-        for row, (u, d, ratio, delayed, notes, ranges, margin, v) in enumerate(rows)
-    ]
+    done = [p for p in out if p is not None]
+    assert len(done) == len(pairs)
+    return done
+
+
+def _rule(up: DeviceCurve, down: DeviceCurve) -> tuple[float, bool, bool, tuple[str, ...]]:
+    """(IΔn ratio, upstream delayed, ratio below 3, the notes) of a pair of curves."""
+    ratio = up.idn_ma / down.idn_ma
+    notes: list[str] = []
+    delayed = up.delay in ("S", "set")
+    if not delayed:
+        notes.append("upstream is not time-delayed")
+    short = ratio_below(ratio)
+    if short:
+        notes.append(f"IΔn ratio {fmt_ratio(ratio)} is below {_RATIO}")
+    return ratio, delayed, short, tuple(notes)
 
 
 def check_cascade(ctx: Context) -> Iterator[Finding]:
