@@ -61,7 +61,9 @@ def _group_bands(
     rules: str,
     scaled: bool,
 ) -> tuple[Band, ...]:
-    return tuple(_time_band(idn, dtype, delay, dms, bms, g, waveform, rules, scaled) for g in GROUPS)
+    return tuple(
+        _time_band(idn, dtype, delay, dms, bms, g, waveform, rules, scaled) for g in GROUPS
+    )
 
 
 def time_flag(band: Band, value: float | str | None) -> str | None:
@@ -112,20 +114,31 @@ class _RampNode:
         self.waveform = waveform
 
 
-def failing_keys(node: Any, reading: Any, rules: str) -> list[str]:
+def value_flags(node: Any, res: Any, rules: str) -> tuple[str | None, ...]:
+    """The flag of each timed value of one set of results (order of ``TEST_NAMES``), then
+    the flag of its ramp value: what :func:`model.rules.bands.judge_results` flags."""
+    values = res.__dict__
+    waveform = values["waveform"]
+    bands = group_bands(node, waveform, rules, values["test_current"])
+    out: list[str | None] = []
+    for band, (_, k0, k180) in zip(bands, GROUP_KEYS, strict=True):
+        out.append(time_flag(band, values[k0]))
+        out.append(time_flag(band, values[k180]))
+    out.append(ramp_flag(node, waveform, values["ramp_ma"]))
+    return tuple(out)
+
+
+#: The keys of :func:`value_flags`, in its order.
+FLAG_KEYS: tuple[str, ...] = (*(k for _, k0, k180 in GROUP_KEYS for k in (k0, k180)), "ramp_ma")
+
+
+def failing_keys(flags: tuple[str | None, ...], button: str | None) -> list[str]:
     """The keys whose judgement by :func:`model.rules.bands.judge_reading` is a failure flag.
 
+    ``flags``: :func:`value_flags` of the reading; ``button``: its test button result.
     In the order ``judge_reading`` gives them (test names, 'ramp_ma', 'button').
     """
-    values = reading.__dict__
-    out: list[str] = []
-    bands = group_bands(node, values["waveform"], rules, values["test_current"])
-    for band, (_, k0, k180) in zip(bands, GROUP_KEYS, strict=True):
-        for key in (k0, k180):
-            if time_flag(band, values[key]) in FAILURE_FLAGS:
-                out.append(key)
-    if ramp_flag(node, values["waveform"], values["ramp_ma"]) in FAILURE_FLAGS:
-        out.append("ramp_ma")
-    if values["button"] == "failed":
+    out = [k for k, f in zip(FLAG_KEYS, flags, strict=True) if f in FAILURE_FLAGS]
+    if button == "failed":
         out.append("button")
     return out

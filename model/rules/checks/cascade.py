@@ -19,7 +19,6 @@ from model.rules.envelope import (
     all_unsafe_ranges,
     class_pair_bands,
     curve_key,
-    pair_bands,
 )
 from model.rules.findings import (
     CurrentRange,
@@ -182,9 +181,13 @@ def analyse_pairs(ctx: Context) -> list[PairAnalysis]:
     up_rows = [row_of[u] for u, _ in pairs]
     dn_rows = [row_of[d] for _, d in pairs]
     imax = [faults[d] for _, d in pairs]
-    std_ranges = all_unsafe_ranges(
-        class_pair_bands(DeviceArrays.build(curves), up_rows, dn_rows, imax)
-    )
+    # pairs of the same two curves and fault level have the same ranges: judged once
+    combo_of: dict[tuple[int, int, float], int] = {}
+    combo = [
+        combo_of.setdefault(key, len(combo_of)) for key in zip(up_rows, dn_rows, imax, strict=True)
+    ]
+    by_combo = _open_ranges(curves, list(combo_of))
+    std_ranges = [by_combo[c] for c in combo]
     # a downstream 5 IΔn test within 40 ms matters only where the bands leave a range
     confirmed: dict[str, float | None] = {}
     conf_rows: list[int] = []
@@ -196,16 +199,13 @@ def analyse_pairs(ctx: Context) -> list[PairAnalysis]:
                 conf_rows.append(row)
     conf_ranges: dict[int, list[tuple[float, float]]] = {}
     if conf_rows:
-        conf_bands = pair_bands(
-            [curves[up_rows[row]] for row in conf_rows],
-            [
-                DeviceCurve(c.idn_ma, c.delay, c.delay_ms, c.max_break_ms, True)
-                for c in (curves[dn_rows[row]] for row in conf_rows)
-            ],
-            [imax[row] for row in conf_rows],
-        )
-        conf_all = all_unsafe_ranges(conf_bands)
-        conf_ranges = {row: conf_all[k] for k, row in enumerate(conf_rows)}
+        conf_of: dict[tuple[int, int, float], int] = {}
+        conf_combo = [
+            conf_of.setdefault((up_rows[row], dn_rows[row], imax[row]), len(conf_of))
+            for row in conf_rows
+        ]
+        conf_by = _open_ranges(curves, list(conf_of), down_confirmed=True)
+        conf_ranges = {row: conf_by[c] for row, c in zip(conf_rows, conf_combo, strict=True)}
     # the 3:1 and time-delay rule reads only the two curves: once per pair of classes
     rule_of: dict[tuple[int, int], tuple[float, bool, bool, tuple[str, ...]]] = {}
     out: list[PairAnalysis | None] = []
@@ -266,6 +266,35 @@ def analyse_pairs(ctx: Context) -> list[PairAnalysis]:
     done = [p for p in out if p is not None]
     assert len(done) == len(pairs)
     return done
+
+
+def _open_ranges(
+    curves: list[DeviceCurve],
+    keys: list[tuple[int, int, float]],
+    *,
+    down_confirmed: bool = False,
+) -> list[list[tuple[float, float]]]:
+    """The ranges where selectivity is not guaranteed, for each key. [mA]
+
+    Each key is (upstream curve's index in ``curves``, downstream curve's
+    index, largest fault current [mA]).  ``down_confirmed``: read every
+    downstream device as confirmed within 40 ms at 5 IΔn by a site test.
+    All keys are judged in one numpy pass.
+    """
+    devices = curves
+    offset = 0
+    if down_confirmed:
+        offset = len(curves)
+        devices = curves + [
+            DeviceCurve(c.idn_ma, c.delay, c.delay_ms, c.max_break_ms, True) for c in curves
+        ]
+    bands = class_pair_bands(
+        DeviceArrays.build(devices),
+        [k[0] for k in keys],
+        [k[1] + offset for k in keys],
+        [k[2] for k in keys],
+    )
+    return all_unsafe_ranges(bands)
 
 
 def _rule(up: DeviceCurve, down: DeviceCurve) -> tuple[float, bool, bool, tuple[str, ...]]:

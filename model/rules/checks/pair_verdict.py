@@ -22,9 +22,14 @@ from typing import Any
 
 from model.rules.checks.context import Context
 from model.rules.envelope import DeviceCurve, has_unsafe, pair_bands
-from model.rules.findings import MeasuredMargin, fmt_ma
+from model.rules.findings import MeasuredMargin
+from model.rules.findings import fmt_ma as _fmt_ma
 from model.rules.limits import ALT_5X_CURRENT_A, BREAK_TIMES
 from model.site.terms import DID_NOT_TRIP
+
+#: :func:`model.rules.findings.fmt_ma`, remembered: the same few currents (table
+#: columns, fault levels) are worded for thousands of pairs.
+fmt_ma = lru_cache(maxsize=4096)(_fmt_ma)
 
 #: Maximum break time of a general device at 5 IΔn. [ms]
 FIVE_X_MAX_MS = next(p.general_max_ms for p in BREAK_TIMES if p.multiple == 5.0)
@@ -115,14 +120,34 @@ def pair_verdict(
 
 
 def confirm_note(down: Any, ms: float) -> str:
+    """Why the downstream device's 5 IΔn test closes the gap the 0.25 A note leaves."""
+    return _confirm_note(float(down.idn_ma), ms)
+
+
+@lru_cache(maxsize=1024)
+def _confirm_note(idn_ma: float, ms: float) -> str:
     return (
-        f"the downstream 5 IΔn test ({ms:g} ms at {fmt_ma(5 * float(down.idn_ma))}) confirms "
+        f"the downstream 5 IΔn test ({ms:g} ms at {fmt_ma(5 * idn_ma)}) confirms "
         f"it within {FIVE_X_MAX_MS:g} ms from there (the standard guarantees that only from "
         f"{fmt_ma(ALT_5X_CURRENT_A * 1000)})"
     )
 
 
 def remedies(
+    rows: list[tuple[DeviceCurve, DeviceCurve, float, bool, bool, bool]],
+) -> list[str]:
+    """What would close each pair's gap: one sentence per row (see :func:`_remedy_texts`).
+
+    Rows alike in all but the confirmation flag, which the sentence does not
+    read, share one sentence, worked out once.
+    """
+    index: dict[tuple[Any, ...], int] = {}
+    alike = [index.setdefault(r[:5], len(index)) for r in rows]
+    texts = _remedy_texts([(*key, False) for key in index])  # type: ignore[misc]
+    return [texts[k] for k in alike]
+
+
+def _remedy_texts(
     rows: list[tuple[DeviceCurve, DeviceCurve, float, bool, bool, bool]],
 ) -> list[str]:
     """What would close each pair's gap: one sentence per row.

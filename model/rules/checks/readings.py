@@ -18,7 +18,7 @@ from model.rules.bands import (
 )
 from model.rules.checks.context import Context
 from model.rules.findings import Finding, Severity
-from model.rules.flags import GROUP_KEYS, group_bands, ramp_flag, time_flag
+from model.rules.flags import GROUP_KEYS, group_bands, time_flag
 from model.rules.waveforms import WAVEFORM_TYPE_SOURCE, waveform_applies
 from model.site.models import Reading, Visit
 from model.site.terms import DID_NOT_TRIP
@@ -170,12 +170,15 @@ def reading_findings(
         title = "" if wf == REQUIRED_WAVEFORM else f" {wf}"
         values = res.__dict__
         bands = group_bands(node, wf, rules, values["test_current"])
-        for band, (group, k0, k180) in zip(bands, GROUP_KEYS, strict=True):
+        flags = ctx.value_flags(node, res)
+        for g, (band, (group, k0, k180)) in enumerate(zip(bands, GROUP_KEYS, strict=True)):
             v0, v180 = values[k0], values[k180]
             if v0 is None and v180 is None:
                 continue
             if band.required:
                 required_seen = True
+            if flags[2 * g] is None and flags[2 * g + 1] is None:
+                continue  # neither value is flagged: neither is the worse of the two
             judged = worse(v0, v180, group)
             flag = time_flag(band, judged)
             if flag is None and band.min_ms is not None:
@@ -235,7 +238,7 @@ def reading_findings(
 
 
 def _ramp(ctx: Context, dev: str, node: Any, res: Any, visit_id: str) -> Iterator[Finding]:
-    flag = ramp_flag(node, res.waveform, res.ramp_ma)
+    flag = ctx.value_flags(node, res)[-1]  # the ramp value's flag
     if flag is None or flag == NOT_APPLICABLE:
         return  # within its band (or not recorded): no words needed
     rb = ramp_band(node, res.waveform)

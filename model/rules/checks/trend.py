@@ -209,8 +209,8 @@ def _newly_failing(
     if prev is None or prev_visit is None:
         return
     rules = ctx.rules.name
-    keys = failing_keys(node, reading, rules)
-    if not keys or failing_keys(node, prev, rules):
+    keys = failing_keys(ctx.value_flags(node, reading), reading.button)
+    if not keys or failing_keys(ctx.value_flags(node, prev), prev.button):
         return
     now = judge_reading(node, reading, rules)  # the words, for the failing values only
     failing = [(k, now[k]) for k in keys]
