@@ -9,15 +9,13 @@ from model.rules.checks.context import Context
 from model.rules.checks.pair_verdict import (
     confirm_note,
     five_x_confirmed_ms,
+    open_ranges,
     pair_verdict,
     remedies,
     selective_verdict,
 )
 from model.rules.envelope import (
-    DeviceArrays,
     DeviceCurve,
-    all_unsafe_ranges,
-    class_pair_bands,
     curve_key,
 )
 from model.rules.findings import (
@@ -186,7 +184,7 @@ def analyse_pairs(ctx: Context) -> list[PairAnalysis]:
     combo = [
         combo_of.setdefault(key, len(combo_of)) for key in zip(up_rows, dn_rows, imax, strict=True)
     ]
-    by_combo = _open_ranges(curves, list(combo_of))
+    by_combo = open_ranges(curves, list(combo_of))
     std_ranges = [by_combo[c] for c in combo]
     # a downstream 5 IΔn test within 40 ms matters only where the bands leave a range
     confirmed: dict[str, float | None] = {}
@@ -204,7 +202,7 @@ def analyse_pairs(ctx: Context) -> list[PairAnalysis]:
             conf_of.setdefault((up_rows[row], dn_rows[row], imax[row]), len(conf_of))
             for row in conf_rows
         ]
-        conf_by = _open_ranges(curves, list(conf_of), down_confirmed=True)
+        conf_by = open_ranges(curves, list(conf_of), down_confirmed=True)
         conf_ranges = {row: conf_by[c] for row, c in zip(conf_rows, conf_combo, strict=True)}
     # the 3:1 and time-delay rule reads only the two curves: once per pair of classes
     rule_of: dict[tuple[int, int], tuple[float, bool, bool, tuple[str, ...]]] = {}
@@ -266,35 +264,6 @@ def analyse_pairs(ctx: Context) -> list[PairAnalysis]:
     done = [p for p in out if p is not None]
     assert len(done) == len(pairs)
     return done
-
-
-def _open_ranges(
-    curves: list[DeviceCurve],
-    keys: list[tuple[int, int, float]],
-    *,
-    down_confirmed: bool = False,
-) -> list[list[tuple[float, float]]]:
-    """The ranges where selectivity is not guaranteed, for each key. [mA]
-
-    Each key is (upstream curve's index in ``curves``, downstream curve's
-    index, largest fault current [mA]).  ``down_confirmed``: read every
-    downstream device as confirmed within 40 ms at 5 IΔn by a site test.
-    All keys are judged in one numpy pass.
-    """
-    devices = curves
-    offset = 0
-    if down_confirmed:
-        offset = len(curves)
-        devices = curves + [
-            DeviceCurve(c.idn_ma, c.delay, c.delay_ms, c.max_break_ms, True) for c in curves
-        ]
-    bands = class_pair_bands(
-        DeviceArrays.build(devices),
-        [k[0] for k in keys],
-        [k[1] + offset for k in keys],
-        [k[2] for k in keys],
-    )
-    return all_unsafe_ranges(bands)
 
 
 def _rule(up: DeviceCurve, down: DeviceCurve) -> tuple[float, bool, bool, tuple[str, ...]]:

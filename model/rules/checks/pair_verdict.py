@@ -21,7 +21,14 @@ from functools import lru_cache
 from typing import Any
 
 from model.rules.checks.context import Context
-from model.rules.envelope import DeviceCurve, has_unsafe, pair_bands
+from model.rules.envelope import (
+    DeviceArrays,
+    DeviceCurve,
+    all_unsafe_ranges,
+    class_pair_bands,
+    has_unsafe,
+    pair_bands,
+)
 from model.rules.findings import MeasuredMargin
 from model.rules.findings import fmt_ma as _fmt_ma
 from model.rules.limits import ALT_5X_CURRENT_A, BREAK_TIMES
@@ -131,6 +138,35 @@ def _confirm_note(idn_ma: float, ms: float) -> str:
         f"it within {FIVE_X_MAX_MS:g} ms from there (the standard guarantees that only from "
         f"{fmt_ma(ALT_5X_CURRENT_A * 1000)})"
     )
+
+
+def open_ranges(
+    curves: list[DeviceCurve],
+    keys: list[tuple[int, int, float]],
+    *,
+    down_confirmed: bool = False,
+) -> list[list[tuple[float, float]]]:
+    """The ranges where selectivity is not guaranteed, for each key. [mA]
+
+    Each key is (upstream curve's index in ``curves``, downstream curve's
+    index, largest fault current [mA]).  ``down_confirmed``: read every
+    downstream device as confirmed within 40 ms at 5 IΔn by a site test.
+    All keys are judged in one numpy pass.
+    """
+    devices = curves
+    offset = 0
+    if down_confirmed:
+        offset = len(curves)
+        devices = curves + [
+            DeviceCurve(c.idn_ma, c.delay, c.delay_ms, c.max_break_ms, True) for c in curves
+        ]
+    bands = class_pair_bands(
+        DeviceArrays.build(devices),
+        [k[0] for k in keys],
+        [k[1] + offset for k in keys],
+        [k[2] for k in keys],
+    )
+    return all_unsafe_ranges(bands)
 
 
 def remedies(

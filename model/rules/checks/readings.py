@@ -10,6 +10,9 @@ from model.rules.bands import (
     GROUP_TITLE,
     GROUPS,
     NOT_APPLICABLE,
+    Band,
+    Judgement,
+    RampBand,
     fmt_result,
     judge_ramp,
     judge_time,
@@ -170,26 +173,16 @@ def reading_findings(
         title = "" if wf == REQUIRED_WAVEFORM else f" {wf}"
         values = res.__dict__
         bands = group_bands(node, wf, rules, values["test_current"])
-        flags = ctx.value_flags(node, res)
         for g, (band, (group, k0, k180)) in enumerate(zip(bands, GROUP_KEYS, strict=True)):
             v0, v180 = values[k0], values[k180]
             if v0 is None and v180 is None:
                 continue
             if band.required:
                 required_seen = True
-            if flags[2 * g] is None and flags[2 * g + 1] is None:
-                continue  # neither value is flagged: neither is the worse of the two
-            judged = worse(v0, v180, group)
-            flag = time_flag(band, judged)
-            if flag is None and band.min_ms is not None:
-                # too fast is judged on the faster of the two
-                times = [float(v) for v in (v0, v180) if v is not None and v != DID_NOT_TRIP]
-                if times:
-                    judged = min(times)
-                    flag = time_flag(band, judged)
-            if flag is None:
-                continue  # within its band: no words needed
-            j = judge_time(band, judged)
+            j = judge_group(ctx, node, res, g, band)
+            if j is None or j.flag is None:
+                continue  # within its band
+            flag = j.flag
             both = f"0°: {fmt_result(v0)}, 180°: {fmt_result(v180)}"
             yield Finding(
                 rule=flag,
@@ -237,14 +230,43 @@ def reading_findings(
         )
 
 
-def _ramp(ctx: Context, dev: str, node: Any, res: Any, visit_id: str) -> Iterator[Finding]:
+def judge_group(ctx: Context, node: Any, res: Any, g: int, band: Band) -> Judgement | None:
+    """The judgement of test group ``g`` (index in ``GROUPS``) of one set of results
+    against its band, where one of its values is flagged; else None (no words built).
+
+    The worse of the 0° and 180° results is judged; a too-fast check is made on
+    the faster of the two.
+    """
+    flags = ctx.value_flags(node, res)
+    if flags[2 * g] is None and flags[2 * g + 1] is None:
+        return None  # neither value is flagged: neither is the worse of the two
+    group, k0, k180 = GROUP_KEYS[g]
+    values = res.__dict__
+    v0, v180 = values[k0], values[k180]
+    judged = worse(v0, v180, group)
+    flag = time_flag(band, judged)
+    if flag is None and band.min_ms is not None:
+        times = [float(v) for v in (v0, v180) if v is not None and v != DID_NOT_TRIP]
+        if times:
+            judged = min(times)
+            flag = time_flag(band, judged)
+    return None if flag is None else judge_time(band, judged)
+
+
+def judge_ramp_result(ctx: Context, node: Any, res: Any) -> tuple[RampBand, Judgement] | None:
+    """The band and judgement of a ramp result outside its band; else None."""
     flag = ctx.value_flags(node, res)[-1]  # the ramp value's flag
     if flag is None or flag == NOT_APPLICABLE:
-        return  # within its band (or not recorded): no words needed
+        return None  # within its band (or not recorded, or not judged)
     rb = ramp_band(node, res.waveform)
-    jr = judge_ramp(rb, res.ramp_ma)
-    if jr.flag is None or jr.flag == NOT_APPLICABLE:
+    return rb, judge_ramp(rb, res.ramp_ma)
+
+
+def _ramp(ctx: Context, dev: str, node: Any, res: Any, visit_id: str) -> Iterator[Finding]:
+    judged = judge_ramp_result(ctx, node, res)
+    if judged is None:
         return
+    rb, jr = judged
     label = ctx.index.label(dev)
     high = res.ramp_ma is not None and res.ramp_ma > rb.high_ma
     wf = "" if res.waveform == REQUIRED_WAVEFORM else f" ({res.waveform})"

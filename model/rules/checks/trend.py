@@ -117,15 +117,11 @@ def rule_text(trend: TrendSettings) -> str:
     )
 
 
-def _growth(
-    ctx: Context,
-    dev: str,
-    node: Any,
-    res: Any,
-    latest: Visit,
-    earlier: list[Visit],
-    trend: TrendSettings,
-) -> Iterator[Finding]:
+def grown_tests(
+    ctx: Context, dev: str, node: Any, res: Any, earlier: list[Visit], trend: TrendSettings
+) -> list[tuple[str, Visit, float, float]]:
+    """(test, earlier visit, then [ms], now [ms]) of each test of one set of results whose
+    trip time has grown too much since the latest earlier visit with that test."""
     grown: list[tuple[str, Visit, float, float]] = []
     wf = res.waveform
     values = res.__dict__
@@ -156,14 +152,28 @@ def _growth(
             if grown_too_much(then, now, band.min_ms, band.max_ms, trend):
                 grown.append((key, prev_visit, then, now))
             break  # only the latest earlier visit with this test counts
+    return grown
+
+
+def _growth(
+    ctx: Context,
+    dev: str,
+    node: Any,
+    res: Any,
+    latest: Visit,
+    earlier: list[Visit],
+    trend: TrendSettings,
+) -> Iterator[Finding]:
+    grown = grown_tests(ctx, dev, node, res, earlier, trend)
     if not grown:
         return
+    wf = res.waveform
     items = [
         f"{reading_label(key)} {then:g} ms ({_when(pv)}) → {now:g} ms, +{now - then:g} ms "
         f"(+{100.0 * (now - then) / then:.0f} %)"
         for key, pv, then, now in grown
     ]
-    bands = sorted(
+    band_texts = sorted(
         {
             f"{GROUP_TITLE[group_of(k)]} "
             + time_band(node, group_of(k), wf, ctx.rules.name, res.test_current).text
@@ -181,7 +191,7 @@ def _growth(
             f"({wf} test current; now {_when(latest)}): "
             + "; ".join(items)
             + f". The site flags {rule.removesuffix(' (site setting)')} "
-            f"(bands: {', '.join(bands)})."
+            f"(bands: {', '.join(band_texts)})."
         ),
         action="Re-test; a device that is slowing down may be failing. Consider replacing it "
         "before it falls outside its band.",
@@ -196,23 +206,29 @@ def _growth(
     )
 
 
-def _newly_failing(
-    ctx: Context, dev: str, node: Any, reading: Reading, latest: Visit, earlier: list[Visit]
-) -> Iterator[Finding]:
-    prev_visit: Visit | None = None
-    prev: Reading | None = None
+def failing_since(
+    ctx: Context, dev: str, node: Any, reading: Reading, earlier: list[Visit]
+) -> tuple[Visit, Reading, list[str]] | None:
+    """(previous visit, its reading, the keys now failing) where a device within every
+    band on the previous visit with values now fails one; else None."""
     for v in earlier:
         r = v.readings.get(dev)
         if r is not None and r.not_tested is None and r.has_values():
-            prev_visit, prev = v, r
-            break
-    if prev is None or prev_visit is None:
+            keys = failing_keys(ctx.value_flags(node, reading), reading.button)
+            if not keys or failing_keys(ctx.value_flags(node, r), r.button):
+                return None
+            return v, r, keys
+    return None
+
+
+def _newly_failing(
+    ctx: Context, dev: str, node: Any, reading: Reading, latest: Visit, earlier: list[Visit]
+) -> Iterator[Finding]:
+    found = failing_since(ctx, dev, node, reading, earlier)
+    if found is None:
         return
-    rules = ctx.rules.name
-    keys = failing_keys(ctx.value_flags(node, reading), reading.button)
-    if not keys or failing_keys(ctx.value_flags(node, prev), prev.button):
-        return
-    now = judge_reading(node, reading, rules)  # the words, for the failing values only
+    prev_visit, prev, keys = found
+    now = judge_reading(node, reading, ctx.rules.name)  # the words, for the failing values
     failing = [(k, now[k]) for k in keys]
     label = ctx.index.label(dev)
     then_vals = ", ".join(f"{reading_label(k)} {fmt_value(k, getattr(prev, k))}" for k in keys)
