@@ -117,6 +117,13 @@ class _RampNode:
 def value_flags(node: Any, res: Any, rules: str) -> tuple[str | None, ...]:
     """The flag of each timed value of one set of results (order of ``TEST_NAMES``), then
     the flag of its ramp value: what :func:`model.rules.bands.judge_results` flags."""
+    return judge_values(node, res, rules)[1]
+
+
+def judge_values(
+    node: Any, res: Any, rules: str
+) -> tuple[tuple[Band, ...], tuple[str | None, ...]]:
+    """(:func:`group_bands`, :func:`value_flags`) of one set of results."""
     values = res.__dict__
     waveform = values["waveform"]
     bands = group_bands(node, waveform, rules, values["test_current"])
@@ -125,7 +132,7 @@ def value_flags(node: Any, res: Any, rules: str) -> tuple[str | None, ...]:
         out.append(time_flag(band, values[k0]))
         out.append(time_flag(band, values[k180]))
     out.append(ramp_flag(node, waveform, values["ramp_ma"]))
-    return tuple(out)
+    return bands, tuple(out)
 
 
 #: The keys of :func:`value_flags`, in its order.

@@ -21,7 +21,7 @@ from model.rules.bands import (
 )
 from model.rules.checks.context import Context
 from model.rules.findings import Finding, Severity
-from model.rules.flags import GROUP_KEYS, group_bands, time_flag
+from model.rules.flags import GROUP_KEYS, time_flag
 from model.rules.waveforms import WAVEFORM_TYPE_SOURCE, waveform_applies
 from model.site.models import Reading, Visit
 from model.site.terms import DID_NOT_TRIP
@@ -149,7 +149,6 @@ def reading_findings(
     """Every finding on one device's reading of one visit (all its test waveforms)."""
     board = ctx.index.board_of[dev]
     label = ctx.index.label(dev)
-    rules = ctx.rules.name
     required_seen = False
     for res in reading.result_sets():
         wf = res.waveform
@@ -172,7 +171,7 @@ def reading_findings(
             continue
         title = "" if wf == REQUIRED_WAVEFORM else f" {wf}"
         values = res.__dict__
-        bands = group_bands(node, wf, rules, values["test_current"])
+        bands = ctx.judged(node, res)[0]
         for g, (band, (group, k0, k180)) in enumerate(zip(bands, GROUP_KEYS, strict=True)):
             v0, v180 = values[k0], values[k180]
             if v0 is None and v180 is None:

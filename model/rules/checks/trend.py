@@ -18,7 +18,7 @@ from model.rules.bands import (
 )
 from model.rules.checks.context import Context
 from model.rules.findings import Finding
-from model.rules.flags import failing_keys, group_bands
+from model.rules.flags import failing_keys
 from model.site.models import Reading, TrendSettings, Visit
 from model.site.terms import TEST_NAMES, reading_label
 
@@ -134,7 +134,7 @@ def grown_tests(
         if now is None:
             continue
         if bands is None:
-            bands = group_bands(node, wf, ctx.rules.name, tc)
+            bands = ctx.judged(node, res)[0]
         band = bands[_GROUP_INDEX[key]]
         if not band.applies:
             continue
