@@ -211,11 +211,13 @@ def failing_since(
 ) -> tuple[Visit, Reading, list[str]] | None:
     """(previous visit, its reading, the keys now failing) where a device within every
     band on the previous visit with values now fails one; else None."""
+    keys = failing_keys(ctx.value_flags(node, reading), reading.button)
+    if not keys:
+        return None  # nothing fails now: no earlier reading need be looked at
     for v in earlier:
         r = v.readings.get(dev)
         if r is not None and r.not_tested is None and r.has_values():
-            keys = failing_keys(ctx.value_flags(node, reading), reading.button)
-            if not keys or failing_keys(ctx.value_flags(node, r), r.button):
+            if failing_keys(ctx.value_flags(node, r), r.button):
                 return None
             return v, r, keys
     return None
