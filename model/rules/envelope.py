@@ -81,13 +81,18 @@ class DeviceCurve:
     @classmethod
     def of(cls, node: object) -> DeviceCurve:
         """The curve parameters of a residual-current device node."""
-        d = node.__dict__  # plain field access: pydantic's fallback getattr is slow
-        return cls(
-            idn_ma=float(d["idn_ma"]),
-            delay=str(d.get("delay", "general")),
-            delay_ms=d.get("delay_ms"),
-            max_break_ms=d.get("max_break_ms"),
-        )
+        return cls(*curve_key(node))
+
+
+def curve_key(node: object) -> tuple[float, str, float | None, float | None]:
+    """What :meth:`DeviceCurve.of` reads of a node: devices with one key share one curve."""
+    d = node.__dict__  # plain field access: pydantic's fallback getattr is slow
+    return (
+        float(d["idn_ma"]),
+        str(d.get("delay", "general")),
+        d.get("delay_ms"),
+        d.get("max_break_ms"),
+    )
 
 
 @dataclass(frozen=True)
@@ -151,6 +156,12 @@ class DeviceArrays:
                     tmax[:, j] = np.where(tie, np.maximum(tmax[:, j], tmax[:, k]), tmax[:, j])
         return cls(idn_ma=idn, tab_ma=tab.reshape(p, t), tab_max_ms=tmax, tab_min_ms=tmin)
 
+    def take(self, rows: npt.NDArray[np.intp]) -> DeviceArrays:
+        """The arrays of the devices at these rows (a row may be taken many times)."""
+        return DeviceArrays(
+            self.idn_ma[rows], self.tab_ma[rows], self.tab_max_ms[rows], self.tab_min_ms[rows]
+        )
+
 
 def _count(tab_ma: FloatArray, i_ma: FloatArray, *, strict: bool) -> npt.NDArray[np.int64]:
     """How many tabulated currents of each row lie below (or at) each current.
@@ -212,6 +223,25 @@ def pair_bands(
 ) -> PairBands:
     """Evaluate every pair on its own grid from half the smaller IΔn to its largest fault current.
 
+    The devices' tabulated bands are built once per distinct curve (see
+    :func:`class_pair_bands`).
+    """
+    classes: dict[DeviceCurve, int] = {}
+    up_rows = [classes.setdefault(c, len(classes)) for c in ups]
+    dn_rows = [classes.setdefault(c, len(classes)) for c in downs]
+    return class_pair_bands(DeviceArrays.build(list(classes)), up_rows, dn_rows, i_max_ma)
+
+
+def class_pair_bands(
+    table: DeviceArrays, up_rows: list[int], dn_rows: list[int], i_max_ma: list[float]
+) -> PairBands:
+    """Evaluate every pair on its own grid from half the smaller IΔn to its largest fault current.
+
+    ``table`` holds the bands of each distinct device curve once; pair ``k``
+    is the curve at ``up_rows[k]`` above the one at ``dn_rows[k]``, with the
+    largest fault current ``i_max_ma[k]`` [mA].  One numpy pass over a
+    (pairs × samples) array, no Python work per pair.
+
     Each pair's grid holds every breakpoint of both step functions plus a log
     grid, and the geometric midpoint of every gap; as the bands are constant
     between breakpoints, the result is exact, not sampled.
@@ -224,9 +254,9 @@ def pair_bands(
     ----------
     IEC 61008-1 Ed.3 Table 1; practice note section 5 (current and time selectivity).
     """
-    p = len(ups)
-    up = DeviceArrays.build(ups)
-    dn = DeviceArrays.build(downs)
+    p = len(up_rows)
+    up = table.take(np.asarray(up_rows, dtype=np.intp).reshape(p))
+    dn = table.take(np.asarray(dn_rows, dtype=np.intp).reshape(p))
     lo = NON_OPERATING_FRACTION * np.minimum(dn.idn_ma, up.idn_ma)
     hi = np.maximum(np.asarray(i_max_ma, dtype=np.float64).reshape(p), lo)
     log = lo[:, None] * (hi / lo)[:, None] ** np.linspace(0.0, 1.0, LOG_POINTS)[None, :]

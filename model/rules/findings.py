@@ -35,9 +35,14 @@ CAUTION = (
 )
 
 
-@dataclass(frozen=True, slots=True)
+@dataclass(slots=True, unsafe_hash=True)
 class Finding:
-    """One thing the checks found, with the source it rests on."""
+    """One thing the checks found, with the source it rests on.
+
+    Treat as read-only (not frozen only because frozen construction is slow at
+    scale: a large site has thousands of findings); ``dataclasses.replace``
+    makes a changed copy.
+    """
 
     rule: str
     severity: Severity
@@ -65,7 +70,7 @@ class Finding:
 _FINDING_FIELDS: tuple[str, ...] = tuple(f.name for f in fields(Finding))
 
 
-@dataclass(frozen=True, slots=True)
+@dataclass(slots=True, unsafe_hash=True)
 class CurrentRange:
     """An open range of residual current (lo_ma, hi_ma) where selectivity is not guaranteed."""
 
@@ -79,9 +84,12 @@ class CurrentRange:
         return f"{fmt_ma(self.lo_ma)} to {fmt_ma(self.hi_ma)}"
 
 
-@dataclass(frozen=True, slots=True)
+@dataclass(slots=True, unsafe_hash=True)
 class MeasuredMargin:
-    """Selectivity judged from readings taken on site (an estimate from measurements)."""
+    """Selectivity judged from readings taken on site (an estimate from measurements).
+
+    Treat as read-only, like :class:`Finding`.
+    """
 
     selective: bool | None
     down_slowest_ms: float | None
@@ -93,9 +101,12 @@ class MeasuredMargin:
         return asdict(self)
 
 
-@dataclass(frozen=True, slots=True)
+@dataclass(slots=True, unsafe_hash=True)
 class PairAnalysis:
-    """A series pair of residual-current devices (upstream above downstream)."""
+    """A series pair of residual-current devices (upstream above downstream).
+
+    Treat as read-only, like :class:`Finding` (one per pair: thousands on a large site).
+    """
 
     up: str
     down: str

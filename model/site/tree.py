@@ -29,6 +29,7 @@ class SiteIndex:
     ocpd_above: dict[str, tuple[str, ...]] = field(default_factory=dict)
     _rcds: list[str] = field(default_factory=list)
     _circuits: list[str] = field(default_factory=list)
+    _ocpds: list[str] = field(default_factory=list)
 
     @classmethod
     def build(cls, site: SiteFile) -> SiteIndex:
@@ -45,7 +46,7 @@ class SiteIndex:
                 kids.setdefault(n.parent, []).append(n)
         if root is None:
             return idx
-        order, rcd_list, circuit_list = idx.order, idx._rcds, idx._circuits
+        order, rcd_list, circuit_list, ocpd_list = idx.order, idx._rcds, idx._circuits, idx._ocpds
         rcd_above, ocpd_above, board_of = idx.rcd_above, idx.ocpd_above, idx.board_of
         stack: list[tuple[Any, tuple[str, ...], tuple[str, ...], str]] = [(root, (), (), root.id)]
         while stack:
@@ -63,6 +64,7 @@ class SiteIndex:
                 board = nid
             board_of[nid] = board
             if kind in OVERCURRENT_KINDS:
+                ocpd_list.append(nid)
                 ocpds = (nid, *ocpds)
             below = kids.get(nid)
             if below:
@@ -101,6 +103,10 @@ class SiteIndex:
     def circuits(self) -> list[str]:
         """Circuits in tree order (do not modify the list)."""
         return self._circuits
+
+    def ocpds(self) -> list[str]:
+        """Overcurrent devices in tree order (do not modify the list)."""
+        return self._ocpds
 
     def label(self, node_id: str) -> str:
         """The node's label, or its id where it has none."""

@@ -9,10 +9,15 @@ from model.rules.checks.context import Context
 from model.rules.checks.pair_verdict import (
     confirm_note,
     five_x_confirmed_ms,
+    open_ranges,
     pair_verdict,
     remedies,
+    selective_verdict,
 )
-from model.rules.envelope import DeviceCurve, all_unsafe_ranges, pair_bands
+from model.rules.envelope import (
+    DeviceCurve,
+    curve_key,
+)
 from model.rules.findings import (
     CurrentRange,
     Finding,
@@ -75,10 +80,6 @@ def largest_fault_ma(ctx: Context) -> dict[str, float]:
     else:
         fallback = DEFAULT_MAX_FAULT_A.value * 1000.0
     return {r: (u0 / z * 1000.0 if z != inf else fallback) for r, z in min_zs.items()}
-
-
-def _delayed(node: Any) -> bool:
-    return str(node.delay) in ("S", "set")
 
 
 def _times(reading: Any, group: str) -> list[float | str]:
@@ -153,63 +154,100 @@ def measured_margin(
 
 
 def analyse_pairs(ctx: Context) -> list[PairAnalysis]:
-    """Rule verdict, non-selective current ranges and measured margin of every series pair."""
+    """Rule verdict, non-selective current ranges and measured margin of every series pair.
+
+    The bands of each distinct device curve are built once; every pair is
+    judged in one numpy pass (:func:`model.rules.envelope.class_pair_bands`);
+    the words are built per pair only where its verdict needs them.
+    """
     pairs = series_pairs(ctx)
     if not pairs:
         return []
-    idx = ctx.index
+    by_id = ctx.index.by_id
     faults = largest_fault_ma(ctx)
-    curves = {r: DeviceCurve.of(idx.by_id[r]) for r in idx.rcds()}
-    ups = [curves[u] for u, _ in pairs]
-    downs = [curves[d] for _, d in pairs]
+    # one curve per device class; each device points at its class's row
+    class_of: dict[tuple[float, str, float | None, float | None], int] = {}
+    curves: list[DeviceCurve] = []
+    row_of: dict[str, int] = {}
+    for r in ctx.index.rcds():
+        key = curve_key(by_id[r])
+        k = class_of.get(key)
+        if k is None:
+            k = class_of[key] = len(curves)
+            curves.append(DeviceCurve(*key))
+        row_of[r] = k
+    up_rows = [row_of[u] for u, _ in pairs]
+    dn_rows = [row_of[d] for _, d in pairs]
     imax = [faults[d] for _, d in pairs]
-    bands = pair_bands(ups, downs, imax)
-    std_ranges = all_unsafe_ranges(bands)
-    confirmed = {
-        r: ms
-        for r in idx.rcds()
-        if (ms := five_x_confirmed_ms(ctx, idx.by_id[r], curves[r])) is not None
-    }
-    conf_rows = [row for row, (_, d) in enumerate(pairs) if d in confirmed and std_ranges[row]]
+    # pairs of the same two curves and fault level have the same ranges: judged once
+    combo_of: dict[tuple[int, int, float], int] = {}
+    combo = [
+        combo_of.setdefault(key, len(combo_of)) for key in zip(up_rows, dn_rows, imax, strict=True)
+    ]
+    by_combo = open_ranges(curves, list(combo_of))
+    std_ranges = [by_combo[c] for c in combo]
+    # a downstream 5 IΔn test within 40 ms matters only where the bands leave a range
+    confirmed: dict[str, float | None] = {}
+    conf_rows: list[int] = []
+    for row, (_, d) in enumerate(pairs):
+        if std_ranges[row]:
+            if d not in confirmed:
+                confirmed[d] = five_x_confirmed_ms(ctx, by_id[d], curves[row_of[d]])
+            if confirmed[d] is not None:
+                conf_rows.append(row)
     conf_ranges: dict[int, list[tuple[float, float]]] = {}
     if conf_rows:
-        conf_bands = pair_bands(
-            [ups[row] for row in conf_rows],
-            [
-                DeviceCurve(c.idn_ma, c.delay, c.delay_ms, c.max_break_ms, True)
-                for c in (downs[row] for row in conf_rows)
-            ],
-            [imax[row] for row in conf_rows],
-        )
-        conf_all = all_unsafe_ranges(conf_bands)
-        conf_ranges = {row: conf_all[k] for k, row in enumerate(conf_rows)}
-    rows: list[tuple[Any, ...]] = []
-    remedy_rows = []
-    gaps: list[int] = []
+        conf_of: dict[tuple[int, int, float], int] = {}
+        conf_combo = [
+            conf_of.setdefault((up_rows[row], dn_rows[row], imax[row]), len(conf_of))
+            for row in conf_rows
+        ]
+        conf_by = open_ranges(curves, list(conf_of), down_confirmed=True)
+        conf_ranges = {row: conf_by[c] for row, c in zip(conf_rows, conf_combo, strict=True)}
+    # the 3:1 and time-delay rule reads only the two curves: once per pair of classes
+    rule_of: dict[tuple[int, int], tuple[float, bool, bool, tuple[str, ...]]] = {}
+    out: list[PairAnalysis | None] = []
+    open_rows: list[tuple[int, float, bool, tuple[str, ...], Any, Any]] = []
     for row, (u, d) in enumerate(pairs):
-        up, down = idx.by_id[u], idx.by_id[d]
-        ratio = float(up.idn_ma) / float(down.idn_ma)
-        notes: list[str] = []
-        delayed = _delayed(up)
-        if not delayed:
-            notes.append("upstream is not time-delayed")
-        short = ratio_below(ratio)
-        if short:
-            notes.append(f"IΔn ratio {fmt_ratio(ratio)} is below {_RATIO}")
+        classes = (up_rows[row], dn_rows[row])
+        rule = rule_of.get(classes)
+        if rule is None:
+            rule = rule_of[classes] = _rule(curves[classes[0]], curves[classes[1]])
+        ratio, delayed, short, notes = rule
         ranges = std_ranges[row]
-        judged = conf_ranges.get(row, ranges) if ranges else ranges
-        note = confirm_note(down, confirmed[d]) if ranges and row in conf_ranges else ""
+        if not ranges:  # selective by the bands: nothing measured is needed
+            v = selective_verdict(imax[row])
+            out.append(
+                PairAnalysis(u, d, ratio, delayed, not notes, notes, float(imax[row]), (),
+                             None, v.verdict, v.explanation)
+            )  # fmt: skip
+            continue
+        up, down = by_id[u], by_id[d]
+        judged = conf_ranges.get(row, ranges)
+        ms = confirmed[d]
+        note = confirm_note(down, ms) if ms is not None and row in conf_ranges else ""
         margin = measured_margin(ctx, up, down, judged)
         v = pair_verdict(not notes, imax[row], ranges, judged, margin, note)
-        if v.verdict in ("not-guaranteed", "not-selective"):
-            gaps.append(row)
-            remedy_rows.append(
-                (ups[row], downs[row], imax[row], delayed, short, row in conf_ranges)
+        open_rows.append((row, ratio, delayed, notes, margin, v))
+        out.append(None)  # filled in below, once the remedies are known
+    gaps = [r for r in open_rows if r[5].verdict in ("not-guaranteed", "not-selective")]
+    actions = remedies(
+        [
+            (
+                curves[up_rows[row]],
+                curves[dn_rows[row]],
+                imax[row],
+                delayed,
+                ratio_below(ratio),
+                row in conf_ranges,
             )
-        rows.append((u, d, ratio, delayed, tuple(notes), ranges, margin, v))
-    actions = dict(zip(gaps, remedies(remedy_rows), strict=True))
-    return [
-        PairAnalysis(
+            for row, ratio, delayed, _, _, _ in gaps
+        ]
+    )
+    action_of = {r[0]: a for r, a in zip(gaps, actions, strict=True)}
+    for row, ratio, delayed, notes, margin, v in open_rows:
+        u, d = pairs[row]
+        out[row] = PairAnalysis(
             up=u,
             down=d,
             ratio=ratio,
@@ -217,14 +255,28 @@ def analyse_pairs(ctx: Context) -> list[PairAnalysis]:
             rule_ok=not notes,
             rule_notes=notes,
             i_max_ma=float(imax[row]),
-            ranges=tuple(CurrentRange(lo, hi) for lo, hi in ranges),
+            ranges=tuple(CurrentRange(lo, hi) for lo, hi in std_ranges[row]),
             measured=margin,
             verdict=v.verdict,
             explanation=v.explanation,
-            action=actions.get(row, ""),
+            action=action_of.get(row, ""),
         )
-        for row, (u, d, ratio, delayed, notes, ranges, margin, v) in enumerate(rows)
-    ]
+    done = [p for p in out if p is not None]
+    assert len(done) == len(pairs)
+    return done
+
+
+def _rule(up: DeviceCurve, down: DeviceCurve) -> tuple[float, bool, bool, tuple[str, ...]]:
+    """(IΔn ratio, upstream delayed, ratio below 3, the notes) of a pair of curves."""
+    ratio = up.idn_ma / down.idn_ma
+    notes: list[str] = []
+    delayed = up.delay in ("S", "set")
+    if not delayed:
+        notes.append("upstream is not time-delayed")
+    short = ratio_below(ratio)
+    if short:
+        notes.append(f"IΔn ratio {fmt_ratio(ratio)} is below {_RATIO}")
+    return ratio, delayed, short, tuple(notes)
 
 
 def check_cascade(ctx: Context) -> Iterator[Finding]:

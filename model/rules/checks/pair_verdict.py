@@ -17,13 +17,26 @@ IEC 61008-1 Ed.3 Table 1 and its note on 0.25 A.
 from __future__ import annotations
 
 from dataclasses import dataclass
+from functools import lru_cache
 from typing import Any
 
 from model.rules.checks.context import Context
-from model.rules.envelope import DeviceCurve, has_unsafe, pair_bands
-from model.rules.findings import MeasuredMargin, fmt_ma
+from model.rules.envelope import (
+    DeviceArrays,
+    DeviceCurve,
+    all_unsafe_ranges,
+    class_pair_bands,
+    has_unsafe,
+    pair_bands,
+)
+from model.rules.findings import MeasuredMargin
+from model.rules.findings import fmt_ma as _fmt_ma
 from model.rules.limits import ALT_5X_CURRENT_A, BREAK_TIMES
 from model.site.terms import DID_NOT_TRIP
+
+#: :func:`model.rules.findings.fmt_ma`, remembered: the same few currents (table
+#: columns, fault levels) are worded for thousands of pairs.
+fmt_ma = lru_cache(maxsize=4096)(_fmt_ma)
 
 #: Maximum break time of a general device at 5 IΔn. [ms]
 FIVE_X_MAX_MS = next(p.general_max_ms for p in BREAK_TIMES if p.multiple == 5.0)
@@ -66,6 +79,12 @@ def ranges_words(ranges: list[tuple[float, float]]) -> str:
     return ", ".join(f"{fmt_ma(lo)} and {fmt_ma(hi)}" for lo, hi in ranges)
 
 
+@lru_cache(maxsize=4096)
+def selective_verdict(i_max_ma: float) -> Verdict:
+    """The verdict on a pair whose bands do not overlap (shared by pairs of one fault level)."""
+    return Verdict("selective", "the bands do not overlap anywhere up to " + fmt_ma(i_max_ma), [])
+
+
 def pair_verdict(
     rule_ok: bool,
     i_max_ma: float,
@@ -76,9 +95,7 @@ def pair_verdict(
 ) -> Verdict:
     """The verdict and its explanation (see the module docstring)."""
     if not ranges:
-        return Verdict(
-            "selective", "the bands do not overlap anywhere up to " + fmt_ma(i_max_ma), []
-        )
+        return selective_verdict(i_max_ma)
     if not judged:
         return Verdict(
             "selective-in-practice",
@@ -110,14 +127,63 @@ def pair_verdict(
 
 
 def confirm_note(down: Any, ms: float) -> str:
+    """Why the downstream device's 5 IΔn test closes the gap the 0.25 A note leaves."""
+    return _confirm_note(float(down.idn_ma), ms)
+
+
+@lru_cache(maxsize=1024)
+def _confirm_note(idn_ma: float, ms: float) -> str:
     return (
-        f"the downstream 5 IΔn test ({ms:g} ms at {fmt_ma(5 * float(down.idn_ma))}) confirms "
+        f"the downstream 5 IΔn test ({ms:g} ms at {fmt_ma(5 * idn_ma)}) confirms "
         f"it within {FIVE_X_MAX_MS:g} ms from there (the standard guarantees that only from "
         f"{fmt_ma(ALT_5X_CURRENT_A * 1000)})"
     )
 
 
+def open_ranges(
+    curves: list[DeviceCurve],
+    keys: list[tuple[int, int, float]],
+    *,
+    down_confirmed: bool = False,
+) -> list[list[tuple[float, float]]]:
+    """The ranges where selectivity is not guaranteed, for each key. [mA]
+
+    Each key is (upstream curve's index in ``curves``, downstream curve's
+    index, largest fault current [mA]).  ``down_confirmed``: read every
+    downstream device as confirmed within 40 ms at 5 IΔn by a site test.
+    All keys are judged in one numpy pass.
+    """
+    devices = curves
+    offset = 0
+    if down_confirmed:
+        offset = len(curves)
+        devices = curves + [
+            DeviceCurve(c.idn_ma, c.delay, c.delay_ms, c.max_break_ms, True) for c in curves
+        ]
+    bands = class_pair_bands(
+        DeviceArrays.build(devices),
+        [k[0] for k in keys],
+        [k[1] + offset for k in keys],
+        [k[2] for k in keys],
+    )
+    return all_unsafe_ranges(bands)
+
+
 def remedies(
+    rows: list[tuple[DeviceCurve, DeviceCurve, float, bool, bool, bool]],
+) -> list[str]:
+    """What would close each pair's gap: one sentence per row (see :func:`_remedy_texts`).
+
+    Rows alike in all but the confirmation flag, which the sentence does not
+    read, share one sentence, worked out once.
+    """
+    index: dict[tuple[Any, ...], int] = {}
+    alike = [index.setdefault(r[:5], len(index)) for r in rows]
+    texts = _remedy_texts([(*key, False) for key in index])  # type: ignore[misc]
+    return [texts[k] for k in alike]
+
+
+def _remedy_texts(
     rows: list[tuple[DeviceCurve, DeviceCurve, float, bool, bool, bool]],
 ) -> list[str]:
     """What would close each pair's gap: one sentence per row.

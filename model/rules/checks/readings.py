@@ -10,17 +10,19 @@ from model.rules.bands import (
     GROUP_TITLE,
     GROUPS,
     NOT_APPLICABLE,
+    Band,
+    Judgement,
+    RampBand,
     fmt_result,
     judge_ramp,
     judge_time,
     ramp_band,
-    time_band,
     worse,
 )
 from model.rules.checks.context import Context
 from model.rules.findings import Finding, Severity
+from model.rules.flags import GROUP_KEYS, time_flag
 from model.rules.waveforms import WAVEFORM_TYPE_SOURCE, waveform_applies
-from model.site.history import visits_before
 from model.site.models import Reading, Visit
 from model.site.terms import DID_NOT_TRIP
 
@@ -116,7 +118,7 @@ def _outstanding(
     Common practice: a failure stays outstanding until a later test shows the
     device (or its replacement) passing.
     """
-    for v in visits_before(ctx.site, latest.id):
+    for v in ctx.earlier_visits():
         r = v.readings.get(dev)
         if r is None or r.not_tested is not None or not r.has_values():
             continue
@@ -147,7 +149,6 @@ def reading_findings(
     """Every finding on one device's reading of one visit (all its test waveforms)."""
     board = ctx.index.board_of[dev]
     label = ctx.index.label(dev)
-    rules = ctx.rules.name
     required_seen = False
     for res in reading.result_sets():
         wf = res.waveform
@@ -169,29 +170,26 @@ def reading_findings(
             )
             continue
         title = "" if wf == REQUIRED_WAVEFORM else f" {wf}"
-        for group in GROUPS:
-            band = time_band(node, group, wf, rules, res.test_current)
-            v0, v180 = getattr(res, f"{group}_0"), getattr(res, f"{group}_180")
+        values = res.__dict__
+        bands = ctx.judged(node, res)[0]
+        for g, (band, (group, k0, k180)) in enumerate(zip(bands, GROUP_KEYS, strict=True)):
+            v0, v180 = values[k0], values[k180]
             if v0 is None and v180 is None:
                 continue
             if band.required:
                 required_seen = True
+            j = judge_group(ctx, node, res, g, band)
+            if j is None or j.flag is None:
+                continue  # within its band
+            flag = j.flag
             both = f"0°: {fmt_result(v0)}, 180°: {fmt_result(v180)}"
-            j = judge_time(band, worse(v0, v180, group))
-            if j.flag is None and band.min_ms is not None:
-                # too fast is judged on the faster of the two
-                times = [float(v) for v in (v0, v180) if v is not None and v != DID_NOT_TRIP]
-                if times:
-                    j = judge_time(band, min(times))
-            if j.flag is None:
-                continue
             yield Finding(
-                rule=j.flag,
-                severity=_SEVERITY[j.flag],
+                rule=flag,
+                severity=_SEVERITY[flag],
                 nodes=(dev,),
                 board=board,
                 message=f"{label}: {GROUP_TITLE[group]}{title} test {j.text} ({both}).",
-                action=_ACTION[j.flag],
+                action=_ACTION[flag],
                 source=band.source,
                 basis=band.basis,
                 measured=both,
@@ -231,11 +229,43 @@ def reading_findings(
         )
 
 
-def _ramp(ctx: Context, dev: str, node: Any, res: Any, visit_id: str) -> Iterator[Finding]:
+def judge_group(ctx: Context, node: Any, res: Any, g: int, band: Band) -> Judgement | None:
+    """The judgement of test group ``g`` (index in ``GROUPS``) of one set of results
+    against its band, where one of its values is flagged; else None (no words built).
+
+    The worse of the 0° and 180° results is judged; a too-fast check is made on
+    the faster of the two.
+    """
+    flags = ctx.value_flags(node, res)
+    if flags[2 * g] is None and flags[2 * g + 1] is None:
+        return None  # neither value is flagged: neither is the worse of the two
+    group, k0, k180 = GROUP_KEYS[g]
+    values = res.__dict__
+    v0, v180 = values[k0], values[k180]
+    judged = worse(v0, v180, group)
+    flag = time_flag(band, judged)
+    if flag is None and band.min_ms is not None:
+        times = [float(v) for v in (v0, v180) if v is not None and v != DID_NOT_TRIP]
+        if times:
+            judged = min(times)
+            flag = time_flag(band, judged)
+    return None if flag is None else judge_time(band, judged)
+
+
+def judge_ramp_result(ctx: Context, node: Any, res: Any) -> tuple[RampBand, Judgement] | None:
+    """The band and judgement of a ramp result outside its band; else None."""
+    flag = ctx.value_flags(node, res)[-1]  # the ramp value's flag
+    if flag is None or flag == NOT_APPLICABLE:
+        return None  # within its band (or not recorded, or not judged)
     rb = ramp_band(node, res.waveform)
-    jr = judge_ramp(rb, res.ramp_ma)
-    if jr.flag is None or jr.flag == NOT_APPLICABLE:
+    return rb, judge_ramp(rb, res.ramp_ma)
+
+
+def _ramp(ctx: Context, dev: str, node: Any, res: Any, visit_id: str) -> Iterator[Finding]:
+    judged = judge_ramp_result(ctx, node, res)
+    if judged is None:
         return
+    rb, jr = judged
     label = ctx.index.label(dev)
     high = res.ramp_ma is not None and res.ramp_ma > rb.high_ma
     wf = "" if res.waveform == REQUIRED_WAVEFORM else f" ({res.waveform})"

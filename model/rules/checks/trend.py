@@ -6,8 +6,9 @@ from collections.abc import Iterator
 from typing import Any
 
 from model.rules.bands import (
-    FAILURE_FLAGS,
     GROUP_TITLE,
+    GROUPS,
+    Band,
     fmt_value,
     group_of,
     judge_reading,
@@ -17,13 +18,14 @@ from model.rules.bands import (
 )
 from model.rules.checks.context import Context
 from model.rules.findings import Finding
-from model.site.history import visits_before
+from model.rules.flags import failing_keys
 from model.site.models import Reading, TrendSettings, Visit
 from model.site.terms import TEST_NAMES, reading_label
 
 #: The tests a device must trip on; a growing trip time there means something.
 #: The ½ IΔn tests are left out: the device must not trip there at all.
 TREND_TESTS: tuple[str, ...] = tuple(t for t in TEST_NAMES if group_of(t) in ("x1", "x5"))
+_GROUP_INDEX: dict[str, int] = {t: GROUPS.index(group_of(t)) for t in TREND_TESTS}
 
 _SOURCE = (
     "Site trend thresholds (common practice: a trip time that grows markedly between "
@@ -55,7 +57,7 @@ def check_trend(ctx: Context) -> Iterator[Finding]:
     latest = ctx.latest
     if latest is None:
         return
-    earlier = visits_before(ctx.site, latest.id)
+    earlier = ctx.earlier_visits()
     if not earlier:
         return
     trend = ctx.site.site.trend
@@ -115,6 +117,44 @@ def rule_text(trend: TrendSettings) -> str:
     )
 
 
+def grown_tests(
+    ctx: Context, dev: str, node: Any, res: Any, earlier: list[Visit], trend: TrendSettings
+) -> list[tuple[str, Visit, float, float]]:
+    """(test, earlier visit, then [ms], now [ms]) of each test of one set of results whose
+    trip time has grown too much since the latest earlier visit with that test."""
+    grown: list[tuple[str, Visit, float, float]] = []
+    wf = res.waveform
+    values = res.__dict__
+    tc = values["test_current"]
+    bands: tuple[Band, ...] | None = None
+    #: earlier results with this test waveform and test current, most recent first
+    prevs: list[tuple[Visit, dict[str, Any]]] | None = None
+    for key in TREND_TESTS:
+        now = numeric_value(values[key])
+        if now is None:
+            continue
+        if bands is None:
+            bands = ctx.judged(node, res)[0]
+        band = bands[_GROUP_INDEX[key]]
+        if not band.applies:
+            continue
+        if prevs is None:
+            prevs = []
+            for prev_visit in earlier:
+                r = prev_visit.readings.get(dev)
+                prev = None if r is None else r.results_for(wf)
+                if prev is not None and prev.test_current == tc:
+                    prevs.append((prev_visit, prev.__dict__))
+        for prev_visit, prev_values in prevs:
+            then = numeric_value(prev_values[key])
+            if then is None:
+                continue
+            if grown_too_much(then, now, band.min_ms, band.max_ms, trend):
+                grown.append((key, prev_visit, then, now))
+            break  # only the latest earlier visit with this test counts
+    return grown
+
+
 def _growth(
     ctx: Context,
     dev: str,
@@ -124,34 +164,16 @@ def _growth(
     earlier: list[Visit],
     trend: TrendSettings,
 ) -> Iterator[Finding]:
-    grown: list[tuple[str, Visit, float, float]] = []
-    wf = res.waveform
-    for key in TREND_TESTS:
-        now = numeric_value(getattr(res, key))
-        if now is None:
-            continue
-        band = time_band(node, group_of(key), wf, ctx.rules.name, res.test_current)
-        if not band.applies:
-            continue
-        for prev_visit in earlier:
-            r = prev_visit.readings.get(dev)
-            prev = None if r is None else r.results_for(wf)
-            if prev is None or prev.test_current != res.test_current:
-                continue
-            then = numeric_value(getattr(prev, key))
-            if then is None:
-                continue
-            if grown_too_much(then, now, band.min_ms, band.max_ms, trend):
-                grown.append((key, prev_visit, then, now))
-            break  # only the latest earlier visit with this test counts
+    grown = grown_tests(ctx, dev, node, res, earlier, trend)
     if not grown:
         return
+    wf = res.waveform
     items = [
         f"{reading_label(key)} {then:g} ms ({_when(pv)}) → {now:g} ms, +{now - then:g} ms "
         f"(+{100.0 * (now - then) / then:.0f} %)"
         for key, pv, then, now in grown
     ]
-    bands = sorted(
+    band_texts = sorted(
         {
             f"{GROUP_TITLE[group_of(k)]} "
             + time_band(node, group_of(k), wf, ctx.rules.name, res.test_current).text
@@ -169,7 +191,7 @@ def _growth(
             f"({wf} test current; now {_when(latest)}): "
             + "; ".join(items)
             + f". The site flags {rule.removesuffix(' (site setting)')} "
-            f"(bands: {', '.join(bands)})."
+            f"(bands: {', '.join(band_texts)})."
         ),
         action="Re-test; a device that is slowing down may be failing. Consider replacing it "
         "before it falls outside its band.",
@@ -184,28 +206,33 @@ def _growth(
     )
 
 
-def _newly_failing(
-    ctx: Context, dev: str, node: Any, reading: Reading, latest: Visit, earlier: list[Visit]
-) -> Iterator[Finding]:
-    prev_visit: Visit | None = None
-    prev: Reading | None = None
+def failing_since(
+    ctx: Context, dev: str, node: Any, reading: Reading, earlier: list[Visit]
+) -> tuple[Visit, Reading, list[str]] | None:
+    """(previous visit, its reading, the keys now failing) where a device within every
+    band on the previous visit with values now fails one; else None."""
+    keys = failing_keys(ctx.value_flags(node, reading), reading.button)
+    if not keys:
+        return None  # nothing fails now: no earlier reading need be looked at
     for v in earlier:
         r = v.readings.get(dev)
         if r is not None and r.not_tested is None and r.has_values():
-            prev_visit, prev = v, r
-            break
-    if prev is None or prev_visit is None:
+            if failing_keys(ctx.value_flags(node, r), r.button):
+                return None
+            return v, r, keys
+    return None
+
+
+def _newly_failing(
+    ctx: Context, dev: str, node: Any, reading: Reading, latest: Visit, earlier: list[Visit]
+) -> Iterator[Finding]:
+    found = failing_since(ctx, dev, node, reading, earlier)
+    if found is None:
         return
-    rules = ctx.rules.name
-    now = judge_reading(node, reading, rules)
-    failing = [(k, j) for k, j in now.items() if j.flag in FAILURE_FLAGS]
-    if not failing:
-        return
-    before = judge_reading(node, prev, rules)
-    if any(j.flag in FAILURE_FLAGS for j in before.values()):
-        return
+    prev_visit, prev, keys = found
+    now = judge_reading(node, reading, ctx.rules.name)  # the words, for the failing values
+    failing = [(k, now[k]) for k in keys]
     label = ctx.index.label(dev)
-    keys = [k for k, _ in failing]
     then_vals = ", ".join(f"{reading_label(k)} {fmt_value(k, getattr(prev, k))}" for k in keys)
     now_vals = ", ".join(f"{reading_label(k)} {fmt_value(k, getattr(reading, k))}" for k in keys)
     yield Finding(

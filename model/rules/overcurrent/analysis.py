@@ -32,9 +32,8 @@ NEEDS_MAKER = (
 
 
 def oc_devices(idx: SiteIndex) -> list[str]:
-    """Overcurrent devices in tree order."""
-    by_id = idx.by_id
-    return [n for n in idx.order if by_id[n].__dict__["kind"] in OVERCURRENT_KINDS]
+    """Overcurrent devices in tree order (the index's list: do not modify it)."""
+    return idx.ocpds()
 
 
 def series_oc_pairs(idx: SiteIndex, devices: list[str] | None = None) -> list[tuple[str, str]]:
@@ -62,36 +61,72 @@ def overcurrent_pairs(idx: SiteIndex, values: SiteValues) -> list[OcPair]:
 
     Pairs that share both bands, the fault level and the maker's limit share
     one judgement: the distinct combinations are judged together with numpy.
+    Each device's band, and the lines that describe it, are worked out once
+    however many pairs it is in.
     """
-    devices = oc_devices(idx)
-    pairs = series_oc_pairs(idx, devices)
-    if not pairs:
-        return []
     by_id = idx.by_id
-    bands: dict[str, Band | str] = {d: band_of(by_id[d]) for d in devices}
+    above = idx.ocpd_above
+    bands: dict[str, Band | str] = {}
+    up_lines: dict[str, str] = {}
+
+    def band(n: str) -> Band | str:
+        b = bands.get(n)
+        if b is None:
+            b = bands[n] = band_of(by_id[n])
+        return b
+
+    def label(n: str) -> str:
+        return by_id[n].__dict__["label"] or n
+
     combos: dict[tuple[Any, ...], int] = {}
     inputs: list[PairInput] = []
-    plan: list[tuple[str, str, float, tuple[float, str] | None, int]] = []
-    i_max_of = {d: values.at(d).ka * 1000.0 for d in devices}
-    for u, d in pairs:
+    unbanded: dict[tuple[Any, ...], OcPair] = {}
+    #: per pair: (up, down, fault level [A], maker's limit, judged row or the shared
+    #: verdict of an unbanded pair, the down device's lines)
+    plan: list[tuple[str, str, float, tuple[float, str] | None, int | OcPair, tuple[str, str]]]
+    plan = []
+    for d in oc_devices(idx):
+        ups = above[d]
+        if not ups:
+            continue
         down = by_id[d]
-        i_max = i_max_of[d]
-        limit = _maker_limit(down, u) if down.__dict__["maker_selectivity"] else None
-        ub, db = bands[u], bands[d]
-        row = -1
-        if ub.__class__ is Band and db.__class__ is Band:
-            assert isinstance(ub, Band) and isinstance(db, Band)
-            gg = (
-                ub.name.startswith("gG")
-                and db.name.startswith("gG")
-                and gg_rule_applies(by_id[u], down)
+        dd = down.__dict__
+        level = values.at(d)
+        i_max = level.ka * 1000.0
+        db = band(d)
+        lines = (
+            _band_line("downstream", label(d), db),
+            f"largest fault current {fmt_a(i_max)}: {level.note}",
+        )
+        has_limits = bool(dd["maker_selectivity"])
+        down_banded = db.__class__ is Band
+        down_gg = down_banded and db.name.startswith("gG")  # type: ignore[union-attr]
+        for u in ups:
+            limit = _maker_limit(down, u) if has_limits else None
+            ub = band(u)
+            if ub.__class__ is Band and down_banded:
+                assert isinstance(ub, Band) and isinstance(db, Band)
+                gg = down_gg and ub.name.startswith("gG") and gg_rule_applies(by_id[u], down)
+                key = (id(ub), id(db), i_max, limit[0] if limit else None, gg)
+                row = combos.get(key, -1)
+                if row < 0:
+                    row = combos[key] = len(inputs)
+                    inputs.append(PairInput(ub, db, i_max, limit[0] if limit else None, gg))
+                plan.append((u, d, i_max, limit, row, lines))
+                continue
+            ukey = (
+                ub if isinstance(ub, str) else id(ub),
+                db if isinstance(db, str) else id(db),
+                i_max,
+                limit,
+                dd.get("rated_a"),
             )
-            key = (id(ub), id(db), i_max, limit[0] if limit else None, gg)
-            row = combos.get(key, -1)
-            if row < 0:
-                row = combos[key] = len(inputs)
-                inputs.append(PairInput(ub, db, i_max, limit[0] if limit else None, gg))
-        plan.append((u, d, i_max, limit, row))
+            proto = unbanded.get(ukey)
+            if proto is None:
+                proto = unbanded[ukey] = _unbanded(u, d, down, ub, db, i_max, limit, ())
+            plan.append((u, d, i_max, limit, proto, lines))
+    if not plan:
+        return []
     judged_rows: list[tuple[Any, ...]] = []
     if inputs:
         judged = judge(inputs)
@@ -108,53 +143,28 @@ def overcurrent_pairs(idx: SiteIndex, values: SiteValues) -> list[OcPair]:
                 (verdict, sel_to, float(judged.lo_a[row]), tuple(ranges), maker, expl)
             )
     out: list[OcPair] = []
-    labels = {n: by_id[n].__dict__["label"] or n for n in devices}
-    up_line = {n: _band_line("upstream", labels[n], bands[n]) for n in devices}
-    down_line = {n: _band_line("downstream", labels[n], bands[n]) for n in devices}
-    level_line: dict[str, str] = {}
-    unbanded: dict[tuple[Any, ...], OcPair] = {}
-    for u, d, i_max, limit, row in plan:
-        lv = level_line.get(d)
-        if lv is None:
-            lv = level_line[d] = f"largest fault current {fmt_a(i_max)}: {values.at(d).note}"
-        data: tuple[str, ...] = (up_line[u], down_line[d], lv)
+    for u, d, i_max, limit, row, (down_line, level_line) in plan:
+        up_line = up_lines.get(u)
+        if up_line is None:
+            up_line = up_lines[u] = _band_line("upstream", label(u), bands[u])
+        data: tuple[str, ...] = (up_line, down_line, level_line)
         if limit is not None:
             data = (
                 *data,
                 f"maker's selectivity limit {fmt_a(limit[0])} ({limit[1] or 'source not given'})",
             )
-        if row < 0:
-            ub, db = bands[u], bands[d]
-            ukey = (
-                ub if isinstance(ub, str) else id(ub),
-                db if isinstance(db, str) else id(db),
-                i_max,
-                limit,
-                by_id[d].__dict__.get("rated_a"),
-            )
-            proto = unbanded.get(ukey)
-            if proto is None:
-                proto = unbanded[ukey] = _unbanded(u, d, by_id[d], ub, db, i_max, limit, ())
+        if isinstance(row, OcPair):
+            p = row
             out.append(
-                OcPair(u, d, proto.verdict, proto.limit_a, proto.lo_a, i_max, proto.ranges,
-                       proto.basis, proto.explanation, data)
+                OcPair(u, d, p.verdict, p.limit_a, p.lo_a, i_max, p.ranges, p.basis,
+                       p.explanation, data)
             )  # fmt: skip
             continue
         verdict, sel_to, lo, ranges, maker, expl = judged_rows[row]
         out.append(
-            OcPair(
-                up=u,
-                down=d,
-                verdict=verdict,
-                limit_a=sel_to,
-                lo_a=lo,
-                i_max_a=i_max,
-                ranges=ranges,
-                basis="maker" if maker else "standard",
-                explanation=expl,
-                data=data,
-            )
-        )
+            OcPair(u, d, verdict, sel_to, lo, i_max, ranges,
+                   "maker" if maker else "standard", expl, data)
+        )  # fmt: skip
     return out
 
 

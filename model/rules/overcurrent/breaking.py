@@ -22,9 +22,9 @@ SOURCE = "BS 7671 434.5.1; IEC 60364-4-43 434.5.1"
 CONDITIONAL_SOURCE = "BS 7671 536.4.201; BS EN 61439-3 Annex ZB"
 
 
-@dataclass(frozen=True, slots=True)
+@dataclass(slots=True, unsafe_hash=True)
 class Breaking:
-    """One device with a recorded breaking capacity and a known fault level."""
+    """One device with a recorded breaking capacity and a known fault level (read-only)."""
 
     device: str
     name: str

@@ -30,9 +30,9 @@ from model.site.tree import SiteIndex
 Mark = Literal["pass", "too high", "by RCD", "no Zs", "not known"]
 
 
-@dataclass(frozen=True, slots=True)
+@dataclass(slots=True, unsafe_hash=True)
 class Disconnection:
-    """One circuit's disconnection by its overcurrent device."""
+    """One circuit's disconnection by its overcurrent device (treat as read-only)."""
 
     circuit: str
     device: str | None
@@ -106,6 +106,7 @@ def disconnections(
     by_id, ocpd_above, rcd_above = idx.by_id, idx.ocpd_above, idx.rcd_above
     times = {final: T.max_disconnection_s(earthing, u0_v, final) for final in (True, False)}
     known: dict[tuple[str, str, float], tuple[float | None, str, str]] = {}
+    names: dict[str, str] = {}  # a device feeds many circuits: named once
     for c in idx.circuits():
         above = ocpd_above[c]
         if not above:
@@ -117,7 +118,7 @@ def disconnections(
         rated = dd.get("rated_a") or dd.get("ir_a") or cd["rated_a"]
         final = is_final(str(cd["use"]), rated)
         required = times[final]
-        name = device_name(dev)
+        name = names.get(dev_id) or names.setdefault(dev_id, device_name(dev))
         zs = values.zs.get(c)
         measured = zs.ohm if zs else None
         warm = zs.warm if zs else False
