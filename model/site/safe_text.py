@@ -42,7 +42,6 @@ CONTROL_ESCAPES: dict[int, str] = {
 LINE_ESCAPES: dict[int, str] = CONTROL_ESCAPES | {0x0A: "\\n", 0x09: "\\t"}
 
 
-
 def _finder(table: dict[int, str]) -> re.Pattern[str]:
     return re.compile("[" + "".join(re.escape(chr(code)) for code in sorted(table)) + "]")
 
