@@ -40,10 +40,10 @@ from model.storage.files import (
     read_regular,
     write_atomic,
 )
-from model.storage.sidefiles import fit_name, side_path
+from model.storage.sidefiles import JOURNAL_SUFFIX as JOURNAL_SUFFIX
+from model.storage.sidefiles import fit_name
+from model.storage.sidefiles import journal_path as journal_path
 
-#: Suffix of the journal beside a site file (``site.json.tripwise-journal``).
-JOURNAL_SUFFIX = ".tripwise-journal"
 JOURNAL_FORMAT = "tripwise.journal"
 JOURNAL_VERSION = 1
 #: A journal larger than this is rewritten as one whole-site entry. [bytes]
@@ -54,11 +54,6 @@ MAX_JOURNAL_BYTES = 256 * 1024 * 1024
 
 #: Opening a journal to append: never through a symbolic link, never blocking on a pipe.
 _WRITE_NO_LINK = os.O_WRONLY | os.O_NOFOLLOW | os.O_NONBLOCK | getattr(os, "O_CLOEXEC", 0)
-
-
-def journal_path(site_path: str | os.PathLike[str]) -> Path:
-    """The journal file of a site file."""
-    return side_path(site_path, JOURNAL_SUFFIX)
 
 
 @dataclass

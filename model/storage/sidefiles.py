@@ -72,6 +72,16 @@ def side_path(site_path: str | os.PathLike[str], suffix: str) -> Path:
     return p.with_name(fit_name(p.name, suffix))
 
 
+#: Suffix of the recovery journal beside a site file (``site.json.tripwise-journal``).
+JOURNAL_SUFFIX = ".tripwise-journal"
+
+
+def journal_path(site_path: str | os.PathLike[str]) -> Path:
+    """The recovery journal of a site file (:mod:`model.storage.journal` reads and writes it;
+    named here so that a command that only reads a site need not import the journal)."""
+    return side_path(site_path, JOURNAL_SUFFIX)
+
+
 # --- temporary files ----------------------------------------------------------
 
 
@@ -145,7 +155,7 @@ def writer_running(pid: int, token: str | None) -> bool:
 # --- files that only tripwise's site saving may write ---------------------------
 
 #: Suffixes of the side files that name a site's lock and journal.
-_WORK_SUFFIXES = (".tripwise-lock", ".tripwise-journal")
+_WORK_SUFFIXES = (".tripwise-lock", JOURNAL_SUFFIX)
 _BACKUP = re.compile(r"^(?P<site>.+?)(?:\.v\d+)?\.bak$", re.DOTALL)
 _SNIFF_BYTES = 4096
 

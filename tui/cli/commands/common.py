@@ -1,47 +1,21 @@
-"""Helpers shared by the sub-commands: loading a site, and writing one as the app does."""
+"""Helpers shared by the sub-commands: loading a site (from :mod:`tui.cli.loading`), and
+writing one as the app does."""
 
 from __future__ import annotations
 
-import contextlib
 import os
-import sys
 from pathlib import Path
 
 from model.site.models import SiteFile
 from model.site.ops import InvalidEdit
 from model.storage.codec import SiteLoadError, dumps_site
 from model.storage.files import SaveError, backup_path
-from model.storage.journal import journal_path
 from model.storage.lock import LockHeld
 from model.storage.session import EditSession
 from model.storage.sidefiles import protected_reason
-from model.storage.sites import load_site, read_site
-
-
-def say(message: str) -> None:
-    """One line on stderr, prefixed with the program's name."""
-    print(f"tripwise: {message}", file=sys.stderr)
-
-
-def load_or_report(path: str) -> SiteFile | None:
-    """Load a site; on failure print one clear line to stderr and return None.
-
-    When the site has edits in its recovery journal that are not yet in the
-    file, a note on stderr says so (commands read the file as saved).
-    """
-    try:
-        site = load_site(path)
-    except SiteLoadError as exc:
-        say(f"cannot load {exc}")
-        return None
-    with contextlib.suppress(OSError):
-        jp = journal_path(path)
-        if os.path.lexists(jp):
-            say(
-                f"note: {path} has edits not yet saved into the file (in {jp.name}); "
-                "open it in tripwise to recover them"
-            )
-    return site
+from model.storage.sites import read_site
+from tui.cli.loading import load_or_report as load_or_report
+from tui.cli.loading import say as say
 
 
 class SiteChanged(Exception):
