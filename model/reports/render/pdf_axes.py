@@ -58,10 +58,16 @@ class LogAxes:
         return self.py + self.ph - self.ph * (v - ly0) / (ly1 - ly0)
 
     def x(self, value: float) -> float:
-        return float(self.xs(np.array([value]))[0])
+        """Page x of one current (held to the span). [mm]"""
+        lx0, lx1 = math.log10(self.x_lo), math.log10(self.x_hi)
+        v = math.log10(min(max(value, self.x_lo), self.x_hi))
+        return self.px + self.pw * (v - lx0) / (lx1 - lx0)
 
     def y(self, value: float) -> float:
-        return float(self.ys(np.array([value]))[0])
+        """Page y of one time (held to the span). [mm]"""
+        ly0, ly1 = math.log10(self.y_lo), math.log10(self.y_hi)
+        v = math.log10(min(max(value, self.y_lo), self.y_hi))
+        return self.py + self.ph - self.ph * (v - ly0) / (ly1 - ly0)
 
 
 def log_ticks(lo: float, hi: float) -> list[tuple[float, bool]]:
@@ -93,22 +99,27 @@ def draw_grid(
     """
     px, py, pw, ph = ax.px, ax.py, ax.pw, ax.ph
     pdf.set_line_width(0.15)
+    every_label = ax.decades_x < 2.5
+    x_ticks = log_ticks(ax.x_lo, ax.x_hi)
+    y_ticks = [(t, major) for t, major in log_ticks(ax.y_lo, ax.y_hi) if major or minor_times]
+    # lines of one shade together: currents first, times over them, as drawn tick by tick
+    for major in (False, True):
+        pdf.pen(GRID_MAJOR if major else GRID_MINOR)
+        for v, _ in (tick for tick in x_ticks if tick[1] == major):
+            x = ax.x(v)
+            pdf.line(x, py, x, py + ph)
+    for major in (False, True):
+        pdf.pen(GRID_MAJOR if major else GRID_MINOR)
+        for t, _ in (tick for tick in y_ticks if tick[1] == major):
+            y = ax.y(t)
+            pdf.line(px, y, px + pw, y)
     pdf.font(6.4)
     pdf.ink(MUTED)
-    every_label = ax.decades_x < 2.5
-    for v, major in log_ticks(ax.x_lo, ax.x_hi):
-        x = ax.x(v)
-        pdf.pen(GRID_MAJOR if major else GRID_MINOR)
-        pdf.line(x, py, x, py + ph)
+    for v, major in x_ticks:
         if major or every_label:
-            pdf.text_line(x - 8, py + ph + 0.8, 16, 3, x_text(v), "C")
-    for t, major in log_ticks(ax.y_lo, ax.y_hi):
-        if not (major or minor_times):
-            continue
-        y = ax.y(t)
-        pdf.pen(GRID_MAJOR if major else GRID_MINOR)
-        pdf.line(px, y, px + pw, y)
-        pdf.text_line(px - 15.5, y - 1.5, 15, 3, y_text(t), "R")
+            pdf.text_line(ax.x(v) - 8, py + ph + 0.8, 16, 3, x_text(v), "C")
+    for t, _ in y_ticks:
+        pdf.text_line(px - 15.5, ax.y(t) - 1.5, 15, 3, y_text(t), "R")
 
 
 def draw_frame(pdf: ReportPdf, ax: LogAxes, x: float, current_name: str) -> None:

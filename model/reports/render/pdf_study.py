@@ -70,14 +70,16 @@ def draw_oc_chart(pdf: ReportPdf, c: OcChart, x: float, y: float, width: float) 
         pdf.set_line_width(0.2)
         for series in (rig_min, rig_max):
             draw_series(pdf, ax, cur, times_array(series))
-    for lo, hi, kind in c.ranges:
-        a, b = max(lo, ax.x_lo), min(hi, ax.x_hi)
-        if b <= a:
-            continue
-        xa, xb = ax.x(a), ax.x(b)
+    strips = [
+        (ax.x(max(lo, ax.x_lo)), ax.x(min(hi, ax.x_hi)), kind)
+        for lo, hi, kind in c.ranges
+        if min(hi, ax.x_hi) > max(lo, ax.x_lo)
+    ]
+    if strips:
         with pdf.local_context(fill_opacity=0.3):
-            pdf.fill(CLASH_STRONG if kind == "not-selective" else UNSHOWN)
-            pdf.rect(xa, py, max(xb - xa, 0.3), ph, style="F")
+            for xa, xb, kind in strips:
+                pdf.fill(CLASH_STRONG if kind == "not-selective" else UNSHOWN)
+                pdf.rect(xa, py, max(xb - xa, 0.3), ph, style="F")
     for value, rgb, text in (
         (c.i_max_a, CLASH_EDGE, "largest fault current"),
         (c.limit_a, LIMIT, "selective up to"),
