@@ -16,6 +16,7 @@ from model.reports.charts import pair_chart_data
 from model.reports.heading import Heading
 from model.reports.render.pdf_axes import LogAxes, _bends, times_array
 from model.reports.render.pdf_base import ReportPdf
+from model.reports.sheet import build_sheet
 from model.reports.writer import write_report
 from model.rules.checks import analyse
 from model.rules.envelope import DeviceCurve, band_curve
@@ -25,20 +26,7 @@ from tests.reports.report_sites import SAMPLES, big_raw, squash
 
 
 def _heading() -> Heading:
-    return Heading(
-        title="Test sheet",
-        site_name="Drawing check (invented)",
-        address="",
-        client="",
-        earthing="TN-S",
-        rules_title="",
-        visit_id=None,
-        visit_date=None,
-        inspector="",
-        instrument="",
-        generated="2026-11-20 09:30 UTC",
-        version="0",
-    )
+    return build_sheet(load_site(SAMPLES[0])).heading
 
 
 def test_log_axes_put_each_decade_an_equal_step_apart() -> None:
