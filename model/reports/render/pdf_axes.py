@@ -49,13 +49,15 @@ class LogAxes:
         """Page x of each current (held to the span). [mm]"""
         lx0, lx1 = math.log10(self.x_lo), math.log10(self.x_hi)
         v = np.log10(np.clip(values, self.x_lo, self.x_hi))
-        return self.px + self.pw * (v - lx0) / (lx1 - lx0)
+        out: np.ndarray = self.px + self.pw * (v - lx0) / (lx1 - lx0)
+        return out
 
     def ys(self, values: np.ndarray) -> np.ndarray:
         """Page y of each time (held to the span; infinity at the top). [mm]"""
         ly0, ly1 = math.log10(self.y_lo), math.log10(self.y_hi)
         v = np.log10(np.clip(values, self.y_lo, self.y_hi))
-        return self.py + self.ph - self.ph * (v - ly0) / (ly1 - ly0)
+        out: np.ndarray = self.py + self.ph - self.ph * (v - ly0) / (ly1 - ly0)
+        return out
 
     def x(self, value: float) -> float:
         """Page x of one current (held to the span). [mm]"""

@@ -210,7 +210,7 @@ class ReportPdf(FPDF):
         k = (style, word)
         got = self._widths.get(k)
         if got is None:
-            font = self.fonts[FAMILY + style]
+            font: Any = self.fonts[FAMILY + style]  # the bundled TrueType font
             shown = self._shown.get((font.fontkey, word))
             if shown is None:
                 was = self.current_font
