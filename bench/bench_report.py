@@ -1,35 +1,57 @@
-"""Benchmark: render the documents of a large invented site.
+"""Benchmark: the PDF documents of large invented sites, whole ``tripwise report`` commands.
 
-Target: a site with 1,000 residual-current devices and about 300 findings
-renders to PDF in under 5 s, and the PDF is under 2 MB.
+Targets: the remedial-work list of a site with 1,000 residual-current
+devices and about 300 findings in under 2 s (median, the whole command, from
+start to exit); the test sheet of the same site; the coordination study of a
+generated site with residual-current and fuse/breaker pairs.
 
-The site is built here (invented data): 50 boards, each fed by a 100 mA
-type S RCCB with 19 RCBOs of 30 mA below it.  On 5 boards the feed RCCB has
-no readings, so each of its 19 pairs gets a band-overlap finding (and a pair
-chart); 100 RCBOs read slower than 300 ms at 1 × IΔn (which also
-leaves their pair without a measured margin): about 300 findings in all.
+Each document is written by ``python -m tui report`` in a fresh process, so
+the figure includes start-up, loading and checking the site, building and
+rendering the document and writing it.  With ``--against REV`` the same
+commands run from a checkout of ``REV`` (made with ``git archive`` in a
+temporary folder) in alternation with this tree, so both are measured under
+the same load; the ratio is new median / old median.  Every PDF written is
+opened again (pypdf) and checked: its page count is the same on every run and
+in both trees, and its last page reads 'page N of N'.
 
-Run: python bench/bench_report.py
+The sites are built here (invented data).  The benchmark block: 50 boards,
+each fed by a 100 mA type S RCCB with 19 RCBOs of 30 mA below it.  On 5
+boards the feed RCCB has no readings, so each of its 19 pairs gets a
+band-overlap finding (and a pair chart); 100 RCBOs read slower than 300 ms
+at 1 × IΔn (which also leaves their pair without a measured margin): about
+300 findings in all.  The study site is ``bench/gen_site.py``'s
+generate_site(STUDY_NODES, 7): fuses, MCBs and cascaded RCDs.
+
+Run: python bench/bench_report.py [--against f5c9df4] [--runs 5] [--kinds remedial,sheet]
 """
 
 from __future__ import annotations
 
+import argparse
 import datetime as dt
 import os
+import resource
+import statistics
+import subprocess
 import sys
+import tarfile
+import tempfile
 import time
 from pathlib import Path
 from typing import Any
 
-sys.path.insert(0, str(Path(__file__).resolve().parents[1]))
+ROOT = Path(__file__).resolve().parents[1]
+sys.path.insert(0, str(ROOT))
+sys.path.insert(0, str(ROOT / "bench"))
 
-from model.reports.remedial import build_remedial  # noqa: E402
-from model.reports.sheet import build_sheet  # noqa: E402
-from model.reports.writer import render  # noqa: E402
-from model.rules.checks import analyse  # noqa: E402
-from model.site.models import SiteFile
+from gen_site import generate_site  # noqa: E402
+
+from model.site.models import SiteFile  # noqa: E402
+from model.storage.sites import save_site  # noqa: E402
 
 BOARDS, PER_BOARD, UNTESTED_FEEDS, SLOW = 50, 19, 5, 100
+STUDY_NODES = 400
+TARGET_S = {"remedial": 2.0}
 
 
 def build_site() -> SiteFile:
@@ -122,37 +144,106 @@ def build_site() -> SiteFile:
     return SiteFile.model_validate(raw)
 
 
+def checkout(rev: str, into: Path) -> Path:
+    """The tree of ``rev`` unpacked in ``into`` (git archive: no .git, nothing generated)."""
+    tar = into / "tree.tar"
+    with tar.open("wb") as out:
+        subprocess.run(["git", "-C", str(ROOT), "archive", rev], stdout=out, check=True)
+    with tarfile.open(tar) as t:
+        t.extractall(into / "tree", filter="data")
+    return into / "tree"
+
+
+def run_once(tree: Path, site: Path, kind: str, out: Path) -> tuple[float, float]:
+    """Wall and CPU seconds of one whole ``report`` command run from ``tree``."""
+    before = resource.getrusage(resource.RUSAGE_CHILDREN)
+    t0 = time.perf_counter()
+    cmd = [sys.executable, "-m", "tui", "report", str(site), "--kind", kind]
+    cmd += ["--out", str(out), "--force"]
+    subprocess.run(cmd, cwd=tree, check=True, stdout=subprocess.DEVNULL)
+    wall = time.perf_counter() - t0
+    after = resource.getrusage(resource.RUSAGE_CHILDREN)
+    cpu = (after.ru_utime - before.ru_utime) + (after.ru_stime - before.ru_stime)
+    return wall, cpu
+
+
+def pdf_pages(path: Path) -> int:
+    """Pages of the PDF as a reader opens it; fails unless the last page says 'page N of N'."""
+    import pypdf
+
+    reader = pypdf.PdfReader(path)
+    n = len(reader.pages)
+    last = "".join((reader.pages[-1].extract_text() or "").split())
+    if f"page{n}of{n}" not in last:
+        raise SystemExit(f"{path}: {n} pages, but the last page does not read 'page {n} of {n}'")
+    return n
+
+
+def floor_s(runs: int) -> float:
+    """Median seconds of a bare interpreter importing the libraries a PDF report needs."""
+    times = []
+    for _ in range(runs):
+        t0 = time.perf_counter()
+        subprocess.run([sys.executable, "-c", "import fpdf, pydantic, numpy"], check=True)
+        times.append(time.perf_counter() - t0)
+    return statistics.median(times)
+
+
+def summary(times: list[float]) -> str:
+    return f"{statistics.median(times):6.2f} s  ({min(times):.2f}–{max(times):.2f}, n={len(times)})"
+
+
 def main() -> None:
-    site = build_site()
-    t0 = time.perf_counter()
-    result = analyse(site)
-    t_an = time.perf_counter() - t0
-    rcds = sum(1 for n in site.nodes if n.kind in ("rccb", "rcbo"))
-    doc = build_remedial(site, result)
-    print(
-        f"site: {rcds} residual-current devices, {len(result.findings)} findings, "
-        f"{len(doc.charts)} pair charts; analyse {t_an:.2f} s"
-    )
-    when = dt.datetime(2026, 11, 1, tzinfo=dt.UTC)
-    for kind in ("remedial", "sheet"):
-        for fmt in ("pdf", "md", "csv", "txt"):
-            t0 = time.perf_counter()
-            data = render(
-                site, kind, fmt, generated=when, analysis=result if kind == "remedial" else None
-            )
-            dt_s = time.perf_counter() - t0
-            extra = ""
-            if fmt == "pdf":
-                pages = data.count(b"/Type /Page\n") or data.count(b"/Type /Page")
-                ok = dt_s < 5.0 and len(data) < 2 * 1024 * 1024
-                extra = f"  ~{pages} pages  target <5 s and <2 MB: {'met' if ok else 'MISSED'}"
-            print(f"{kind:9} {fmt:4} {dt_s:6.2f} s  {len(data) / 1024:8.1f} KiB{extra}")
-    t0 = time.perf_counter()
-    build_sheet(site)
-    print(
-        f"build_sheet alone {time.perf_counter() - t0:.2f} s; load average "
-        f"{os.getloadavg()[0]:.2f} on {os.cpu_count()} cores"
-    )
+    ap = argparse.ArgumentParser(description=__doc__.split("\n")[0])
+    ap.add_argument("--against", metavar="REV", help="also run a checkout of REV, alternately")
+    ap.add_argument("--runs", type=int, default=5, help="runs of each command (default 5)")
+    ap.add_argument("--kinds", default="remedial,sheet,study", help="documents to write")
+    args = ap.parse_args()
+    kinds = [k for k in args.kinds.split(",") if k]
+    with tempfile.TemporaryDirectory(prefix="tw-bench-") as tmp_s:
+        tmp = Path(tmp_s)
+        block, gen = tmp / "block.json", tmp / "generated.json"
+        save_site(build_site(), block)
+        save_site(generate_site(STUDY_NODES, 7), gen)
+        trees = {"new": ROOT}
+        if args.against:
+            trees = {"old": checkout(args.against, tmp), "new": ROOT}
+        print(
+            f"{dt.datetime.now(dt.UTC):%Y-%m-%d %H:%M} UTC; load average "
+            f"{os.getloadavg()[0]:.2f} on {os.cpu_count()} cores; old = {args.against or '-'}"
+        )
+        print(
+            f"floor (python -c 'import fpdf, pydantic, numpy'): {floor_s(args.runs):.2f} s median"
+        )
+        for kind in kinds:
+            site = gen if kind == "study" else block
+            walls: dict[str, list[float]] = {t: [] for t in trees}
+            cpus: dict[str, list[float]] = {t: [] for t in trees}
+            pages: dict[str, set[int]] = {t: set() for t in trees}
+            sizes: dict[str, int] = {}
+            for _ in range(args.runs):
+                for name, tree in trees.items():
+                    out = tmp / f"{name}-{kind}.pdf"
+                    wall, cpu = run_once(tree, site, kind, out)
+                    walls[name].append(wall)
+                    cpus[name].append(cpu)
+                    pages[name].add(pdf_pages(out))
+                    sizes[name] = out.stat().st_size
+            every = set().union(*pages.values())
+            if len(every) != 1:
+                raise SystemExit(f"{kind}: page counts differ between runs or trees: {pages}")
+            print(f"\n{kind} of {site.stem} site ({every.pop()} pages each)")
+            for name in trees:
+                print(
+                    f"  {name}: wall {summary(walls[name])}  cpu {summary(cpus[name])}  "
+                    f"{sizes[name] / 1024:7.1f} KiB"
+                )
+            if "old" in trees:
+                ratio = statistics.median(walls["new"]) / statistics.median(walls["old"])
+                print(f"  new / old (median wall): {ratio:.2f}")
+            if kind in TARGET_S:
+                met = statistics.median(walls["new"]) <= TARGET_S[kind]
+                print(f"  target <= {TARGET_S[kind]:g} s median: {'met' if met else 'MISSED'}")
 
 
 if __name__ == "__main__":

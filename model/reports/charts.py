@@ -18,13 +18,14 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, field
+from functools import lru_cache
 from typing import Literal
 
 import numpy as np
 
 from model.reports.analysis_view import site_index
 from model.rules.bands import GROUP_MULTIPLE, group_of
-from model.rules.envelope import DeviceCurve, band_curve
+from model.rules.envelope import DeviceArrays, DeviceCurve, max_break_ms, min_nonactuating_ms
 from model.rules.findings import Analysis, CurrentRange, PairAnalysis, device_text
 from model.rules.limits import (
     ALT_5X_CURRENT_A,
@@ -158,6 +159,22 @@ def _currents(span: Span, lo: float, hi: float, steps_ma: list[float]) -> np.nda
     return currents
 
 
+@lru_cache(maxsize=256)
+def _device_arrays(dev: DeviceCurve) -> DeviceArrays:
+    """The tabulated band of one kind of device, worked out once (a site has few kinds)."""
+    return DeviceArrays.build([dev])
+
+
+def _band_curve(dev: DeviceCurve, currents_ma: np.ndarray) -> tuple[np.ndarray, np.ndarray]:
+    """(minimum non-actuating, maximum break) times of one device at given currents. [ms]
+
+    As :func:`model.rules.envelope.band_curve`, with the device's table built once.
+    """
+    arr = _device_arrays(dev)
+    i = np.asarray(currents_ma, dtype=np.float64).reshape(1, -1)
+    return min_nonactuating_ms(arr, i)[0], max_break_ms(arr, i)[0]
+
+
 def _plain(values: np.ndarray) -> list[float | None]:
     return [None if math.isinf(v) else float(v) for v in values.tolist()]
 
@@ -225,8 +242,8 @@ def pair_chart_data(
 
     lo, hi = _span_ma(span, idn_up, idn_dn, pair)
     currents = _currents(span, lo, hi, _breakpoints_ma(idn_up) + _breakpoints_ma(idn_dn))
-    u_min, u_max = band_curve(DeviceCurve.of(up), currents)
-    d_min, d_max = band_curve(DeviceCurve.of(down), currents)
+    u_min, u_max = _band_curve(DeviceCurve.of(up), currents)
+    d_min, d_max = _band_curve(DeviceCurve.of(down), currents)
 
     notes: list[str] = []
     up_label, down_label = idx.label(up_id), idx.label(down_id)

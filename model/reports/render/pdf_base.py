@@ -15,6 +15,7 @@ from __future__ import annotations
 
 import unicodedata
 from pathlib import Path
+from typing import Any
 
 from fpdf import FPDF
 
@@ -61,7 +62,14 @@ class ReportPdf(FPDF):
         self.set_creator(f"tripwise {heading.version}")
         self.set_author(heading.inspector or "tripwise")
         self.c_margin = 0.8
+        #: Width of a text at 1 pt [mm], by style and text (as shown, stand-ins included).
         self._widths: dict[tuple[str, str], float] = {}
+        #: Each text as shown in each font: stand-ins in place of missing glyphs.
+        self._shown: dict[tuple[str, str], str] = {}
+        #: Wrapped paragraphs, by text, width, size and weight (measured, then drawn).
+        self._wrapped: dict[tuple[str, float, float, bool], list[str]] = {}
+        #: fpdf2's colour objects, made once for each colour used.
+        self._colours: dict[RGB, object] = {}
         #: Characters the font cannot show, each printed as ``[U+XXXX]`` instead.
         self.missing_glyphs: set[str] = set()
         self.font(9)
@@ -72,10 +80,21 @@ class ReportPdf(FPDF):
 
         fpdf2 calls this for every text it sets or measures; without it a
         character the font has no glyph for would be left out of the page.
+        The answer is kept for each font and text, so a text repeated on every
+        page or in every row is looked at once.
         """
+        font = self.current_font
+        key = ("" if font is None else font.fontkey, text)
+        shown = self._shown.get(key)
+        if shown is None:
+            shown = super().normalize_text(self._stand_ins(text))
+            self._shown[key] = shown
+        return shown
+
+    def _stand_ins(self, text: str) -> str:
         cmap = getattr(self.current_font, "cmap", None)
         if not cmap or all(ord(c) in cmap or c in _LAYOUT for c in text):
-            return super().normalize_text(text)
+            return text
         out: list[str] = []
         for c in text:
             if ord(c) in cmap or c in _LAYOUT:
@@ -83,7 +102,7 @@ class ReportPdf(FPDF):
             else:
                 self.missing_glyphs.add(c)
                 out.append(glyph_stand_in(c))
-        return super().normalize_text("".join(out))
+        return "".join(out)
 
     def missing_glyphs_note(self) -> str:
         """The note that lists the characters printed as stand-ins ('' when none)."""
@@ -100,10 +119,29 @@ class ReportPdf(FPDF):
 
     # small helpers -------------------------------------------------------------
     def font(self, size: float, bold: bool = False) -> None:
-        self.set_font(FAMILY, "B" if bold else "", size)
+        style = "B" if bold else ""
+        if self.font_size_pt != size or self.font_style != style or self.font_family != FAMILY:
+            self.set_font(FAMILY, style, size)
 
     def ink(self, rgb: RGB = INK) -> None:
-        self.set_text_color(*rgb)
+        """Text colour."""
+        self.set_text_color(self._colour(rgb, self.set_text_color, "text_color"))
+
+    def pen(self, rgb: RGB) -> None:
+        """Line colour."""
+        self.set_draw_color(self._colour(rgb, self.set_draw_color, "draw_color"))
+
+    def fill(self, rgb: RGB) -> None:
+        """Fill colour."""
+        self.set_fill_color(self._colour(rgb, self.set_fill_color, "fill_color"))
+
+    def _colour(self, rgb: RGB, setter: Any, attr: str) -> Any:
+        """fpdf2's colour for ``rgb``, made by fpdf2 the first time it is asked for."""
+        got = self._colours.get(rgb)
+        if got is None:
+            setter(*rgb)
+            got = self._colours[rgb] = getattr(self, attr)
+        return got
 
     @property
     def content_w(self) -> float:
@@ -121,11 +159,21 @@ class ReportPdf(FPDF):
     def wrap(self, text: str, w: float, size: float, bold: bool = False) -> list[str]:
         """Greedy word wrap of ``text`` into lines no wider than ``w`` mm.
 
-        Word widths are measured once per word and style (fpdf2's own line
-        breaking re-measures each line character by character, which is slow
-        for long documents).
+        A line break in ``text`` starts a new line.  Word widths are measured
+        once per word and style (fpdf2's own line breaking re-measures each
+        line character by character, which is slow for long documents).
         """
-        key = "B" if bold else ""
+        wkey = (text, w, size, bold)
+        got = self._wrapped.get(wkey)
+        if got is None:
+            if "\n" in text:
+                got = [ln for part in text.split("\n") for ln in self.wrap(part, w, size, bold)]
+            else:
+                got = self._wrap_line(text, w, size, "B" if bold else "")
+            self._wrapped[wkey] = got
+        return list(got)
+
+    def _wrap_line(self, text: str, w: float, size: float, key: str) -> list[str]:
         space = self._word_w(key, " ") * size
         lines: list[str] = []
         cur: list[str] = []
@@ -158,14 +206,52 @@ class ReportPdf(FPDF):
         return lines or [""]
 
     def _word_w(self, style: str, word: str) -> float:
-        """Width of ``word`` at 1 pt in the given style. [mm]"""
+        """Width of ``word`` at 1 pt in the given style, as fpdf2 measures it. [mm]"""
         k = (style, word)
         got = self._widths.get(k)
         if got is None:
-            self.set_font(FAMILY, style, 10)
-            got = float(self.get_string_width(word)) / 10.0
+            font: Any = self.fonts[FAMILY + style]  # the bundled TrueType font
+            shown = self._shown.get((font.fontkey, word))
+            if shown is None:
+                was = self.current_font
+                self.current_font = font
+                shown = self.normalize_text(word)
+                self.current_font = was
+            got = sum(font.cw[ord(c)] for c in shown) * 0.001 / self.k
             self._widths[k] = got
         return got
+
+    def text_w(self, text: str) -> float:
+        """Width of ``text`` in the current font and size. [mm]"""
+        return self._word_w(self.font_style, text) * self.font_size_pt
+
+    def text_line(
+        self,
+        x: float,
+        y: float,
+        w: float,
+        h: float,
+        text: str,
+        align: str = "L",
+        inset: float | None = None,
+    ) -> None:
+        """One line of ``text`` in the box at (``x``, ``y``), ``w`` × ``h`` mm, placed as
+        fpdf2's ``cell`` places it (``c_margin`` inside the edge, centred on the box's
+        middle line; ``inset`` in place of ``c_margin`` for a left-aligned line);
+        leaves the position at the box's right edge.
+
+        Measured with the cached widths and set with ``text``: ``cell`` builds
+        styled fragments and copies the graphics state on every call, several
+        times the work for the same marks on the page.
+        """
+        if text:
+            if align == "L":
+                dx = self.c_margin if inset is None else inset
+            else:
+                tw = self.text_w(text)
+                dx = w - self.c_margin - tw if align == "R" else (w - tw) / 2
+            self.text(x + dx, y + 0.5 * h + 0.3 * self.font_size, text)
+        self.x, self.y = x + w, y
 
     def para_h(self, w: float, lh: float, text: str, size: float, bold: bool = False) -> float:
         return lh * len(self.wrap(text, w - 2 * self.c_margin, size, bold))
@@ -192,8 +278,7 @@ class ReportPdf(FPDF):
                 self.font(size, bold)
                 self.ink(rgb)
                 y = self.t_margin
-            self.set_xy(x, y)
-            self.cell(w, lh, line, align=align)
+            self.text_line(x, y, w, lh, line, align)
             y += lh
         self.set_xy(self.l_margin, y)
         return lh * len(lines)
@@ -221,23 +306,21 @@ class ReportPdf(FPDF):
         for n in range(1, total + 1):
             self.page = n
             left, right = self.l_margin, self.w - self.r_margin
-            self.set_draw_color(*ACCENT)
+            self.pen(ACCENT)
             self.set_line_width(0.6)
             self.line(left, 12.5, left + 18, 12.5)
-            self.set_draw_color(*RULE)
+            self.pen(RULE)
             self.set_line_width(0.2)
             self.line(left + 18, 12.5, right, 12.5)
-            self.set_xy(left, 7)
             self.font(8, True)
             self.ink(ACCENT)
-            self.cell(0, 4.5, f"tripwise · {h.title}")
+            self.text_line(left, 7, self.content_w, 4.5, f"tripwise · {h.title}")
             self.font(8)
             self.ink(MUTED)
-            self.set_xy(left, 7)
             visit = f" · visit {h.visit_date}" if h.visit_date else ""
             if h.later_visit_id is not None:
                 visit += f" (a later visit {h.later_visit_id} exists)"
-            self.cell(self.content_w, 4.5, f"{h.site_name}{visit}", align="R")
+            self.text_line(left, 7, self.content_w, 4.5, f"{h.site_name}{visit}", "R")
             # footer
             top = self.h - FOOT_H + 2
             self.line(left, top, right, top)
@@ -245,12 +328,10 @@ class ReportPdf(FPDF):
             self.para(left, self.content_w - 30, 3.4, h.statement, 7.2, True)
             self.font(7)
             self.ink(MUTED)
-            self.set_x(left)
-            self.cell(self.content_w - 30, 3.6, h.generated_line())
+            self.text_line(left, self.get_y(), self.content_w - 30, 3.6, h.generated_line())
             self.font(8.5, True)
             self.ink(INK)
-            self.set_xy(right - 30, top + 1.6)
-            self.cell(30, 4, f"page {n} of {total}", align="R")
+            self.text_line(right - 30, top + 1.6, 30, 4, f"page {n} of {total}", "R")
         self.page = total
 
     def title_block(self, h: Heading, lead: str) -> None:
@@ -274,8 +355,7 @@ class ReportPdf(FPDF):
                 y = self.get_y()
                 self.font(8)
                 self.ink(MUTED)
-                self.set_xy(x, y)
-                self.cell(key_w, 4.6, k)
+                self.text_line(x, y, key_w, 4.6, k)
                 hv = self.para(x + key_w, col_w - key_w - 3, 4.6, v, 8.8)
                 self.set_y(y + max(hv, 4.6))
             heights[ci] = self.get_y() - y0
@@ -295,7 +375,7 @@ def caution_box(pdf: ReportPdf, caution: str) -> None:
     h = pdf.para_h(pdf.content_w - 8, 4.2, caution, 8.4) + 6
     pdf.room(h + 4)
     y = pdf.get_y() + 3
-    pdf.set_draw_color(*ACCENT)
+    pdf.pen(ACCENT)
     pdf.set_line_width(0.4)
     pdf.rect(pdf.l_margin, y, pdf.content_w, h)
     pdf.set_y(y + 3)

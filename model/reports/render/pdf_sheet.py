@@ -1,9 +1,11 @@
 """The PDF of the test sheet: one table row pair per residual-current device, landscape.
 
-Laid out by fpdf2's own table (``FPDF.table``): every cell wraps its text
-inside its own column, the headings repeat at the top of every page, and a
-device's two rows (values, then bands) stay together on one page.  No text
-is set below :data:`MIN_PT`, so the sheet reads when printed at 100 %.
+The table is laid out here, row by row: every cell wraps its text inside its
+own column, the headings repeat at the top of every page, and a device's two
+rows (values, then bands) stay together on one page, with its note running
+down both.  No text is set below :data:`MIN_PT`, so the sheet reads when
+printed at 100 %.  (fpdf2's own table lays out the same, at several times
+the work: it sets every cell twice, once to measure it.)
 
 Columns are listed once in :data:`COLUMNS` (title, width); a new column is
 one more entry there and one more cell in :func:`_value_row` and
@@ -12,15 +14,14 @@ one more entry there and one more cell in :func:`_value_row` and
 
 from __future__ import annotations
 
-from fpdf.enums import CellBordersLayout, TableBordersLayout, VAlign
-from fpdf.fonts import FontFace
-from fpdf.table import Table
+from collections.abc import Sequence
+from dataclasses import dataclass
 
 from model.reports.render.pdf_base import (
-    FAMILY,
     INK,
     MUTED,
     PANEL,
+    RGB,
     RULE,
     SEVERITY_COLOUR,
     ReportPdf,
@@ -45,6 +46,7 @@ VALUE_PT = 8.0
 BAND_PT = MIN_PT
 HEAD_PT = 7.5
 LINE_H = 3.3
+#: Space inside a cell's edges: top, right, bottom, left. [mm]
 PAD = (0.7, 1.0, 0.7, 1.0)
 
 #: The fixed columns before the tests: (title, width [mm]).
@@ -63,14 +65,33 @@ BUTTON_W = 13.5
 TAIL_COLUMNS: tuple[tuple[str, float], ...] = (("Ramp", RAMP_W), ("Button", BUTTON_W))
 NOTE_MIN_W = 24.0
 
-_VALUE = FontFace(family=FAMILY, size_pt=VALUE_PT, color=INK)
-_VALUE_BOLD = FontFace(family=FAMILY, emphasis="B", size_pt=VALUE_PT, color=INK)
-_OUT = FontFace(family=FAMILY, emphasis="B", size_pt=VALUE_PT, color=SEVERITY_COLOUR["urgent"])
-_BAND = FontFace(family=FAMILY, size_pt=BAND_PT, color=MUTED)
-_SPAN = FontFace(family=FAMILY, emphasis="B", size_pt=VALUE_PT, color=MUTED)
-_HEAD = FontFace(
-    family=FAMILY, emphasis="B", size_pt=HEAD_PT, color=(255, 255, 255), fill_color=INK
-)
+
+@dataclass(frozen=True)
+class Face:
+    """How a cell's text is set: size [pt], weight, colour."""
+
+    size: float
+    bold: bool
+    rgb: RGB
+
+
+_VALUE = Face(VALUE_PT, False, INK)
+_VALUE_BOLD = Face(VALUE_PT, True, INK)
+_OUT = Face(VALUE_PT, True, SEVERITY_COLOUR["urgent"])
+_BAND = Face(BAND_PT, False, MUTED)
+_SPAN = Face(VALUE_PT, True, MUTED)
+_HEAD = Face(HEAD_PT, True, (255, 255, 255))
+
+
+@dataclass(frozen=True)
+class Cell:
+    """One cell of the table: its text, face, the columns it spans and whether a rule
+    runs along its bottom edge."""
+
+    text: str
+    face: Face
+    span: int = 1
+    rule: bool = False
 
 
 def column_widths(content_w: float, n_tests: int = 6) -> list[float]:
@@ -79,10 +100,6 @@ def column_widths(content_w: float, n_tests: int = 6) -> list[float]:
     tail = [w for _, w in TAIL_COLUMNS]
     note = max(NOTE_MIN_W, content_w - sum(lead) - n_tests * TEST_W - sum(tail))
     return [*lead, *([TEST_W] * n_tests), *tail, note]
-
-
-def _shade(face: FontFace, shade: bool) -> FontFace:
-    return face.replace(fill_color=PANEL) if shade else face
 
 
 def _headings(doc: SheetDoc) -> list[str]:
@@ -99,58 +116,139 @@ def _value_text(c: SheetCell, unit: str) -> str:
     return f"{c.value_text(unit)} {MARK_PDF.get(c.mark, '')}".strip()
 
 
-def _value_face(c: SheetCell) -> FontFace:
+def _value_face(c: SheetCell) -> Face:
     if c.mark in (MARK_OUT, MARK_FAIL):
         return _OUT
     return _VALUE if c.value is not None else _BAND
 
 
-def _value_row(table: Table, r: SheetRow, shade: bool, span: str) -> None:
-    """The device's first row: label, board, type, then every recorded value."""
-    row = table.row()
-    top = CellBordersLayout.NONE
-    row.cell(r.named, style=_shade(_VALUE_BOLD, shade), border=top)
-    row.cell(r.board, style=_shade(_VALUE, shade), border=top)
-    row.cell(r.type_text, style=_shade(_VALUE, shade), border=top)
-    n_tests = len(r.tests)
+def _value_row(r: SheetRow, span: str) -> list[Cell]:
+    """The device's first row: label, board, type, then every recorded value (the note,
+    which runs down both rows, is not among them)."""
+    row = [Cell(r.named, _VALUE_BOLD), Cell(r.board, _VALUE), Cell(r.type_text, _VALUE)]
     if span:
-        row.cell(span, style=_shade(_SPAN, shade), colspan=_span_cols(n_tests), border=top)
-    else:
-        row.cell(r.test_waveform or "", style=_shade(_VALUE, shade), border=top)
-        for c in r.tests:
-            row.cell(_value_text(c, "ms"), style=_shade(_value_face(c), shade), border=top)
-        row.cell(_value_text(r.ramp, "mA"), style=_shade(_value_face(r.ramp), shade), border=top)
-        failed = r.button_mark == MARK_FAIL
-        button = (r.button or "—") + (" ✗" if failed else "")
-        face = _OUT if failed else (_VALUE if r.button else _BAND)
-        row.cell(button, style=_shade(face, shade), border=top)
-    row.cell(clean(r.note), style=_shade(_BAND, shade), rowspan=2, border=CellBordersLayout.BOTTOM)
+        row.append(Cell(span, _SPAN, span=_span_cols(len(r.tests))))
+        return row
+    row.append(Cell(r.test_waveform or "", _VALUE))
+    row += [Cell(_value_text(c, "ms"), _value_face(c)) for c in r.tests]
+    row.append(Cell(_value_text(r.ramp, "mA"), _value_face(r.ramp)))
+    failed = r.button_mark == MARK_FAIL
+    button = (r.button or "—") + (" ✗" if failed else "")
+    row.append(Cell(button, _OUT if failed else (_VALUE if r.button else _BAND)))
+    return row
 
 
-def _band_row(table: Table, r: SheetRow, shade: bool, span: str) -> None:
+def _note(r: SheetRow) -> Cell:
+    """The device's note, down both its rows."""
+    return Cell(clean(r.note), _BAND, rule=True)
+
+
+def _band_row(r: SheetRow, span: str) -> list[Cell]:
     """The device's second row: its id (under device, board and type), then the band of
     each test (once for 0° and 180°)."""
-    row = table.row()
-    bottom = CellBordersLayout.BOTTOM
-    row.cell(r.device_id, style=_shade(_BAND, shade), colspan=_ID_SPAN, border=bottom)
+    row = [Cell(r.device_id, _BAND, span=_ID_SPAN, rule=True)]
     n_tests = len(r.tests)
     if span:
-        row.cell("", style=_shade(_BAND, shade), colspan=_span_cols(n_tests), border=bottom)
-    else:
-        row.cell("band:", style=_shade(_BAND, shade), border=bottom)
-        i = 0
-        while i < n_tests:
-            c = r.tests[i]
-            same = i + 1 < n_tests and r.tests[i + 1].band == c.band and _pair(c, r.tests[i + 1])
-            row.cell(
-                c.short or c.band,
-                style=_shade(_BAND, shade),
-                colspan=2 if same else 1,
-                border=bottom,
-            )
-            i += 2 if same else 1
-        row.cell(r.ramp.short or r.ramp.band, style=_shade(_BAND, shade), border=bottom)
-        row.cell("", style=_shade(_BAND, shade), border=bottom)
+        row.append(Cell("", _BAND, span=_span_cols(n_tests), rule=True))
+        return row
+    row.append(Cell("band:", _BAND, rule=True))
+    i = 0
+    while i < n_tests:
+        c = r.tests[i]
+        same = i + 1 < n_tests and r.tests[i + 1].band == c.band and _pair(c, r.tests[i + 1])
+        row.append(Cell(c.short or c.band, _BAND, span=2 if same else 1, rule=True))
+        i += 2 if same else 1
+    row.append(Cell(r.ramp.short or r.ramp.band, _BAND, rule=True))
+    row.append(Cell("", _BAND, rule=True))
+    return row
+
+
+class SheetTable:
+    """The devices' table on the page: column edges, headings, and the row pairs."""
+
+    def __init__(self, pdf: ReportPdf, widths: Sequence[float], headings: Sequence[str]) -> None:
+        self.pdf = pdf
+        self.widths = list(widths)
+        self.edges = [pdf.l_margin]
+        for w in self.widths:
+            self.edges.append(self.edges[-1] + w)
+        self.heading = [Cell(t, _HEAD) for t in headings]
+        self.heading_h = self._row_h(self.heading)
+
+    def _lines(self, c: Cell, col: int) -> list[str]:
+        width = self.edges[col + c.span] - self.edges[col] - PAD[1] - PAD[3]
+        return self.pdf.wrap(c.text, width, c.face.size, c.face.bold)
+
+    def _cell_h(self, c: Cell, col: int) -> float:
+        """Height of a cell's text with the padding; 0 for an empty cell. [mm]"""
+        if not c.text:
+            return 0.0
+        return len(self._lines(c, col)) * LINE_H + PAD[0] + PAD[2]
+
+    def _row_h(self, row: Sequence[Cell]) -> float:
+        col, tallest = 0, 0.0
+        for c in row:
+            tallest = max(tallest, self._cell_h(c, col))
+            col += c.span
+        return tallest or LINE_H
+
+    def draw_heading(self) -> None:
+        y = self.pdf.get_y()
+        self.pdf.fill(INK)
+        self._draw_row(self.heading, y, self.heading_h, fill=True)
+        self.pdf.set_y(y + self.heading_h)
+
+    def heights(self, top: list[Cell], under: list[Cell], note: Cell) -> tuple[float, float]:
+        """Heights of a device's two rows: each its tallest cell, and a note taller than
+        both shared out between them. [mm]"""
+        top_h, under_h = self._row_h(top), self._row_h(under)
+        note_h = self._cell_h(note, len(self.widths) - 1)
+        if note_h > top_h + under_h:
+            extra = (note_h - top_h - under_h) / 2
+            top_h, under_h = top_h + extra, under_h + extra
+        return top_h, under_h
+
+    def device(self, top: list[Cell], under: list[Cell], note: Cell, shade: bool) -> None:
+        """One device's two rows and its note down the last column, on one page."""
+        pdf = self.pdf
+        top_h, under_h = self.heights(top, under, note)
+        note_col = len(self.widths) - 1
+        if pdf.get_y() + top_h + under_h > pdf.bottom:
+            pdf.add_page()
+            self.draw_heading()
+        y = pdf.get_y()
+        if shade:
+            pdf.fill(PANEL)
+        self._draw_row([*top, note], y, top_h, fill=shade, tall={note_col: top_h + under_h})
+        self._draw_row(under, y + top_h, under_h, fill=shade)
+        pdf.set_y(y + top_h + under_h)
+
+    def _draw_row(
+        self,
+        row: Sequence[Cell],
+        y: float,
+        h: float,
+        *,
+        fill: bool,
+        tall: dict[int, float] | None = None,
+    ) -> None:
+        """Fill, rule and text of each cell; ``tall``: cells running down further rows."""
+        pdf = self.pdf
+        col = 0
+        for c in row:
+            x, x2 = self.edges[col], self.edges[col + c.span]
+            ch = (tall or {}).get(col, h)
+            if fill:
+                pdf.rect(x, y, x2 - x, ch, style="F")
+            if c.rule:
+                pdf.line(x, y + ch, x2, y + ch)
+            if c.text:
+                pdf.font(c.face.size, c.face.bold)
+                pdf.ink(c.face.rgb)
+                top = y + PAD[0]
+                for n, line in enumerate(self._lines(c, col)):
+                    pdf.text_line(x, top + n * LINE_H, x2 - x, LINE_H, line, inset=PAD[3])
+            col += c.span
 
 
 def _span_cols(n_tests: int) -> int:
@@ -187,29 +285,17 @@ def sheet_pdf(doc: SheetDoc) -> bytes:
     else:
         pdf.room(24)
         widths = column_widths(pdf.content_w, len(doc.rows[0].tests))
-        pdf.set_draw_color(*RULE)
+        pdf.pen(RULE)
         pdf.set_line_width(0.15)
-        pdf.font(VALUE_PT)
-        with pdf.table(
-            col_widths=widths,
-            width=sum(widths),
-            align="LEFT",
-            text_align="LEFT",
-            v_align=VAlign.T,
-            line_height=LINE_H,
-            padding=PAD,
-            borders_layout=TableBordersLayout.NONE,
-            headings_style=_HEAD,
-            repeat_headings=1,
-            first_row_as_headings=True,
-        ) as table:
-            heading = table.row()
-            for title in _headings(doc):
-                heading.cell(title)
-            for n, r in enumerate(doc.rows):
-                span = _span_text(r)
-                _value_row(table, r, n % 2 == 1, span)
-                _band_row(table, r, n % 2 == 1, span)
+        table = SheetTable(pdf, widths, _headings(doc))
+        devices = [
+            (_value_row(r, _span_text(r)), _band_row(r, _span_text(r)), _note(r)) for r in doc.rows
+        ]
+        # never the headings alone at the foot of a page
+        pdf.room(table.heading_h + sum(table.heights(*devices[0])))
+        table.draw_heading()
+        for n, (top, under, note) in enumerate(devices):
+            table.device(top, under, note, n % 2 == 1)
     if doc.zs_rows:
         from model.reports.render.pdf_study import zs_table
 

@@ -8,10 +8,20 @@ strips, the largest fault current and the selectivity limit as marked lines.
 
 from __future__ import annotations
 
-import math
 from collections.abc import Sequence
 
+import numpy as np
+
 from model.reports.oc_chart import OcChart
+from model.reports.render.pdf_axes import (
+    LogAxes,
+    draw_band,
+    draw_frame,
+    draw_grid,
+    draw_series,
+    legend_row,
+    times_array,
+)
 from model.reports.render.pdf_base import INK, MUTED, RGB, ReportPdf, caution_box
 from model.reports.render.pdf_chart import (
     CHART_BLOCK_H,
@@ -19,9 +29,6 @@ from model.reports.render.pdf_chart import (
     CLASH_STRONG,
     DOWN_COLOUR,
     UP_COLOUR,
-    _band,
-    _legend,
-    _log_ticks,
     draw_chart,
 )
 from model.reports.study import OC_METHOD, RCD_METHOD, StudyDoc
@@ -40,10 +47,6 @@ def _fmt_s(t: float) -> str:
     return f"{t:g} s" if t >= 0.01 else f"{t * 1000:g} ms"
 
 
-def _inf(values: Sequence[float | None]) -> list[float]:
-    return [math.inf if v is None else v for v in values]
-
-
 def draw_oc_chart(pdf: ReportPdf, c: OcChart, x: float, y: float, width: float) -> None:
     """One fuse or breaker pair: title, verdict, log-log plot, legend and the data it rests on."""
     pdf.set_y(y)
@@ -52,94 +55,58 @@ def draw_oc_chart(pdf: ReportPdf, c: OcChart, x: float, y: float, width: float) 
     pdf.para(x, width, 4.2, f"Verdict: {c.verdict} — {c.verdict_words}.", 9, True)
     pdf.para(x, width, 3.9, c.explanation + ".", 7.8, False, MUTED)
     top = pdf.get_y() + 5.5
-    px, pw, py, ph = x + 16, width - 20, top, OC_PLOT_H
-    xmin, xmax = c.current_span_a
-    ymin, ymax = c.time_span_s
-    lx0, lx1 = math.log10(xmin), math.log10(xmax)
-    ly0, ly1 = math.log10(ymin), math.log10(ymax)
-
-    def fx(v: float) -> float:
-        v = min(max(v, xmin), xmax)
-        return px + pw * (math.log10(v) - lx0) / (lx1 - lx0)
-
-    def fy(t: float) -> float:
-        t = min(max(t, ymin), ymax)
-        return py + ph - ph * (math.log10(t) - ly0) / (ly1 - ly0)
-
-    pdf.set_line_width(0.15)
-    pdf.font(6.4)
-    pdf.ink(MUTED)
-    for v, major in _log_ticks(xmin, xmax):
-        pdf.set_draw_color(*((214, 219, 224) if major else (236, 239, 242)))
-        pdf.line(fx(v), py, fx(v), py + ph)
-        if major or (lx1 - lx0) < 2.5:
-            pdf.set_xy(fx(v) - 8, py + ph + 0.8)
-            pdf.cell(16, 3, fmt_a(v), align="C")
-    for t, major in _log_ticks(ymin, ymax):
-        if not major:
-            continue
-        pdf.set_draw_color(214, 219, 224)
-        pdf.line(px, fy(t), px + pw, fy(t))
-        pdf.set_xy(px - 15.5, fy(t) - 1.5)
-        pdf.cell(15, 3, _fmt_s(t), align="R")
-    cur = c.currents_a
+    ax = LogAxes(x + 16, top, width - 20, OC_PLOT_H, *c.current_span_a, *c.time_span_s)
+    px, py, pw, ph = ax.px, ax.py, ax.pw, ax.ph
+    draw_grid(pdf, ax, fmt_a, _fmt_s, minor_times=False)
+    cur = np.array(c.currents_a, dtype=float)
     for mins, maxs, rig_min, rig_max, rgb in (
         (c.down_min, c.down_max, c.down_min_rig, c.down_max_rig, DOWN_COLOUR),
         (c.up_min, c.up_max, c.up_min_rig, c.up_max_rig, UP_COLOUR),
     ):
         if not mins:
             continue
-        _band(pdf, cur, _inf(mins), _inf(maxs), rgb, fx, fy, ymin, ymax)
-        pdf.set_draw_color(*rgb)
+        draw_band(pdf, ax, cur, times_array(mins), times_array(maxs), rgb)
+        pdf.pen(rgb)
         pdf.set_line_width(0.2)
         for series in (rig_min, rig_max):
-            pts = [(fx(i), fy(t)) for i, t in zip(cur, series, strict=True) if t is not None]
-            if len(pts) > 1:
-                pdf.polyline(pts)
-    for lo, hi, kind in c.ranges:
-        a, b = max(lo, xmin), min(hi, xmax)
-        if b <= a:
-            continue
-        colour = CLASH_STRONG if kind == "not-selective" else UNSHOWN
+            draw_series(pdf, ax, cur, times_array(series))
+    strips = [
+        (ax.x(max(lo, ax.x_lo)), ax.x(min(hi, ax.x_hi)), kind)
+        for lo, hi, kind in c.ranges
+        if min(hi, ax.x_hi) > max(lo, ax.x_lo)
+    ]
+    if strips:
         with pdf.local_context(fill_opacity=0.3):
-            pdf.set_fill_color(*colour)
-            pdf.rect(fx(a), py, max(fx(b) - fx(a), 0.3), ph, style="F")
+            for xa, xb, kind in strips:
+                pdf.fill(CLASH_STRONG if kind == "not-selective" else UNSHOWN)
+                pdf.rect(xa, py, max(xb - xa, 0.3), ph, style="F")
     for value, rgb, text in (
         (c.i_max_a, CLASH_EDGE, "largest fault current"),
         (c.limit_a, LIMIT, "selective up to"),
     ):
-        if value is None or not (xmin <= value <= xmax):
+        if value is None or not (ax.x_lo <= value <= ax.x_hi):
             continue
-        pdf.set_draw_color(*rgb)
+        xv = ax.x(value)
+        pdf.pen(rgb)
         pdf.set_line_width(0.45)
         pdf.set_dash_pattern(dash=1.5, gap=1.0)
-        pdf.line(fx(value), py, fx(value), py + ph)
+        pdf.line(xv, py, xv, py + ph)
         pdf.set_dash_pattern()
         pdf.font(6)
         pdf.ink(rgb)
         ty = py + 0.8 if rgb == LIMIT else py + 4
-        if fx(value) > px + pw - 32:
-            pdf.set_xy(fx(value) - 31, ty)
-            pdf.cell(30, 3, f"{text} {fmt_a(value)}", align="R")
+        if xv > px + pw - 32:
+            pdf.text_line(xv - 31, ty, 30, 3, f"{text} {fmt_a(value)}", "R")
         else:
-            pdf.set_xy(fx(value) + 0.6, ty)
-            pdf.cell(30, 3, f"{text} {fmt_a(value)}")
-    pdf.set_draw_color(*MUTED)
-    pdf.set_line_width(0.3)
-    pdf.rect(px, py, pw, ph)
-    pdf.font(6.8)
-    pdf.ink(MUTED)
-    pdf.set_xy(px, py + ph + 4.2)
-    pdf.cell(pw, 3, "prospective current", align="C")
-    pdf.set_xy(x, py - 5.2)
-    pdf.cell(15.5, 3, "time", align="R")
+            pdf.text_line(xv + 0.6, ty, 30, 3, f"{text} {fmt_a(value)}")
+    draw_frame(pdf, ax, x, "prospective current")
     ly = py + ph + 8.5
-    _legend(pdf, x, ly, UP_COLOUR, "upstream", f"{c.up_label} ({c.up_name})")
-    _legend(pdf, x, ly + 4.2, DOWN_COLOUR, "downstream", f"{c.down_label} ({c.down_name})")
-    _legend(
+    legend_row(pdf, x, ly, UP_COLOUR, "upstream", f"{c.up_label} ({c.up_name})")
+    legend_row(pdf, x, ly + 4.2, DOWN_COLOUR, "downstream", f"{c.down_label} ({c.down_name})")
+    legend_row(
         pdf, x, ly + 8.4, CLASH_STRONG, "not selective", "the upstream device may operate first"
     )
-    _legend(pdf, x, ly + 12.6, UNSHOWN, "not shown", "the published bands cannot settle it")
+    legend_row(pdf, x, ly + 12.6, UNSHOWN, "not shown", "the published bands cannot settle it")
     pdf.set_y(ly + 17.5)
     pdf.para(
         x, width, 3.8, "Shaded: estimate; thin lines: staircase (guaranteed).", 7.4, False, MUTED
@@ -170,7 +137,7 @@ def zs_table(pdf: ReportPdf, rows: list[ZsRow]) -> None:
             pdf.para(x, f * w - 1, 3.8, text, 7.6, bold, INK)
             x += f * w
         pdf.set_y(y0 + h)
-        pdf.set_draw_color(220, 224, 228)
+        pdf.pen((220, 224, 228))
         pdf.set_line_width(0.15)
         pdf.line(pdf.l_margin, y0 + h - 0.4, pdf.l_margin + w, y0 + h - 0.4)
 
