@@ -20,6 +20,7 @@ import contextlib
 import json
 import os
 import re
+import threading
 from pathlib import Path
 
 from pydantic import ValidationError
@@ -75,6 +76,9 @@ class EditSession:
     ``site`` is replaced, never changed in place, by each edit (consecutive
     sites share unchanged parts), so the caller may keep earlier ``site``
     values, e.g. for undo, but must not mutate them.
+
+    A save may run on another thread (:meth:`snapshot`, :meth:`write_snapshot`): edits,
+    writes and closing take turns on one lock, so no edit is cleared from the journal unsaved.
     """
 
     path: Path
@@ -105,6 +109,8 @@ class EditSession:
         self._source_version = source_version
         self._journal: JournalWriter | None = None if read_only else JournalWriter(path, digest)
         self._pending = 0
+        self._edits = 0  # edits accepted since opening
+        self._turn = threading.RLock()
 
     # --- opening ------------------------------------------------------------
 
@@ -253,18 +259,20 @@ class EditSession:
 
     def _commit(self, op: Op, *, trusted: bool = False) -> None:
         """Validate, journal (synced), then show: the order that makes edits survive crashes."""
-        self._check_writable()
         if not trusted:
             op = validated_op(op)
-        new_site = apply_op(self.site, op)
-        assert self._journal is not None
-        self._journal.append(op)
-        self.site = new_site
-        self._pending += 1
-        if self._journal.size > COMPACT_BYTES and self._pending > 1:
-            with contextlib.suppress(SaveError):
-                self._journal.compact(self.site)
-                self._pending = 1
+        with self._turn:
+            self._check_writable()
+            new_site = apply_op(self.site, op)
+            assert self._journal is not None
+            self._journal.append(op)
+            self.site = new_site
+            self._pending += 1
+            self._edits += 1
+            if self._journal.size > COMPACT_BYTES and self._pending > 1:
+                with contextlib.suppress(SaveError):
+                    self._journal.compact(self.site)
+                    self._pending = 1
 
     # --- edits --------------------------------------------------------------
 
@@ -316,8 +324,26 @@ class EditSession:
 
     def save(self) -> None:
         """Write the whole file atomically (keeping the backup), then clear the journal."""
-        self._check_writable()
-        data = dumps_site(self.site).encode("utf-8")
+        with self._turn:  # no edit comes between the snapshot and the write
+            self.write_snapshot(self.snapshot())
+
+    def snapshot(self) -> tuple[int, bytes]:
+        """(edits accepted so far, the site encoded for the file); touches no file (any thread)."""
+        with self._turn:
+            site, edits = self.site, self._edits
+        return edits, dumps_site(site).encode("utf-8")
+
+    def write_snapshot(self, snap: tuple[int, bytes]) -> bool:
+        """Write a :meth:`snapshot` as :meth:`save` does (any thread); False, writing nothing,
+        when an edit came after it (the journal keeps it: save again)."""
+        with self._turn:
+            self._check_writable()
+            if snap[0] != self._edits:
+                return False
+            self._write(snap[1])
+            return True
+
+    def _write(self, data: bytes) -> None:
         on_disk = _digest_of(self.path)
         if on_disk is not None and on_disk != self._digest:
             self.warnings.append(
@@ -352,11 +378,13 @@ class EditSession:
             )
 
     def close(self) -> None:
-        """Release the lock (does not save; unsaved edits stay in the journal)."""
-        if self._journal is not None:
-            self._journal.close()
-        if self._lock is not None:
-            self._lock.release()
+        """Release the lock (does not save; unsaved edits stay in the journal); a save
+        running on another thread finishes first."""
+        with self._turn:
+            if self._journal is not None:
+                self._journal.close()
+            if self._lock is not None:
+                self._lock.release()
 
     def __enter__(self) -> EditSession:
         return self

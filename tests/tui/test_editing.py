@@ -238,10 +238,12 @@ async def test_save_error_is_shown_and_recovered_lines_too(
         await pilot.pause()
         assert any("re-applied 2 edits" in n.message for n in app._notifications)
 
-        def full_disk() -> None:
+        def full_disk(*_a: object, **_k: object) -> None:
             raise OSError(28, "No space left on device")
 
-        monkeypatch.setattr(app.session, "save", full_disk)
+        # the disk fills up under the file: the save in the background and the save
+        # on request both meet it (the journal still takes the edits)
+        monkeypatch.setattr(session_mod, "write_atomic", full_disk)
         app.main.select("wb")
         await pilot.press("c")  # any accepted edit
         # the autosave may already have tried (and failed) by now: either way not saved

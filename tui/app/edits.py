@@ -85,7 +85,9 @@ class EditsMixin:
             self.session.set_reading(visit.id, device_id, reading)
         except (ValueError, TypeError, KeyError, OSError, SaveError) as exc:
             return describe(exc)
-        self._after_edit(structural=False)
+        self.site_name = self.site.site.name
+        self._schedule_save()
+        self._reading_changed(device_id)  # that device re-judged at once
         return None
 
     def _after_edit(self, *, structural: bool, select: str | None = None) -> None:

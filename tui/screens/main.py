@@ -61,14 +61,30 @@ class MainScreen(Screen[None]):
             self.show_site(keep=None)
         self.query_one(KeyBar).refresh_keys()
 
+    #: True when an analysis arrived while another screen was on top (shown on return).
+    _analysis_unseen = False
+
     def show_analysis(self) -> None:
-        """A new analysis arrived: marks, findings, details."""
+        """A new analysis arrived: marks, findings, details.
+
+        Under another screen (the reading form) nothing is drawn now: the
+        findings are filled in once, when this screen is shown again.
+        """
         view = site_view(self)
         if view.analysis is None:
             return
+        if not self.is_active:
+            self._analysis_unseen = True
+            return
+        self._analysis_unseen = False
         self.tree.set_worst(view.analysis.worst_by_node())
         self.findings.show(view.analysis, view.index)
         self.show_details()
+
+    def on_screen_resume(self) -> None:
+        self.query_one(TopBar).screen_shown()
+        if self._analysis_unseen:
+            self.show_analysis()
 
     def show_details(self) -> None:
         view = site_view(self)

@@ -133,6 +133,9 @@ class ReadingScreen(ClosesOnce[str]):
         yield CautionBar(id="caution")
         yield KeyBar(id="key-bar")
 
+    def on_screen_resume(self) -> None:
+        self.query_one(TopBar).screen_shown()
+
     @property
     def pad(self) -> ReadingPad:
         return self.query_one(ReadingPad)
@@ -208,9 +211,15 @@ class ReadingScreen(ClosesOnce[str]):
         name = self.pad.current
         text = self.verdicts.get(name, "")
         style = tone(BAD if self.flags.get(name) else "$tw-muted")
-        self.query_one("#rd-status", Static).update(
-            Text(f"{self.pad.titles.get(name, name).strip()}: {text}" if text else "", style=style)
+        line = Text(
+            f"{self.pad.titles.get(name, name).strip()}: {text}" if text else "", style=style
         )
+        box = self.query_one("#rd-status", Static)
+        # A line that fits where a line was needs no new layout (the status changes on
+        # every key); a longer one wraps, and the screen is laid out again for it.
+        width = box.content_size.width
+        fits = box.size.height == 1 and line.cell_len <= width
+        box.update(line, layout=not fits)
 
     def _judge_all(self) -> None:
         for name, _, _ in PAD_FIELDS:

@@ -198,6 +198,8 @@ class FindingsPanel(Vertical):
         """The checks started (True) or finished (False).  A run longer than
         :data:`LOADING_AFTER_S` shows a moving indicator beside the count, so a large
         site's check never looks like a frozen screen (the table stays as it was)."""
+        if on == self.checking:
+            return
         self.checking = on
         if self._loading_timer is not None:
             self._loading_timer.stop()
@@ -215,7 +217,8 @@ class FindingsPanel(Vertical):
 
     def _show_count(self) -> None:
         text = f"checking…  {self._count_text}" if self.checking else self._count_text
-        self.query_one("#findings-count", Static).update(text)
+        # the count's box is as wide as the bar leaves it and one line high: no layout
+        self.query_one("#findings-count", Static).update(text, layout=False)
 
     @on(DataTable.RowHighlighted, "#findings-table")
     def _row_highlighted(self, event: DataTable.RowHighlighted) -> None:

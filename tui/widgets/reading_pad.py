@@ -12,9 +12,12 @@ from __future__ import annotations
 
 from typing import Protocol
 
+from rich.segment import Segment
 from rich.text import Text
 from textual import events
+from textual.geometry import Region
 from textual.reactive import reactive
+from textual.strip import Strip
 from textual.widget import Widget
 
 from model.site.terms import DID_NOT_TRIP
@@ -37,7 +40,8 @@ class ReadingForm(Protocol):
 class ReadingPad(Widget, can_focus=True):
     """Rows of fields: title, typed value, band, verdict."""
 
-    current: reactive[str] = reactive("", layout=False)
+    #: The field the cursor is on (its rows are drawn again by :meth:`go`).
+    current: reactive[str] = reactive("", layout=False, repaint=False)
 
     def __init__(
         self,
@@ -67,53 +71,72 @@ class ReadingPad(Widget, can_focus=True):
         return [n for n, _, _ in self.fields]
 
     def go(self, name: str) -> None:
+        was = self.current
         self.current = name
         self.fresh = True
-        self.refresh()
+        self.refresh_rows(was, name)
 
     def move(self, step: int) -> None:
         names = self.names
         i = names.index(self.current)
         self.go(names[(i + step) % len(names)])
 
+    def refresh_rows(self, *names: str) -> None:
+        """Draw these rows again (a key changes one row; the rest stays as drawn)."""
+        width = self.size.width
+        for name in set(names):
+            if name in self.kinds:
+                self.refresh(Region(0, self.names.index(name), width, 1))
+
     def get_content_height(self, container: object, viewport: object, width: int) -> int:
         return len(self.fields)
 
     def render(self) -> Text:
+        """The whole pad as one text (what :meth:`render_line` draws, row by row)."""
+        return Text("\n", no_wrap=True).join(self._row(y) for y in range(len(self.fields)))
+
+    def render_line(self, y: int) -> Strip:
+        width = self.size.width
+        base = self.rich_style
+        if not 0 <= y < len(self.fields):
+            return Strip.blank(width, base)
+        segments = Segment.apply_style(self._row(y).render(self.app.console), base)
+        return Strip(segments).adjust_cell_length(width, base)
+
+    def _row(self, y: int) -> Text:
+        """One field's row: title, need mark, typed value, band, verdict."""
+        name, kind, title = self.fields[y]
         width = max(self.size.width, 40)
         title_w, need_w, value_w = 12, 4, 14
         rest = width - 1 - title_w - need_w - value_w - 2
         band_w = max(10, min(28, rest // 2))
-        lines: list[Text] = []
-        for name, kind, title in self.fields:
-            here = name == self.current and self.has_focus
-            need, band, verdict = self._form.row_text(name)
-            line = Text(no_wrap=True)
-            line.append("▸" if name == self.current else " ", style=tone("bold $accent"))
-            line.append(f"{title:<{title_w}}", style="bold" if here else tone("$tw-field"))
-            line.append(
-                f"{need:<{need_w}}",
-                style=tone("bold $tw-investigate") if need == "req" else tone("$tw-quiet"),
+        here = name == self.current and self.has_focus
+        need, band, verdict = self._form.row_text(name)
+        line = Text(no_wrap=True)
+        line.append("▸" if name == self.current else " ", style=tone("bold $accent"))
+        line.append(f"{title:<{title_w}}", style="bold" if here else tone("$tw-field"))
+        line.append(
+            f"{need:<{need_w}}",
+            style=tone("bold $tw-investigate") if need == "req" else tone("$tw-quiet"),
+        )
+        value = self.values[name]
+        if kind == "choice":
+            shown = " ".join(
+                f"[{v}]" if v == value else f"{k}:{v[:4]}" for k, v in self.choices[name]
             )
-            value = self.values[name]
-            if kind == "choice":
-                shown = " ".join(
-                    f"[{v}]" if v == value else f"{k}:{v[:4]}" for k, v in self.choices[name]
-                )
-            else:
-                unit = " ms" if kind == "time" else (" mA" if name == "ramp_ma" else "")
-                typed_number = value and value != DID_NOT_TRIP
-                shown = value + ("▏" if here else (unit if typed_number else ""))
-            line.append(
-                shown[: value_w - 1].ljust(value_w),
-                style=tone("on $tw-cell-here") if here else tone("on $tw-cell"),
-            )
-            line.append(" ")
-            line.append(f"{band[: band_w - 1]:<{band_w}}", style=tone("$tw-value"))
-            line.append_text(verdict)
-            line.truncate(width, overflow="ellipsis")
-            lines.append(line)
-        return Text("\n", no_wrap=True).join(lines)
+        else:
+            unit = " ms" if kind == "time" else (" mA" if name == "ramp_ma" else "")
+            typed_number = value and value != DID_NOT_TRIP
+            shown = value + ("▏" if here else (unit if typed_number else ""))
+        line.append(
+            shown[: value_w - 1].ljust(value_w),
+            style=tone("on $tw-cell-here") if here else tone("on $tw-cell"),
+        )
+        line.append(" ")
+        line.append(f"{band[: band_w - 1]:<{band_w}}", style=tone("$tw-value"))
+        line.append_text(verdict)
+        line.truncate(width, overflow="ellipsis")
+        return line
 
     def on_click(self, event: events.Click) -> None:
         row = event.y
@@ -174,7 +197,7 @@ class ReadingPad(Widget, can_focus=True):
         if handled:
             event.stop()
             event.prevent_default()
-        self.refresh()
+        self.refresh_rows(name, self.current)
 
     def _changed(self, name: str) -> None:
         self._form.field_changed(name)

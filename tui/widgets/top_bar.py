@@ -25,6 +25,13 @@ class TopBar(Horizontal):
         yield Static("", id="site-name", markup=False)
         yield Static("", id="save-state", markup=False)
 
+    _save_unseen = False
+
+    def screen_shown(self) -> None:
+        """Its screen is on top again: show the save state if it changed meanwhile."""
+        if self._save_unseen:
+            self._show_save()
+
     def on_mount(self) -> None:
         self.watch(self.app, "site_name", self._show_name)
         self.watch(self.app, "save_state", self._show_save)
@@ -38,6 +45,12 @@ class TopBar(Horizontal):
         self.query_one("#site-name", Static).update(text)
 
     def _show_save(self, _value: str = "") -> None:
+        if not self.screen.is_active:
+            # Under another screen: drawn when its screen is shown again (a change drawn
+            # on a screen underneath makes the screen on top draw itself again too).
+            self._save_unseen = True
+            return
+        self._save_unseen = False
         state = str(getattr(self.app, "save_state", "saved"))
         message = str(getattr(self.app, "save_message", ""))
         text, cls = SAVE_TEXT.get(state, (state, "save-pending"))
