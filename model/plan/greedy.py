@@ -72,13 +72,19 @@ class _Move:
     gain: frozenset[FindingKey]
     new_devices: int
     cost: int
+    #: Findings the first choice clears on its own (a move led by the change that does
+    #: the work is preferred to the same changes led by a repair).
+    lead: int = 0
+    #: For each repair (choices after the first), the rule of the finding it keeps away.
+    why: tuple[str, ...] = ()
     #: The changes made, once the move is taken into the plan.
     made: list[DeviceChange] = field(default_factory=list)
 
-    def rank(self) -> tuple[float, int, int, int, str]:
+    def rank(self) -> tuple[float, int, int, int, int, str]:
         n = len(self.choices)
         steps = sum(c.steps for c in self.choices)
-        return (-len(self.gain) / n, self.new_devices, self.cost, steps, self.choices[0].node)
+        first = self.choices[0].node
+        return (-len(self.gain) / n, self.new_devices, self.cost, steps, -self.lead, first)
 
 
 class Search:
@@ -193,7 +199,7 @@ class Search:
         cleared = frozenset(finding_key(f) for f in got.cleared) & self.targets.keys()
         return cleared, got.created
 
-    def move(self, choices: tuple[Choice, ...]) -> _Move | None:
+    def move(self, choices: tuple[Choice, ...], why: tuple[str, ...] = ()) -> _Move | None:
         gain, created = self.screen(choices)
         if created or not gain:
             return None
@@ -202,6 +208,8 @@ class Search:
             gain,
             sum(c.new_device for c in choices),
             sum(c.cost for c in choices),
+            len(self.screen(choices[:1])[0]),
+            why,
         )
 
     def repaired(self, first: Choice, created: list[Finding]) -> _Move | None:
@@ -214,6 +222,7 @@ class Search:
         if len(created) > REPAIR_MAX:
             return None
         chosen: tuple[Choice, ...] = (first,)
+        why: tuple[str, ...] = ()
         idx = self.index0
         still = created
         while still:
@@ -232,11 +241,11 @@ class Search:
                 _, after = self.screen((*chosen, r))
                 keys = {finding_key(g) for g in after}
                 if finding_key(f) not in keys and keys <= known:
-                    chosen, still = (*chosen, r), after
+                    chosen, still, why = (*chosen, r), after, (*why, f.rule)
                     break
             else:
                 return None
-        return self.move(chosen)
+        return self.move(chosen, why)
 
     # ---- the search -------------------------------------------------------------------
     def run(self) -> None:
@@ -253,7 +262,7 @@ class Search:
             for c in self.choices(node_id, aspects)
         ]
         for _ in range(PASSES):
-            heap: list[tuple[tuple[float, int, int, int, str], int, _Move]] = []
+            heap: list[tuple[tuple[float, int, int, int, int, str], int, _Move]] = []
             useful: list[Choice] = []
             taken = {dc.node for dc in self.changes}
             best: dict[str, tuple[int, Choice, list[Finding]]] = {}
@@ -283,7 +292,7 @@ class Search:
                 return
             pending = useful
 
-    def take(self, heap: list[tuple[tuple[float, int, int, int, str], int, _Move]]) -> int:
+    def take(self, heap: list[tuple[tuple[float, int, int, int, int, str], int, _Move]]) -> int:
         """Moves taken from the heap, best first, each re-screened when it reaches the top."""
         taken = 0
         seq = len(heap) + 1_000_000
@@ -291,7 +300,7 @@ class Search:
             _, _, mv = heapq.heappop(heap)
             if {c.node for c in mv.choices} & {dc.node for dc in self.changes}:
                 continue
-            fresh = self.move(mv.choices)
+            fresh = self.move(mv.choices, mv.why)
             if fresh is None:
                 continue
             if heap and fresh.rank() > heap[0][0]:
@@ -305,9 +314,8 @@ class Search:
         notes = [""] * len(mv.choices)
         first = self.index0.node(mv.choices[0].node)
         for i in range(1, len(mv.choices)):
-            notes[i] = "; " + REPAIR_WORDS.get(
-                "coverage.additional-protection", "keeps the site clear"
-            )
+            rule = mv.why[i - 1]
+            notes[i] = "; " + REPAIR_WORDS.get(rule, f"keeps {rule} away")
             notes[i] += f' with the change to "{first.label or first.id}"'
         new = [self.to_change(c, n) for c, n in zip(mv.choices, notes, strict=True)]
         try:
