@@ -87,6 +87,10 @@ class _Move:
         return (-len(self.gain) / n, self.new_devices, self.cost, steps, -self.lead, first)
 
 
+def _cheap_first(c: Choice) -> tuple[int, int, int]:
+    return (c.new_device, c.cost, c.steps)
+
+
 class Search:
     def __init__(self, site: SiteFile, analysis: Analysis) -> None:
         self.site0 = site
@@ -108,6 +112,8 @@ class Search:
         #: The devices changed by the plan, in the order the moves were taken.
         self.log: list[str] = []
         self.zones: dict[tuple[str, ...], frozenset[str]] = {}
+        #: The findings each candidate device was chosen for.
+        self.reach: dict[str, set[FindingKey]] = {}
 
     @property
     def changes(self) -> list[DeviceChange]:
@@ -129,6 +135,7 @@ class Search:
                     near = idx.ocpd_above[n][:1] + idx.rcd_above[n][:2]
                 for d in near:
                     out.setdefault(d, set()).update(aspects)
+                    self.reach.setdefault(d, set()).add(finding_key(f))
         return {n: frozenset(out[n]) for n in idx.order if n in out and not self._is_cutout(n)}
 
     def _is_cutout(self, node_id: str) -> bool:
@@ -253,28 +260,31 @@ class Search:
 
         Every candidate is screened once; the moves are kept in a heap by their
         rank and re-screened lazily when they reach the top.  When the heap is
-        empty, the candidates that cleared something are tried again on the
-        site as the plan has left it (a change may become possible after another).
+        empty, the candidates that cleared something but created a finding are
+        tried again on the site as the plan has left it (a change may become
+        possible after another).
         """
         pending = [
             c
             for node_id, aspects in self.candidate_nodes().items()
-            for c in self.choices(node_id, aspects)
+            for c in sorted(self.choices(node_id, aspects), key=_cheap_first)
         ]
         for _ in range(PASSES):
             heap: list[tuple[tuple[float, int, int, int, int, str], int, _Move]] = []
-            useful: list[Choice] = []
+            blocked: list[Choice] = []
             taken = {dc.node for dc in self.changes}
             best: dict[str, tuple[int, Choice, list[Finding]]] = {}
             clean: dict[str, int] = {}
+            #: Devices whose cheapest clean change already clears all they were chosen for.
+            settled: set[str] = set()
             for seq, choice in enumerate(pending):
-                if choice.node in taken:
+                if choice.node in taken or choice.node in settled:
                     continue
                 gain, created = self.screen((choice,))
                 if not gain:
                     continue
-                useful.append(choice)
                 if created:
+                    blocked.append(choice)
                     # Only the best change of a device that creates findings is repaired.
                     if len(gain) > best.get(choice.node, (0, choice, []))[0]:
                         best[choice.node] = (len(gain), choice, created)
@@ -283,6 +293,8 @@ class Search:
                 if mv is not None:
                     clean[choice.node] = max(clean.get(choice.node, 0), len(gain))
                     heapq.heappush(heap, (mv.rank(), seq, mv))
+                    if gain >= self.reach.get(choice.node, set()) - self.done:
+                        settled.add(choice.node)
             for node_id, (n, choice, created) in best.items():
                 if n > clean.get(node_id, 0):
                     mv = self.repaired(choice, created)
@@ -290,7 +302,7 @@ class Search:
                         heapq.heappush(heap, (mv.rank(), len(pending) + len(heap), mv))
             if not self.take(heap):
                 return
-            pending = useful
+            pending = blocked
 
     def take(self, heap: list[tuple[tuple[float, int, int, int, int, str], int, _Move]]) -> int:
         """Moves taken from the heap, best first, each re-screened when it reaches the top."""
