@@ -271,7 +271,7 @@ class Search:
         ]
         for _ in range(PASSES):
             heap: list[tuple[tuple[float, int, int, int, int, str], int, _Move]] = []
-            blocked: list[Choice] = []
+            blocked: list[tuple[Choice, list[Finding]]] = []
             taken = {dc.node for dc in self.changes}
             best: dict[str, tuple[int, Choice, list[Finding]]] = {}
             clean: dict[str, int] = {}
@@ -284,7 +284,7 @@ class Search:
                 if not gain:
                     continue
                 if created:
-                    blocked.append(choice)
+                    blocked.append((choice, created))
                     # Only the best change of a device that creates findings is repaired.
                     if len(gain) > best.get(choice.node, (0, choice, []))[0]:
                         best[choice.node] = (len(gain), choice, created)
@@ -302,7 +302,9 @@ class Search:
                         heapq.heappush(heap, (mv.rank(), len(pending) + len(heap), mv))
             if not self.take(heap):
                 return
-            pending = blocked
+            # Retried: a change blocked by a finding on a device the plan has changed since.
+            changed = set(self.log)
+            pending = [c for c, made in blocked if changed & {n for f in made for n in f.nodes}]
 
     def take(self, heap: list[tuple[tuple[float, int, int, int, int, str], int, _Move]]) -> int:
         """Moves taken from the heap, best first, each re-screened when it reaches the top."""
