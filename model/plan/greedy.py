@@ -102,6 +102,7 @@ class Search:
         self.sizes = subtree_sizes(self.index0)
         self.whole = len(site.nodes) <= ZONE_MAX
         self.base_cache: dict[frozenset[str], list[Finding]] = {}
+        self.cut_cache: dict[tuple[frozenset[str], int], SiteFile] = {}
         self.current = site
         self.chosen: list[_Move] = []
         self.done: set[FindingKey] = set()
@@ -195,12 +196,15 @@ class Search:
         if base is None:
             base = self.before if not keep else findings_of(restrict(self.site0, keep))
             self.base_cache[keep] = base
+        # The zone of the site as the plan has left it (cut once per zone and plan state).
+        part = self.cut_cache.get((keep, len(self.log)))
+        if part is None:
+            part = self.current if not keep else restrict(self.current, keep)
+            self.cut_cache[(keep, len(self.log))] = part
         try:
-            site = fast_apply(self.current, [self.to_change(c) for c in extra])
+            site = fast_apply(part, [self.to_change(c) for c in extra])
         except (InvalidEdit, ValueError, KeyError):
             return frozenset(), [Finding("plan.invalid", "required", (), "", "", "", "")]
-        if keep:
-            site = restrict(site, keep)
         changed = {c.node for c in extra} | {dc.node for dc in self.changes}
         got = compare(base, findings_of(site), changed)
         cleared = frozenset(finding_key(f) for f in got.cleared) & self.targets.keys()
@@ -357,6 +361,7 @@ class Search:
                 break
         self.chosen.pop(drop)
         self.memo.clear()
+        self.cut_cache.clear()
         self.log = [c.node for m in self.chosen for c in m.choices]
         self.done = set().union(*(m.gain for m in self.chosen)) if self.chosen else set()
         self.current = apply_changes(self.site0, self.changes)
