@@ -54,7 +54,8 @@ def main() -> None:
     after = analyse(apply_changes(site, plan.changes))
     changed = [dc.node for dc in plan.changes]
     d = diff_findings(analysis.findings, after.findings, changed)
-    got = compare(analysis.findings, after.findings, changed)
+    replaced = [dc.node for dc in plan.changes if dc.fields[0].field == "replaced"]
+    got = compare(analysis.findings, after.findings, changed, replaced)
     cleared = sum(len(dc.clears) for dc in plan.changes)
     print(f"site: {len(site.nodes)} nodes, {len(analysis.findings)} findings")
     print(

@@ -116,6 +116,10 @@ class Search:
         #: The findings each candidate device was chosen for.
         self.reach: dict[str, set[FindingKey]] = {}
 
+    def replaced(self) -> set[str]:
+        """Devices the plan so far replaces like for like."""
+        return {c.node for mv in self.chosen for c in mv.choices if c.action == "replace"}
+
     @property
     def changes(self) -> list[DeviceChange]:
         return [dc for mv in self.chosen for dc in mv.made]
@@ -206,7 +210,8 @@ class Search:
         except (InvalidEdit, ValueError, KeyError):
             return frozenset(), [Finding("plan.invalid", "required", (), "", "", "", "")]
         changed = {c.node for c in extra} | {dc.node for dc in self.changes}
-        got = compare(base, findings_of(site), changed)
+        replaced = {c.node for c in extra if c.action == "replace"} | self.replaced()
+        got = compare(base, findings_of(site), changed, replaced)
         cleared = frozenset(finding_key(f) for f in got.cleared) & self.targets.keys()
         return cleared, got.created
 

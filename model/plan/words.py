@@ -83,6 +83,8 @@ def _new_rcd(values: dict[str, Any], node: Any, kind: str) -> str:
     words = f"{idn:g} mA Type {wf}"
     if delay == "S":
         words += " type S"
+    elif delay == "set":
+        words += " (the same delay setting)"
     words += f" {KIND_WORDS[kind]}"
     if kind in ("rcbo",):
         curve = values.get("curve", node.curve)
