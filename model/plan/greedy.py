@@ -141,9 +141,9 @@ class Search:
                 for d in near:
                     out.setdefault(d, set()).update(aspects)
                     self.reach.setdefault(d, set()).add(finding_key(f))
-        return {n: frozenset(out[n]) for n in idx.order if n in out and not self._is_cutout(n)}
+        return {n: frozenset(out[n]) for n in idx.order if n in out and not self.is_cutout(n)}
 
-    def _is_cutout(self, node_id: str) -> bool:
+    def is_cutout(self, node_id: str) -> bool:
         """The supply's own fuse (fed straight from the origin): the network operator's."""
         idx = self.index0
         parent = idx.parent(node_id)
@@ -250,7 +250,7 @@ class Search:
                     continue
                 near = [n] if idx.kind(n) in DEVICE_KINDS else list(idx.ocpd_above[n][:1])
                 for d in near:
-                    if d not in {c.node for c in chosen} and not self._is_cutout(d):
+                    if d not in {c.node for c in chosen} and not self.is_cutout(d):
                         options.extend(self.choices(d, RULE_ASPECTS.get(f.rule, ANY_ASPECT)))
             options.sort(key=lambda c: (c.new_device, c.cost, c.steps))
             for r in options[:REPAIR_TRIES]:

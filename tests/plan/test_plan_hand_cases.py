@@ -245,3 +245,40 @@ def test_findings_a_device_cannot_clear_remain_with_their_reason() -> None:
     assert plan.changes == []
     left = {u.finding.rule: u.reason for u in plan.remaining}
     assert left["disconnection.zs-too-high"].startswith("needs a wiring change")
+
+
+def test_the_supply_cutout_is_never_changed_and_the_reason_says_whose_it_is() -> None:
+    site = build(
+        [
+            node("cut", "o", "fuse", fuse_type="gG", rated_a=63.0),
+            node("b", "cut", "board"),
+            node("m", "b", "mcb", rated_a=63.0, curve="B"),
+            circuit("c", "m", "fixed-equipment", rated_a=63.0),
+        ]
+    )
+    plan = make_plan(site)
+    # Common practice: the cut-out fuse is the network operator's; a B63 under a 63 A
+    # gG fuse is not selective (IEC 60269-1 gates against IEC 60898-1 Table 7).
+    assert plan.changes == []
+    [left] = plan.remaining
+    assert left.finding.rule == "overcurrent.not-selective"
+    assert "network operator" in left.reason
+
+
+def test_leakage_over_30_percent_needs_a_board_change() -> None:
+    site = build(
+        [
+            BOARD,
+            rcd("ict", "b", 30, rated_a=63.0),
+            node("m1", "ict", "mcb", rated_a=20.0, curve="B"),
+            circuit("c1", "m1", "sockets", rated_a=20.0, leakage_ma=5.0),
+            node("m2", "ict", "mcb", rated_a=20.0, curve="B"),
+            circuit("c2", "m2", "sockets", rated_a=20.0, leakage_ma=5.0),
+        ]
+    )
+    plan = make_plan(site)
+    # BS 7671 531.3.2: 10 mA over 30 % of 30 mA (9 mA); a larger IΔn would take the
+    # sockets' 30 mA protection (411.3.3), so no device change is offered.
+    assert plan.changes == []
+    reasons = {u.finding.rule: u.reason for u in plan.remaining}
+    assert "split over more RCDs" in reasons["leakage.over-30pct"]
