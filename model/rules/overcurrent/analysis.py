@@ -143,7 +143,7 @@ def overcurrent_pairs(idx: SiteIndex, values: SiteValues) -> list[OcPair]:
                 (verdict, sel_to, float(judged.lo_a[row]), tuple(ranges), maker, expl)
             )
     out: list[OcPair] = []
-    for u, d, i_max, limit, row, (down_line, level_line) in plan:
+    for u, d, i_max, limit, job, (down_line, level_line) in plan:
         up_line = up_lines.get(u)
         if up_line is None:
             up_line = up_lines[u] = _band_line("upstream", label(u), bands[u])
@@ -153,14 +153,14 @@ def overcurrent_pairs(idx: SiteIndex, values: SiteValues) -> list[OcPair]:
                 *data,
                 f"maker's selectivity limit {fmt_a(limit[0])} ({limit[1] or 'source not given'})",
             )
-        if isinstance(row, OcPair):
-            p = row
+        if isinstance(job, OcPair):
+            p = job
             out.append(
                 OcPair(u, d, p.verdict, p.limit_a, p.lo_a, i_max, p.ranges, p.basis,
                        p.explanation, data)
             )  # fmt: skip
             continue
-        verdict, sel_to, lo, ranges, maker, expl = judged_rows[row]
+        verdict, sel_to, lo, ranges, maker, expl = judged_rows[job]
         out.append(
             OcPair(u, d, verdict, sel_to, lo, i_max, ranges,
                    "maker" if maker else "standard", expl, data)
