@@ -100,6 +100,8 @@ def overcurrent_pairs(idx: SiteIndex, values: SiteValues) -> list[OcPair]:
         )
         has_limits = bool(dd["maker_selectivity"])
         down_banded = db.__class__ is Band
+        #: what an unbanded pair's verdict reads of the downstream side
+        down_key = (db if isinstance(db, str) else id(db), i_max, dd.get("rated_a"))
         down_gg = down_banded and db.name.startswith("gG")  # type: ignore[union-attr]
         for u in ups:
             limit = _maker_limit(down, u) if has_limits else None
@@ -114,13 +116,7 @@ def overcurrent_pairs(idx: SiteIndex, values: SiteValues) -> list[OcPair]:
                     inputs.append(PairInput(ub, db, i_max, limit[0] if limit else None, gg))
                 plan.append((u, d, i_max, limit, row, lines))
                 continue
-            ukey = (
-                ub if isinstance(ub, str) else id(ub),
-                db if isinstance(db, str) else id(db),
-                i_max,
-                limit,
-                dd.get("rated_a"),
-            )
+            ukey = (ub if isinstance(ub, str) else id(ub), down_key, limit)
             proto = unbanded.get(ukey)
             if proto is None:
                 proto = unbanded[ukey] = _unbanded(u, d, down, ub, db, i_max, limit, ())
