@@ -102,7 +102,7 @@ def ms(values: list[float]) -> float:
 
 def report(name: str, data: dict[str, Any]) -> None:
     print(f"{name}:")
-    for size, d in data.items():
+    for d in data.values():
         print(
             f"  {d['nodes']:>6} nodes {d['rcds']:>6} RCDs {d['pairs']:>6} RCD pairs "
             f"{d['oc_pairs']:>6} oc pairs {d['findings']:>6} findings | median "

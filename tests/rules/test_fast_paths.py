@@ -167,3 +167,50 @@ def test_the_comparison_sees_a_lost_range(monkeypatch: pytest.MonkeyPatch) -> No
 
     monkeypatch.setattr(pv, "all_unsafe_ranges", lossy)
     assert as_text(analyse(site)) != slow
+
+
+def test_flags_are_the_judgements_flags() -> None:
+    """Every value's flag without words is the flag of the worded judgement, for every
+    device class, test waveform and test current (IEC 61008-1 Table 1 bands through
+    ``time_band``; the flag functions must never disagree with it)."""
+    from types import SimpleNamespace
+
+    from model.rules.bands import GROUPS, judge_ramp, judge_time, ramp_band, time_band
+    from model.rules.flags import group_bands, ramp_flag, time_flag
+
+    values: list[Any] = [None, "did not trip", 1.0, 9.9, 10.0, 39.9, 40.0, 130.0, 150.0]
+    values += [151.0, 199.0, 200.0, 299.0, 300.0, 499.0, 500.0, 501.0, 1000.0, 5000.0]
+    seen: set[str | None] = set()
+    for idn in (10.0, 30.0, 100.0, 300.0, 1000.0):
+        for dtype in ("AC", "A", "F", "B"):
+            for delay, dms, bms in (("general", None, None), ("S", None, None),
+                                    ("set", 150.0, 500.0), ("set", 60.0, None)):  # fmt: skip
+                node = SimpleNamespace(
+                    idn_ma=idn, waveform=dtype, delay=delay, delay_ms=dms, max_break_ms=bms
+                )
+                for rules in ("uk-bs7671-2022", "iec-60364"):
+                    for wf in ("AC", "half-wave", "smooth-dc"):
+                        for tc in (None, "rated", "scaled"):
+                            bands = group_bands(node, wf, rules, tc)
+                            for g, group in enumerate(GROUPS):
+                                band = time_band(node, group, wf, rules, tc)
+                                assert bands[g] == band
+                                for v in values:
+                                    flag = judge_time(band, v).flag
+                                    assert time_flag(band, v) == flag, (band, v)
+                                    seen.add(flag)
+                        for m in (None, 0.2, 0.35, 0.5, 0.51, 1.0, 1.01, 1.4, 2.0, 2.1):
+                            ramp = None if m is None else m * idn
+                            flag = judge_ramp(ramp_band(node, wf), ramp).flag
+                            assert ramp_flag(node, wf, ramp) == flag
+                            seen.add(flag)
+    # the grid reaches every flag a value can earn
+    assert seen >= {
+        None,
+        "reading.no-trip",
+        "reading.too-slow",
+        "reading.too-fast",
+        "reading.half-tripped",
+        "reading.ramp-out-of-band",
+        "reading.test-not-applicable",
+    }

@@ -71,8 +71,13 @@ def check_earthing(ctx: Context) -> Iterator[Finding]:
             band=f"≤ {RA_STABLE_OHM.text()}",
         )
     ra_fail: dict[str, list[str]] = {}
+    best_of: dict[tuple[str, ...], str | None] = {}  # circuits below one path share it
     for c in idx.circuits():
-        best = _most_sensitive(ctx, c)
+        path = idx.rcd_above[c]
+        if path in best_of:
+            best = best_of[path]
+        else:
+            best = best_of[path] = _most_sensitive(ctx, c)
         if best is None:
             if tt and (idx.parent(c) is None or idx.kind(idx.parent(c) or "") != "circuit"):
                 yield Finding(

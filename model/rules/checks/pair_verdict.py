@@ -18,7 +18,7 @@ from __future__ import annotations
 
 from dataclasses import dataclass
 from functools import lru_cache
-from typing import Any
+from typing import Any, Literal
 
 from model.rules.checks.context import Context
 from model.rules.envelope import (
@@ -69,7 +69,7 @@ def five_x_confirmed_ms(ctx: Context, node: Any, curve: DeviceCurve | None = Non
 
 @dataclass(frozen=True)
 class Verdict:
-    verdict: str
+    verdict: Literal["selective", "selective-in-practice", "not-guaranteed", "not-selective"]
     explanation: str
     #: The ranges still at issue after any site confirmation. [mA]
     judged: list[tuple[float, float]]
@@ -179,7 +179,7 @@ def remedies(
     """
     index: dict[tuple[Any, ...], int] = {}
     alike = [index.setdefault(r[:5], len(index)) for r in rows]
-    texts = _remedy_texts([(*key, False) for key in index])  # type: ignore[misc]
+    texts = _remedy_texts([(*key, False) for key in index])
     return [texts[k] for k in alike]
 
 

@@ -266,6 +266,7 @@ def _ramp(ctx: Context, dev: str, node: Any, res: Any, visit_id: str) -> Iterato
     if judged is None:
         return
     rb, jr = judged
+    assert jr.flag is not None
     label = ctx.index.label(dev)
     high = res.ramp_ma is not None and res.ramp_ma > rb.high_ma
     wf = "" if res.waveform == REQUIRED_WAVEFORM else f" ({res.waveform})"

@@ -100,6 +100,8 @@ def overcurrent_pairs(idx: SiteIndex, values: SiteValues) -> list[OcPair]:
         )
         has_limits = bool(dd["maker_selectivity"])
         down_banded = db.__class__ is Band
+        #: what an unbanded pair's verdict reads of the downstream side
+        down_key = (db if isinstance(db, str) else id(db), i_max, dd.get("rated_a"))
         down_gg = down_banded and db.name.startswith("gG")  # type: ignore[union-attr]
         for u in ups:
             limit = _maker_limit(down, u) if has_limits else None
@@ -114,13 +116,7 @@ def overcurrent_pairs(idx: SiteIndex, values: SiteValues) -> list[OcPair]:
                     inputs.append(PairInput(ub, db, i_max, limit[0] if limit else None, gg))
                 plan.append((u, d, i_max, limit, row, lines))
                 continue
-            ukey = (
-                ub if isinstance(ub, str) else id(ub),
-                db if isinstance(db, str) else id(db),
-                i_max,
-                limit,
-                dd.get("rated_a"),
-            )
+            ukey = (ub if isinstance(ub, str) else id(ub), down_key, limit)
             proto = unbanded.get(ukey)
             if proto is None:
                 proto = unbanded[ukey] = _unbanded(u, d, down, ub, db, i_max, limit, ())
@@ -143,7 +139,7 @@ def overcurrent_pairs(idx: SiteIndex, values: SiteValues) -> list[OcPair]:
                 (verdict, sel_to, float(judged.lo_a[row]), tuple(ranges), maker, expl)
             )
     out: list[OcPair] = []
-    for u, d, i_max, limit, row, (down_line, level_line) in plan:
+    for u, d, i_max, limit, job, (down_line, level_line) in plan:
         up_line = up_lines.get(u)
         if up_line is None:
             up_line = up_lines[u] = _band_line("upstream", label(u), bands[u])
@@ -153,14 +149,14 @@ def overcurrent_pairs(idx: SiteIndex, values: SiteValues) -> list[OcPair]:
                 *data,
                 f"maker's selectivity limit {fmt_a(limit[0])} ({limit[1] or 'source not given'})",
             )
-        if isinstance(row, OcPair):
-            p = row
+        if isinstance(job, OcPair):
+            p = job
             out.append(
                 OcPair(u, d, p.verdict, p.limit_a, p.lo_a, i_max, p.ranges, p.basis,
                        p.explanation, data)
             )  # fmt: skip
             continue
-        verdict, sel_to, lo, ranges, maker, expl = judged_rows[row]
+        verdict, sel_to, lo, ranges, maker, expl = judged_rows[job]
         out.append(
             OcPair(u, d, verdict, sel_to, lo, i_max, ranges,
                    "maker" if maker else "standard", expl, data)
