@@ -7,6 +7,7 @@ import gc
 import sys
 
 from model.rules.checks import analyse
+from model.site.models import SiteFile
 from tui.cli.loading import load_or_report
 from tui.cli.output import write_json
 
@@ -29,6 +30,13 @@ def run(args: argparse.Namespace) -> int:
     # The site lives until the command ends: the collector need not walk its
     # objects again each time the findings and their JSON make it run.
     gc.freeze()
+    try:
+        return _report(args, site)
+    finally:
+        gc.unfreeze()  # (for a caller that goes on: a test running main())
+
+
+def _report(args: argparse.Namespace, site: SiteFile) -> int:
     result = analyse(site)
     if args.json:
         doc = {"site": site.site.name, "file": args.site, **result.as_json()}
