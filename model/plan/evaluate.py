@@ -78,13 +78,13 @@ def compare(
     never a created finding (:func:`model.plan.changes.diff_findings`).  A
     finding kept but made worse counts as created: a worse severity, or, for a
     measured limit (:data:`LIMIT_RULES`), any change in what it says.
-    ``replaced``: devices replaced like for like; a pair of one of them whose
-    selectivity rested on the old device's readings is, until the new one is
-    tested, "not guaranteed" (:data:`UNTESTED_RULES`, investigate): a test to
-    make after installation, not a finding the change creates.
+    A pair of a changed device (``changed``, or ``replaced`` like for like)
+    that is "not guaranteed" until both devices are tested (:data:`UNTESTED_RULES`,
+    investigate) is a test to make after installation, not a finding the
+    change creates: the new device has no readings yet.
     """
     before = list(before)
-    new_ones = set(replaced)
+    new_ones = set(replaced) | set(changed)
     d = diff_findings(before, after, changed)
     cleared = list(d.cleared)
     created: list[Finding] = []

@@ -32,7 +32,7 @@ from model.plan.evaluate import (
     zone_root,
 )
 from model.plan.moves import Move, cheap_first, idn_way, idn_ways
-from model.plan.words import LEFT_REASONS, change_text
+from model.plan.words import change_text, left_reason
 from model.rules.findings import Analysis, Finding
 from model.site.models import SiteFile
 from model.site.ops import InvalidEdit
@@ -73,7 +73,7 @@ class Search:
         self.index0 = analysis.index if analysis.index is not None else SiteIndex.build(site)
         self.before = analysis.findings
         self.targets: dict[FindingKey, Finding] = {
-            finding_key(f): f for f in self.before if f.rule not in LEFT_REASONS
+            finding_key(f): f for f in self.before if left_reason(f) is None
         }
         self.sizes = subtree_sizes(self.index0)
         self.whole = len(site.nodes) <= ZONE_MAX

@@ -36,7 +36,7 @@ from model.plan.changes import (
 )
 from model.plan.evaluate import compare
 from model.plan.greedy import Search
-from model.plan.words import CUTOUT_REASON, DESIGN_REASONS, LEFT_REASONS, NO_CHANGE_REASON
+from model.plan.words import CUTOUT_REASON, DESIGN_REASONS, NO_CHANGE_REASON, left_reason
 from model.rules.checks import analyse
 from model.rules.findings import Analysis, Finding
 from model.site.models import SiteFile
@@ -89,7 +89,7 @@ def _claims(search: Search, analysis: Analysis, cleared: list[Finding]) -> Plan:
         if left[k] > 0:
             left[k] -= 1
         else:
-            reason = LEFT_REASONS.get(f.rule) or DESIGN_REASONS.get(f.rule, NO_CHANGE_REASON)
+            reason = left_reason(f) or DESIGN_REASONS.get(f.rule, NO_CHANGE_REASON)
             if f.rule == "overcurrent.not-selective" and f.nodes and search.is_cutout(f.nodes[0]):
                 reason = CUTOUT_REASON
             remaining.append(Unresolved(f, reason))

@@ -49,6 +49,22 @@ LEFT_REASONS: dict[str, str] = {
     "settle this range; enter the maker's selectivity table or curves",
 }
 
+#: A pair whose bands leave a range "not guaranteed" while not both devices are tested
+#: (investigate): readings settle it, so no device is changed for it alone.
+TEST_FIRST_REASON = (
+    "needs a test of both devices first: the pair meets the rule and the bands leave a range "
+    "only the readings can settle (IEC 61008-1 Table 1); change a device only if they show "
+    "no margin"
+)
+
+
+def left_reason(f: Any) -> str | None:
+    """Why no device change is planned for finding ``f`` (None: a device may clear it)."""
+    if f.rule == "cascade.band-overlap" and f.severity == "investigate":
+        return TEST_FIRST_REASON
+    return LEFT_REASONS.get(f.rule)
+
+
 #: What a finding a device could clear needs instead, where no catalogue change clears it
 #: without creating another one.
 DESIGN_REASONS: dict[str, str] = {
@@ -162,6 +178,8 @@ __all__ = [
     "DESIGN_REASONS",
     "KIND_WORDS",
     "LEFT_REASONS",
+    "TEST_FIRST_REASON",
+    "left_reason",
     "NO_CHANGE_REASON",
     "change_text",
 ]
