@@ -32,7 +32,7 @@ from model.plan.evaluate import (
     zone_root,
 )
 from model.plan.moves import Move, cheap_first, idn_way, idn_ways
-from model.plan.words import change_text, left_reason
+from model.plan.words import change_text, failed_devices, left_reason
 from model.rules.findings import Analysis, Finding
 from model.site.models import SiteFile
 from model.site.ops import InvalidEdit
@@ -72,8 +72,9 @@ class Search:
         self.site0 = site
         self.index0 = analysis.index if analysis.index is not None else SiteIndex.build(site)
         self.before = analysis.findings
+        self.failed = failed_devices(self.before)
         self.targets: dict[FindingKey, Finding] = {
-            finding_key(f): f for f in self.before if left_reason(f) is None
+            finding_key(f): f for f in self.before if left_reason(f, self.failed) is None
         }
         self.sizes = subtree_sizes(self.index0)
         self.whole = len(site.nodes) <= ZONE_MAX

@@ -89,7 +89,7 @@ def _claims(search: Search, analysis: Analysis, cleared: list[Finding]) -> Plan:
         if left[k] > 0:
             left[k] -= 1
         else:
-            reason = left_reason(f) or DESIGN_REASONS.get(f.rule, NO_CHANGE_REASON)
+            reason = left_reason(f, search.failed) or DESIGN_REASONS.get(f.rule, NO_CHANGE_REASON)
             if f.rule == "overcurrent.not-selective" and f.nodes and search.is_cutout(f.nodes[0]):
                 reason = CUTOUT_REASON
             remaining.append(Unresolved(f, reason))

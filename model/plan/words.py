@@ -58,10 +58,33 @@ TEST_FIRST_REASON = (
 )
 
 
-def left_reason(f: Any) -> str | None:
-    """Why no device change is planned for finding ``f`` (None: a device may clear it)."""
-    if f.rule == "cascade.band-overlap" and f.severity == "investigate":
-        return TEST_FIRST_REASON
+#: A pair judged from the readings of a device that failed its own test.
+FAILED_FIRST_REASON = (
+    "needs the failed device put right and both devices tested first: the margin shown "
+    "rests on readings of a device that failed its own test (IEC 61008-1 Table 1)"
+)
+
+#: Reading findings that say a device itself is faulty.
+FAILED_RULES = frozenset(
+    {"reading.no-trip", "reading.too-slow", "reading.too-fast", "reading.ramp-out-of-band"}
+)
+
+
+def failed_devices(findings: Any) -> frozenset[str]:
+    """The devices whose own readings failed (:data:`FAILED_RULES`)."""
+    return frozenset(n for f in findings if f.rule in FAILED_RULES for n in f.nodes)
+
+
+def left_reason(f: Any, failed: frozenset[str] = frozenset()) -> str | None:
+    """Why no device change is planned for finding ``f`` (None: a device may clear it).
+
+    ``failed``: the devices whose own readings failed (:func:`failed_devices`).
+    """
+    if f.rule == "cascade.band-overlap":
+        if f.severity == "investigate":
+            return TEST_FIRST_REASON
+        if failed & set(f.nodes):
+            return FAILED_FIRST_REASON
     return LEFT_REASONS.get(f.rule)
 
 
@@ -179,6 +202,8 @@ __all__ = [
     "KIND_WORDS",
     "LEFT_REASONS",
     "TEST_FIRST_REASON",
+    "FAILED_FIRST_REASON",
+    "failed_devices",
     "left_reason",
     "NO_CHANGE_REASON",
     "change_text",

@@ -338,3 +338,34 @@ def test_breaker_over_breaker_left_for_the_makers_tables() -> None:
     assert plan.changes == []
     [left] = plan.remaining
     assert "selectivity tables" in left.reason
+
+
+def test_a_pair_judged_from_a_failed_device_waits_for_its_replacement() -> None:
+    site = build(
+        [
+            BOARD,
+            rcd("up", "b", 100, delay="S", rated_a=63.0, label="Main RCD"),
+            rcd("rb", "up", 30, kind="rcbo", rated_a=32.0, curve="B"),
+            circuit("c", "rb", "sockets", rated_a=32.0),
+        ],
+        [
+            visit(
+                {
+                    "up": {"x1_0": 180.0, "x1_180": 190.0, "x5_0": 60.0, "x5_180": 70.0},
+                    "rb": {"x1_0": 350.0, "x1_180": 360.0, "x5_0": 30.0, "x5_180": 35.0},
+                }
+            )
+        ],
+    )
+    before = {f.rule for f in analyse(site).findings}
+    # IEC 61008-1 Table 1: a general device breaks within 300 ms at IΔn; the pair shows
+    # no margin (rb slowest 360 ms, up fastest 180 ms)
+    assert {"reading.too-slow", "cascade.band-overlap"} <= before
+    plan = make_plan(site)
+    # Common practice: a device too slow at IΔn is replaced like for like; the pair's
+    # margin rested on the failed device's readings, so the upstream IΔn is not raised
+    # for it (IEC 61008-1 Table 1: judge the pair again once the new device is tested).
+    assert [(c.node, c.fields[0].field) for c in plan.changes] == [("rb", REPLACED)]
+    assert cleared_rules(plan) == {"reading.too-slow"}
+    reasons = {u.finding.rule: u.reason for u in plan.remaining}
+    assert reasons["cascade.band-overlap"].startswith("needs the failed device put right")
