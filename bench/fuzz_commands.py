@@ -41,6 +41,7 @@ if str(ROOT) not in sys.path:
 from bench.gen_site import generate_site  # noqa: E402
 from model.site.models import site_to_dict  # noqa: E402
 from model.site.sheet_columns import VALUE_COLUMNS  # noqa: E402
+from model.storage.sites import load_site  # noqa: E402
 
 #: Text that has hurt terminals, spreadsheets and parsers (all invented here).
 HOSTILE_TEXT = [
@@ -195,7 +196,7 @@ def hostile_cases(count: int, seed: int = 0) -> Iterator[Case]:
 
 
 def commands(site: str, csv: str, out: str, *, pdf: bool) -> list[list[str]]:
-    """Every read command for one site file (documents go to ``out``)."""
+    """Every read command for one site file, and the plan with its new file (all to ``out``)."""
     fmts = ["md", "csv", "txt"] + (["pdf"] if pdf else [])
     runs = [
         ["check", site],
@@ -203,6 +204,7 @@ def commands(site: str, csv: str, out: str, *, pdf: bool) -> list[list[str]]:
         ["compare", site],
         ["compare", "--json", site],
         ["import-readings", site, csv],
+        ["plan", "--json", site, "--out", f"{out}/plan.json"],
     ]
     for kind in ("remedial", "sheet"):
         for fmt in fmts:
@@ -291,7 +293,13 @@ def fuzz(count: int, seed: int = 0, *, pdf: bool = False, budget_s: float | None
             made = {x.name for x in (work / "out").iterdir()}
             expected = {
                 f"{k}.{f}" for k in ("remedial", "sheet") for f in ("md", "csv", "txt", "pdf")
-            }
+            } | {"plan.json"}
+            planned = work / "out" / "plan.json"
+            if planned.exists():
+                try:
+                    load_site(planned)
+                except Exception as exc:  # noqa: BLE001 - any failure to reopen is the finding
+                    tally.fail("plan file unreadable", f"{case.name}: {exc}"[:500])
             left = {x.name for x in work.iterdir()} - {"site.json", "sheet.csv", "out"}
             if left or made - expected:
                 tally.fail("stray files", f"{case.name}: {sorted(left | (made - expected))}")
