@@ -20,6 +20,7 @@ from __future__ import annotations
 
 import argparse
 import asyncio
+import contextlib
 import gc
 import random
 import statistics
@@ -36,6 +37,7 @@ from bare_app import BareApp  # type: ignore[import-not-found]  # noqa: E402
 from gen_site import generate_site  # type: ignore[import-not-found]  # noqa: E402
 from textual import events  # noqa: E402
 from textual.widgets import Tree  # noqa: E402
+from textual.worker import WorkerCancelled  # noqa: E402
 
 from model.storage.sites import save_site  # noqa: E402
 from tui.app.shell import make_app  # noqa: E402
@@ -144,7 +146,9 @@ def _key_event(key: str) -> events.Key:
 async def _app_idle(app: Any, pilot: Any) -> None:
     """Until nothing is pending: no checks or save waiting on a timer or running."""
     for _ in range(400):
-        await app.workers.wait_for_complete()
+        for worker in list(app.workers):
+            with contextlib.suppress(WorkerCancelled):  # a newer run of the checks took over
+                await worker.wait()
         await pilot.pause()
         if app._analysis_timer is None and app._save_timer is None and not app.workers:
             break
