@@ -13,6 +13,7 @@ from typing import Any
 import pytest
 
 import tui.app.analysis as analysis_mod
+import tui.app.autosave as autosave_mod
 from model.rules.checks import analyse
 from model.site.models import Reading
 from model.site.terms import DID_NOT_TRIP
@@ -71,7 +72,11 @@ async def test_a_reading_is_judged_before_the_full_checks_and_an_older_run_never
             gate.set()
 
 
-async def test_the_save_runs_in_the_background_and_lands(oak_lane: Path) -> None:
+async def test_the_save_runs_in_the_background_and_lands(
+    oak_lane: Path, monkeypatch: pytest.MonkeyPatch
+) -> None:
+    # the saves start when the test says (as when the typing stops), never on a timer
+    monkeypatch.setattr(autosave_mod, "SAVE_DELAY_S", 600.0)
     app = make_app(oak_lane)
     async with app.run_test(size=(120, 40)) as pilot:
         await app.settle()
