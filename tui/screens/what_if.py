@@ -1,0 +1,448 @@
+"""'What if…': try a device change on a scratch copy and see the findings before and after.
+
+Opened from a finding or from a device.  The choices (the plan's change, each device's
+options, a change of your own) come from :mod:`model.plan.choices`; each is tried on a
+scratch copy by :func:`model.plan.trial.run_trial`, in a worker, and shown side by side:
+new findings first and unmistakable, then what is cleared and kept, the tests the changed
+devices need after installation, and the counts by severity.  Nothing here changes the
+site: Accept hands the trial to the app, which makes it through the journal as one undo
+step; Drop and Escape leave the site as it was.
+"""
+
+from __future__ import annotations
+
+from collections.abc import Callable, Sequence
+
+from rich.text import Text
+from textual import events, on, work
+from textual.app import ComposeResult
+from textual.binding import Binding
+from textual.containers import Horizontal, Vertical
+from textual.widgets import DataTable, Static
+
+from model.plan.changes import PLAN_CAUTION
+from model.plan.choices import TrialChoice
+from model.plan.trial import Trial, TrialRefused, device_name, run_trial
+from model.rules.findings import SEVERITIES, Analysis, Finding
+from model.site.models import SiteFile
+from tui.format import SEVERITY_MARK
+from tui.screens.closing import Dialog
+from tui.screens.confirm import ConfirmScreen
+from tui.screens.what_if_form import ScratchNodeForm
+from tui.themes import tone
+from tui.widgets.caution_bar import CautionBar
+from tui.widgets.key_bar import KeyBar
+
+#: The plan caution where the full text would take too many lines (it keeps every duty).
+PLAN_CAUTION_SHORT = (
+    "A plan supports, never replaces, a competent person's design to local rules: check "
+    "each change, isolate and prove dead, test every changed device after installation."
+)
+#: Screen width from which the full plan caution is shown.
+FULL_CAUTION_WIDTH = 120
+
+#: Where a choice comes from, as the list shows it.
+SOURCE_WORDS = {"plan": "plan", "option": "option", "own": "yours"}
+
+#: Finds the choices to try (run in a worker: it may take a moment on a large site).
+ChoiceMaker = Callable[[], list[TrialChoice]]
+
+
+def plan_caution_for_width(width: int) -> str:
+    """The full plan caution on a wide screen, its short form on a narrow one."""
+    return PLAN_CAUTION if width >= FULL_CAUTION_WIDTH else PLAN_CAUTION_SHORT
+
+
+def counts_text(trial: Trial | None, before: Sequence[Finding]) -> Text:
+    """'urgent 0 → 0 · required 4 → 2 · …', or the counts before only."""
+    text = Text()
+    b = {s: 0 for s in SEVERITIES}
+    for f in before:
+        b[f.severity] += 1
+    a = trial.counts_after() if trial is not None else None
+    for i, sev in enumerate(SEVERITIES):
+        if i:
+            text.append(" · ", style=tone("$tw-muted"))
+        _, style = SEVERITY_MARK[sev]
+        text.append(sev, style=tone(style))
+        text.append(f" {b[sev]}")
+        if a is not None:
+            worse = a[sev] > b[sev]
+            text.append("→")
+            text.append(str(a[sev]), style=tone("bold $tw-bad") if worse else "bold")
+    if trial is not None and trial.diff.to_test:
+        text.append(f" · +{len(trial.diff.to_test)} to test", style=tone("$tw-investigate"))
+    return text
+
+
+class WhatIfScreen(Dialog[Trial | None]):
+    """Try changes on a scratch copy; dismisses with the trial to accept, or None."""
+
+    CSS_PATH = "what_if.tcss"
+
+    BINDINGS = [
+        Binding("enter", "try_choice", "Try", tooltip="try the highlighted change"),
+        Binding("e", "own_change", "Your change", tooltip="edit the device's fields and try"),
+        Binding("a", "accept", "Accept", tooltip="make the tried change in the site (undoable)"),
+        Binding("d", "drop", "Drop", tooltip="leave the site unchanged and close"),
+        Binding("escape", "drop", "Leave", show=False, tooltip="leave the site unchanged"),
+    ]
+
+    def __init__(
+        self,
+        site: SiteFile,
+        analysis: Analysis | None,
+        make_choices: ChoiceMaker,
+        *,
+        finding: Finding | None = None,
+        device: str | None = None,
+        read_only: bool = False,
+    ) -> None:
+        super().__init__()
+        self.site = site
+        self.analysis = analysis
+        self.finding = finding
+        #: The device a change of your own is made to (the one the view is opened for, or
+        #: the first device the finding names).
+        self.device = device
+        self.read_only = read_only
+        self._make_choices = make_choices
+        self.choices: list[TrialChoice] = []
+        #: The trial shown now (None while none is chosen or while it is checked).
+        self.trial: Trial | None = None
+        #: Why the last choice could not be tried ('' when it could).
+        self.refused = ""
+        self._gen = 0
+        self._before_rows: list[Finding] = []
+        self._after_rows: list[Finding] = []
+        self.busy = ""
+
+    # ------------------------------------------------------------ layout
+    def _subject(self) -> tuple[str, str]:
+        if self.finding is not None:
+            f = self.finding
+            where = ", ".join(f.nodes[:4]) + ("…" if len(f.nodes) > 4 else "")
+            return f"What if… finding {f.rule} ({where})", f.message
+        if self.device is not None:
+            return f"What if… {device_name(self.site.node(self.device))}", ""
+        return "What if…", ""
+
+    def compose(self) -> ComposeResult:
+        title, subject = self._subject()
+        with Vertical(id="wi-box"):
+            yield Static(Text(title, style="bold"), id="wi-title", markup=False)
+            yield Static(subject, id="wi-subject", markup=False)
+            yield DataTable(id="wi-choices", cursor_type="row", zebra_stripes=True)
+            yield Static("", id="wi-counts", markup=False)
+            yield Static("", id="wi-new", markup=False)
+            yield Static("", id="wi-note", markup=False)
+            with Horizontal(id="wi-sides"):
+                with Vertical(classes="wi-side"):
+                    yield Static("Before", id="wi-before-title", classes="wi-head", markup=False)
+                    yield DataTable(id="wi-before", cursor_type="row", zebra_stripes=True)
+                with Vertical(classes="wi-side"):
+                    yield Static("After", id="wi-after-title", classes="wi-head", markup=False)
+                    yield DataTable(id="wi-after", cursor_type="row", zebra_stripes=True)
+            yield Static("", id="wi-detail", markup=False)
+            yield Static(PLAN_CAUTION_SHORT, id="wi-plan-caution", markup=False)
+        yield CautionBar(id="caution")
+        yield KeyBar(id="key-bar")
+
+    def on_mount(self) -> None:
+        choices = self.query_one("#wi-choices", DataTable)
+        choices.add_column("from", key="from", width=6)
+        choices.add_column("clears", key="clears", width=6)
+        choices.add_column("change", key="change", width=400)
+        for side in ("#wi-before", "#wi-after"):
+            t = self.query_one(side, DataTable)
+            t.show_header = False
+            t.add_column("", key="status", width=9)
+            t.add_column("finding", key="message", width=400)
+        self._fill_sides()
+        self._set_busy("finding the changes to try…")
+        choices.focus()
+        self._load_choices()
+
+    def on_resize(self, event: events.Resize) -> None:
+        self.query_one("#wi-plan-caution", Static).update(plan_caution_for_width(event.size.width))
+
+    # ------------------------------------------------------------ choices
+    @work(thread=True, exclusive=True, group="what-if-choices", exit_on_error=False)
+    def _load_choices(self) -> None:
+        try:
+            result: list[TrialChoice] | str = self._make_choices()
+        except Exception as exc:  # noqa: BLE001 - said on screen, never a traceback
+            result = f"the changes to try could not be found: {exc}"
+        self.app.call_from_thread(self._choices_ready, result)
+
+    def _choices_ready(self, result: list[TrialChoice] | str) -> None:
+        if self.dismissed:
+            return
+        if isinstance(result, str):
+            self._set_busy("")
+            self._say(result)
+            return
+        self.choices = list(result)
+        self._show_choices()
+        self._set_busy("")
+        if not self.choices:
+            self._say(
+                "No standard change of a device clears this; press e for a change of your own."
+                if self.device is not None
+                else "No device change to try: this finding names no device that can be changed."
+            )
+
+    def _show_choices(self) -> None:
+        table = self.query_one("#wi-choices", DataTable)
+        table.clear()
+        for i, c in enumerate(self.choices):
+            mark = "✓" if c.clears_target else " "
+            table.add_row(
+                Text(SOURCE_WORDS[c.source]),
+                Text(f"{mark} {c.clears}" if c.source != "own" else "?"),
+                Text(c.text, no_wrap=True),
+                key=str(i),
+            )
+
+    def add_choice(self, choice: TrialChoice) -> None:
+        """Add a choice (a change of your own) at the end, highlight and try it."""
+        self.choices.append(choice)
+        self._show_choices()
+        table = self.query_one("#wi-choices", DataTable)
+        table.move_cursor(row=len(self.choices) - 1)
+        table.focus()
+        self.try_choice(choice)
+
+    def highlighted_choice(self) -> TrialChoice | None:
+        row = self.query_one("#wi-choices", DataTable).cursor_row
+        return self.choices[row] if 0 <= row < len(self.choices) else None
+
+    @on(DataTable.RowSelected, "#wi-choices")
+    def _chosen(self, event: DataTable.RowSelected) -> None:
+        event.stop()
+        self.action_try_choice()
+
+    def action_try_choice(self) -> None:
+        choice = self.highlighted_choice()
+        if choice is None:
+            self.app.bell()
+            return
+        self.try_choice(choice)
+
+    # ------------------------------------------------------------ trials
+    def try_choice(self, choice: TrialChoice) -> None:
+        """Try one choice on a scratch copy (in a worker); the sides show it when done."""
+        self._gen += 1
+        self.trial = None
+        self.refused = ""
+        self._set_busy("checking the change on a scratch copy…")
+        self._run(choice, self._gen)
+
+    @work(thread=True, exclusive=True, group="what-if-trial", exit_on_error=False)
+    def _run(self, choice: TrialChoice, gen: int) -> None:
+        try:
+            result: Trial | str = run_trial(self.site, choice.changes, self.analysis)
+        except TrialRefused as exc:
+            result = f"This change cannot be made: {exc}"
+        except Exception as exc:  # noqa: BLE001 - said on screen, never a traceback
+            result = f"The checks failed on this change: {exc}"
+        self.app.call_from_thread(self._trial_done, result, gen)
+
+    def _trial_done(self, result: Trial | str, gen: int) -> None:
+        if gen != self._gen or self.dismissed:
+            return  # another choice was tried since
+        self._set_busy("")
+        if isinstance(result, str):
+            self.refused = result
+            self.trial = None
+            self._fill_sides()
+            self._say(result, error=True)
+            return
+        if self.analysis is None:
+            self.analysis = result.before
+        self.trial = result
+        self._fill_sides()
+
+    # ------------------------------------------------------------ the two sides
+    def _before_findings(self) -> list[Finding]:
+        if self.trial is not None:
+            return list(self.trial.before.findings)
+        return [] if self.analysis is None else list(self.analysis.findings)
+
+    def _fill_sides(self) -> None:
+        trial = self.trial
+        before = self.query_one("#wi-before", DataTable)
+        after = self.query_one("#wi-after", DataTable)
+        before.clear()
+        after.clear()
+        rows_b: list[tuple[Finding, str]] = []
+        rows_a: list[tuple[Finding, str]] = []
+        if trial is None:
+            rows_b = [(f, "") for f in self._before_findings()]
+        else:
+            d = trial.diff
+            rows_b = [(f, "cleared") for f in d.cleared] + [(f, "kept") for f in trial.kept_before]
+            rows_a = (
+                [(f, "NEW") for f in d.created]
+                + [(f, "kept") for f in d.kept]
+                + [(f, "test") for f in d.to_test]
+            )
+        self._before_rows = [f for f, _ in rows_b]
+        self._after_rows = [f for f, _ in rows_a]
+        for table, rows in ((before, rows_b), (after, rows_a)):
+            for i, (f, status) in enumerate(rows):
+                table.add_row(*self._cells(f, status), key=str(i))
+        nb, na = len(rows_b), len(rows_a)
+        self.query_one("#wi-before-title", Static).update(
+            f"Before: {nb} finding(s)"
+            + (f", {len(trial.diff.cleared)} cleared" if trial is not None else "")
+        )
+        self.query_one("#wi-after-title", Static).update(
+            "After: choose a change and press Enter"
+            if trial is None
+            else f"After: {na - len(trial.diff.to_test)} finding(s), {len(trial.diff.created)} new"
+        )
+        self.query_one("#wi-counts", Static).update(counts_text(trial, self._before_findings()))
+        new = self.query_one("#wi-new", Static)
+        created = trial.diff.created if trial is not None else []
+        new.update(
+            f"WARNING: this change CREATES {len(created)} NEW FINDING(S) the site does not have "
+            "now (listed first, marked NEW)."
+            if created
+            else ""
+        )
+        new.display = bool(created)
+        self._show_note()
+        self._show_detail(None)
+
+    def _cells(self, f: Finding, status: str) -> tuple[Text, ...]:
+        mark, style = SEVERITY_MARK[f.severity]
+        status_style = {
+            "NEW": tone("bold reverse $tw-bad"),
+            "cleared": tone("$tw-ok"),
+            "test": tone("$tw-investigate"),
+        }.get(status, tone("$tw-muted"))
+        cell = Text(mark, style=tone(style))
+        cell.append(" ")
+        cell.append(status, style=status_style)
+        return cell, Text(f.message, no_wrap=True)
+
+    def _show_note(self) -> None:
+        note = self.query_one("#wi-note", Static)
+        trial = self.trial
+        if trial is None or not trial.readings_dropped:
+            note.update("")
+            note.display = False
+            return
+        by_device: dict[str, list[str]] = {}
+        for visit, device in trial.readings_dropped:
+            by_device.setdefault(device, []).append(visit)
+        said = ", ".join(
+            f"{d} ({len(v)} visit{'s' if len(v) > 1 else ''})" for d, v in by_device.items()
+        )
+        note.update(
+            f"Readings of {said} are not carried to the new device (the site keeps them "
+            "unless you accept). Test it after installation."
+        )
+        note.display = True
+
+    @on(DataTable.RowHighlighted, "#wi-before")
+    @on(DataTable.RowHighlighted, "#wi-after")
+    def _row(self, event: DataTable.RowHighlighted) -> None:
+        event.stop()
+        rows = self._before_rows if event.data_table.id == "wi-before" else self._after_rows
+        if 0 <= event.cursor_row < len(rows) and event.data_table.has_focus:
+            self._show_detail(rows[event.cursor_row])
+
+    def on_descendant_focus(self, event: events.DescendantFocus) -> None:
+        """A side table took the focus: show its row under the cursor in full."""
+        table = event.widget
+        if not isinstance(table, DataTable) or table.id not in ("wi-before", "wi-after"):
+            return
+        rows = self._before_rows if table.id == "wi-before" else self._after_rows
+        if 0 <= table.cursor_row < len(rows):
+            self._show_detail(rows[table.cursor_row])
+
+    def _show_detail(self, f: Finding | None) -> None:
+        detail = self.query_one("#wi-detail", Static)
+        if f is None:
+            choice = self.highlighted_choice()
+            detail.update(choice.text if choice is not None else "")
+            return
+        detail.update(f"{f.severity} · {f.rule} · {', '.join(f.nodes)}: {f.message}")
+
+    @on(DataTable.RowHighlighted, "#wi-choices")
+    def _choice_row(self, event: DataTable.RowHighlighted) -> None:
+        event.stop()
+        if self.trial is None or self.busy:
+            self._show_detail(None)
+
+    def _set_busy(self, text: str) -> None:
+        self.busy = text
+        if text:
+            self._say(text)
+
+    def _say(self, text: str, *, error: bool = False) -> None:
+        counts = self.query_one("#wi-counts", Static)
+        counts.update(Text(text, style=tone("bold $tw-bad") if error else tone("$tw-muted")))
+
+    # ------------------------------------------------------------ your own change
+    def action_own_change(self) -> None:
+        device = self.device
+        choice = self.highlighted_choice()
+        if device is None and choice is not None:
+            device = choice.changes[0].node
+        if device is None or not any(n.id == device for n in self.site.nodes):
+            self._say("This finding names no device to change.", error=True)
+            self.app.bell()
+            return
+        values = self.site.node(device).model_dump()
+
+        def done(node_id: str | None) -> None:
+            if node_id is not None and form.change is not None:
+                self.add_choice(TrialChoice("own", (form.change,)))
+
+        form = ScratchNodeForm(self.site, values)
+        self.app.push_screen(form, done)
+
+    # ------------------------------------------------------------ accept / drop
+    def action_accept(self) -> None:
+        if self.read_only:
+            self._say("The site is open read-only; nothing can be accepted.", error=True)
+            self.app.bell()
+            return
+        trial = self.trial
+        if trial is None:
+            self._say(
+                "Still checking the change…" if self.busy else "Try a change first (Enter).",
+                error=not self.busy,
+            )
+            self.app.bell()
+            return
+        if not trial.creates:
+            self.dismiss(trial)
+            return
+        n = len(trial.diff.created)
+
+        def answered(yes: bool | None) -> None:
+            if yes:
+                self.dismiss(trial)
+
+        self.app.push_screen(
+            ConfirmScreen(
+                "This change creates new findings",
+                f"{n} finding(s) the site does not have now would appear:\n"
+                + "\n".join(f"- {f.severity}: {f.message}" for f in trial.diff.created[:5])
+                + ("\n…" if n > 5 else "")
+                + "\n\nAccept it into the site anyway?",
+                yes="Accept anyway",
+                no="Back",
+            ),
+            answered,
+        )
+
+    def action_drop(self) -> None:
+        self.dismiss(None)
+
+
+__all__ = ["WhatIfScreen", "counts_text", "plan_caution_for_width"]
