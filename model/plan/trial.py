@@ -23,7 +23,7 @@ from model.plan.changes import REMOVED, DeviceChange, FieldChange, FindingDiff, 
 from model.plan.changes import diff_findings as _diff
 from model.rules.checks import analyse
 from model.rules.findings import SEVERITIES, Analysis, Finding
-from model.site.fields import field_title
+from model.site.fields import FIELD_TITLES, field_title, in_words
 from model.site.messages import error_text
 from model.site.models import SiteFile
 from model.site.numbers import number_text
@@ -89,11 +89,18 @@ def severity_counts(findings: Sequence[Finding]) -> dict[str, int]:
 
 
 def _refusal(exc: BaseException) -> str:
+    """A refused change in plain words, naming fields by their titles."""
     if isinstance(exc, ValidationError):
-        return "; ".join(error_text(e) for e in exc.errors()[:3])
+        parts = []
+        for err in exc.errors()[:3]:
+            names = [str(p) for p in err.get("loc", ()) if str(p) in FIELD_TITLES]
+            said = in_words(error_text(err))
+            title = field_title(names[-1]) if names else ""
+            parts.append(f"{title}: {said}" if title and not said.startswith(title) else said)
+        return "; ".join(parts)
     if isinstance(exc, KeyError):
         return f"there is no node {exc.args[0]!s} in the site"
-    return str(exc)
+    return in_words(str(exc))
 
 
 def scratch_site(site: SiteFile, changes: Sequence[DeviceChange]) -> tuple[SiteFile, list[Op]]:

@@ -11,27 +11,27 @@ step; Drop and Escape leave the site as it was.
 
 from __future__ import annotations
 
-from collections.abc import Callable, Sequence
+from collections.abc import Callable
 
 from rich.text import Text
 from textual import events, on, work
 from textual.app import ComposeResult
 from textual.binding import Binding
-from textual.containers import Horizontal, Vertical
+from textual.containers import Vertical
 from textual.widgets import DataTable, Static
 
 from model.plan.changes import PLAN_CAUTION
 from model.plan.choices import TrialChoice
 from model.plan.trial import Trial, TrialRefused, device_name, run_trial
-from model.rules.findings import SEVERITIES, Analysis, Finding
+from model.rules.findings import Analysis, Finding
 from model.site.models import SiteFile
-from tui.format import SEVERITY_MARK
 from tui.screens.closing import Dialog
 from tui.screens.confirm import ConfirmScreen
 from tui.screens.what_if_form import ScratchNodeForm
 from tui.themes import tone
 from tui.widgets.caution_bar import CautionBar
 from tui.widgets.key_bar import KeyBar
+from tui.widgets.trial_sides import TrialSides, counts_text
 
 #: The plan caution where the full text would take too many lines (it keeps every duty).
 PLAN_CAUTION_SHORT = (
@@ -51,28 +51,6 @@ ChoiceMaker = Callable[[], list[TrialChoice]]
 def plan_caution_for_width(width: int) -> str:
     """The full plan caution on a wide screen, its short form on a narrow one."""
     return PLAN_CAUTION if width >= FULL_CAUTION_WIDTH else PLAN_CAUTION_SHORT
-
-
-def counts_text(trial: Trial | None, before: Sequence[Finding]) -> Text:
-    """'urgent 0 → 0 · required 4 → 2 · …', or the counts before only."""
-    text = Text()
-    b = {s: 0 for s in SEVERITIES}
-    for f in before:
-        b[f.severity] += 1
-    a = trial.counts_after() if trial is not None else None
-    for i, sev in enumerate(SEVERITIES):
-        if i:
-            text.append(" · ", style=tone("$tw-muted"))
-        _, style = SEVERITY_MARK[sev]
-        text.append(sev, style=tone(style))
-        text.append(f" {b[sev]}")
-        if a is not None:
-            worse = a[sev] > b[sev]
-            text.append("→")
-            text.append(str(a[sev]), style=tone("bold $tw-bad") if worse else "bold")
-    if trial is not None and trial.diff.to_test:
-        text.append(f" · +{len(trial.diff.to_test)} to test", style=tone("$tw-investigate"))
-    return text
 
 
 class WhatIfScreen(Dialog[Trial | None]):
@@ -113,8 +91,6 @@ class WhatIfScreen(Dialog[Trial | None]):
         #: Why the last choice could not be tried ('' when it could).
         self.refused = ""
         self._gen = 0
-        self._before_rows: list[Finding] = []
-        self._after_rows: list[Finding] = []
         self.busy = ""
 
     # ------------------------------------------------------------ layout
@@ -134,15 +110,7 @@ class WhatIfScreen(Dialog[Trial | None]):
             yield Static(subject, id="wi-subject", markup=False)
             yield DataTable(id="wi-choices", cursor_type="row", zebra_stripes=True)
             yield Static("", id="wi-counts", markup=False)
-            yield Static("", id="wi-new", markup=False)
-            yield Static("", id="wi-note", markup=False)
-            with Horizontal(id="wi-sides"):
-                with Vertical(classes="wi-side"):
-                    yield Static("Before", id="wi-before-title", classes="wi-head", markup=False)
-                    yield DataTable(id="wi-before", cursor_type="row", zebra_stripes=True)
-                with Vertical(classes="wi-side"):
-                    yield Static("After", id="wi-after-title", classes="wi-head", markup=False)
-                    yield DataTable(id="wi-after", cursor_type="row", zebra_stripes=True)
+            yield TrialSides(id="wi-trial")
             yield Static("", id="wi-detail", markup=False)
             yield Static(PLAN_CAUTION_SHORT, id="wi-plan-caution", markup=False)
         yield CautionBar(id="caution")
@@ -153,11 +121,6 @@ class WhatIfScreen(Dialog[Trial | None]):
         choices.add_column("from", key="from", width=6)
         choices.add_column("clears", key="clears", width=6)
         choices.add_column("change", key="change", width=400)
-        for side in ("#wi-before", "#wi-after"):
-            t = self.query_one(side, DataTable)
-            t.show_header = False
-            t.add_column("", key="status", width=9)
-            t.add_column("finding", key="message", width=400)
         self._fill_sides()
         self._set_busy("finding the changes to try…")
         choices.focus()
@@ -264,104 +227,33 @@ class WhatIfScreen(Dialog[Trial | None]):
         self._fill_sides()
 
     # ------------------------------------------------------------ the two sides
+    @property
+    def before_rows(self) -> list[tuple[str, Finding]]:
+        """The rows before: (status, finding), status '' (nothing tried), 'cleared', 'kept'."""
+        return self.query_one(TrialSides).before_rows
+
+    @property
+    def after_rows(self) -> list[tuple[str, Finding]]:
+        """The rows after: (status, finding), status 'NEW', 'kept' or 'test' (after
+        installation), the new ones first."""
+        return self.query_one(TrialSides).after_rows
+
     def _before_findings(self) -> list[Finding]:
         if self.trial is not None:
             return list(self.trial.before.findings)
         return [] if self.analysis is None else list(self.analysis.findings)
 
     def _fill_sides(self) -> None:
-        trial = self.trial
-        before = self.query_one("#wi-before", DataTable)
-        after = self.query_one("#wi-after", DataTable)
-        before.clear()
-        after.clear()
-        rows_b: list[tuple[Finding, str]] = []
-        rows_a: list[tuple[Finding, str]] = []
-        if trial is None:
-            rows_b = [(f, "") for f in self._before_findings()]
-        else:
-            d = trial.diff
-            rows_b = [(f, "cleared") for f in d.cleared] + [(f, "kept") for f in trial.kept_before]
-            rows_a = (
-                [(f, "NEW") for f in d.created]
-                + [(f, "kept") for f in d.kept]
-                + [(f, "test") for f in d.to_test]
-            )
-        self._before_rows = [f for f, _ in rows_b]
-        self._after_rows = [f for f, _ in rows_a]
-        for table, rows in ((before, rows_b), (after, rows_a)):
-            for i, (f, status) in enumerate(rows):
-                table.add_row(*self._cells(f, status), key=str(i))
-        nb, na = len(rows_b), len(rows_a)
-        self.query_one("#wi-before-title", Static).update(
-            f"Before: {nb} finding(s)"
-            + (f", {len(trial.diff.cleared)} cleared" if trial is not None else "")
+        self.query_one(TrialSides).show(self.trial, self._before_findings())
+        self.query_one("#wi-counts", Static).update(
+            counts_text(self.trial, self._before_findings())
         )
-        self.query_one("#wi-after-title", Static).update(
-            "After: choose a change and press Enter"
-            if trial is None
-            else f"After: {na - len(trial.diff.to_test)} finding(s), {len(trial.diff.created)} new"
-        )
-        self.query_one("#wi-counts", Static).update(counts_text(trial, self._before_findings()))
-        new = self.query_one("#wi-new", Static)
-        created = trial.diff.created if trial is not None else []
-        new.update(
-            f"WARNING: this change CREATES {len(created)} NEW FINDING(S) the site does not have "
-            "now (listed first, marked NEW)."
-            if created
-            else ""
-        )
-        new.display = bool(created)
-        self._show_note()
         self._show_detail(None)
 
-    def _cells(self, f: Finding, status: str) -> tuple[Text, ...]:
-        mark, style = SEVERITY_MARK[f.severity]
-        status_style = {
-            "NEW": tone("bold reverse $tw-bad"),
-            "cleared": tone("$tw-ok"),
-            "test": tone("$tw-investigate"),
-        }.get(status, tone("$tw-muted"))
-        cell = Text(mark, style=tone(style))
-        cell.append(" ")
-        cell.append(status, style=status_style)
-        return cell, Text(f.message, no_wrap=True)
-
-    def _show_note(self) -> None:
-        note = self.query_one("#wi-note", Static)
-        trial = self.trial
-        if trial is None or not trial.readings_dropped:
-            note.update("")
-            note.display = False
-            return
-        by_device: dict[str, list[str]] = {}
-        for visit, device in trial.readings_dropped:
-            by_device.setdefault(device, []).append(visit)
-        said = ", ".join(
-            f"{d} ({len(v)} visit{'s' if len(v) > 1 else ''})" for d, v in by_device.items()
-        )
-        note.update(
-            f"Readings of {said} are not carried to the new device (the site keeps them "
-            "unless you accept). Test it after installation."
-        )
-        note.display = True
-
-    @on(DataTable.RowHighlighted, "#wi-before")
-    @on(DataTable.RowHighlighted, "#wi-after")
-    def _row(self, event: DataTable.RowHighlighted) -> None:
+    @on(TrialSides.Picked)
+    def _picked(self, event: TrialSides.Picked) -> None:
         event.stop()
-        rows = self._before_rows if event.data_table.id == "wi-before" else self._after_rows
-        if 0 <= event.cursor_row < len(rows) and event.data_table.has_focus:
-            self._show_detail(rows[event.cursor_row])
-
-    def on_descendant_focus(self, event: events.DescendantFocus) -> None:
-        """A side table took the focus: show its row under the cursor in full."""
-        table = event.widget
-        if not isinstance(table, DataTable) or table.id not in ("wi-before", "wi-after"):
-            return
-        rows = self._before_rows if table.id == "wi-before" else self._after_rows
-        if 0 <= table.cursor_row < len(rows):
-            self._show_detail(rows[table.cursor_row])
+        self._show_detail(event.finding)
 
     def _show_detail(self, f: Finding | None) -> None:
         detail = self.query_one("#wi-detail", Static)
