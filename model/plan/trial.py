@@ -82,7 +82,7 @@ class Trial:
 
 def severity_counts(findings: Sequence[Finding]) -> dict[str, int]:
     """How many findings of each severity, worst first, every severity present."""
-    out = {s: 0 for s in SEVERITIES}
+    out: dict[str, int] = {s: 0 for s in SEVERITIES}
     for f in findings:
         out[f.severity] += 1
     return out
