@@ -318,3 +318,29 @@ async def test_fits_with_both_cautions_in_view(oak_lane: Path, size: tuple[int, 
         caution = str(screen.query_one("#caution", Static).content)
         assert caution == caution_for_width(width - 2)
         assert "Not a certificate" in caution or "not a certificate" in caution
+
+
+async def test_accept_makes_only_the_change_shown(oak_lane: Path) -> None:
+    app = make_app(oak_lane)
+    async with app.run_test(size=(120, 40)) as pilot:
+        screen = await open_on_device(app, pilot, "rc2")
+        await own_change(app, pilot, "waveform", ["a"])  # Type A
+        await own_change(app, pilot, "waveform", ["f"])  # Type F
+        assert [c.source for c in screen.choices][-2:] == ["own", "own"]
+        assert screen.trial is not None
+        assert screen.trial.site_after.node("rc2").waveform == "F"
+        # the cursor moves to the other change: the trial shown was not of it, so it goes
+        await pilot.press("up")
+        await pilot.pause()
+        assert screen.trial is None and screen.after_rows == []
+        await pilot.press("a")  # nothing tried: nothing to accept
+        await pilot.pause()
+        assert app.screen is screen
+        assert "Try a change first" in str(screen.query_one("#wi-counts", Static).content)
+        await pilot.press("enter")  # tries Type A
+        await settled(app, pilot)
+        assert screen.trial is not None
+        assert screen.trial.site_after.node("rc2").waveform == "A"
+        await pilot.press("a")
+        await settled(app, pilot)
+        assert app.site.node("rc2").waveform == "A"

@@ -90,6 +90,8 @@ class WhatIfScreen(Dialog[Trial | None]):
         self.trial: Trial | None = None
         #: Why the last choice could not be tried ('' when it could).
         self.refused = ""
+        #: The choice the trial shown (or being checked) is of.
+        self.tried: TrialChoice | None = None
         self._gen = 0
         self.busy = ""
 
@@ -197,7 +199,9 @@ class WhatIfScreen(Dialog[Trial | None]):
         """Try one choice on a scratch copy (in a worker); the sides show it when done."""
         self._gen += 1
         self.trial = None
+        self.tried = choice
         self.refused = ""
+        self._fill_sides()
         self._set_busy("checking the change on a scratch copy…")
         self._run(choice, self._gen)
 
@@ -259,15 +263,27 @@ class WhatIfScreen(Dialog[Trial | None]):
         detail = self.query_one("#wi-detail", Static)
         if f is None:
             choice = self.highlighted_choice()
-            detail.update(choice.text if choice is not None else "")
+            if self.trial is not None and self.tried is not None:
+                detail.update(f"Tried: {self.tried.text}")
+            elif choice is not None:
+                detail.update(f"Enter tries: {choice.text}")
+            else:
+                detail.update("")
             return
         detail.update(f"{f.severity} · {f.rule} · {', '.join(f.nodes)}: {f.message}")
 
     @on(DataTable.RowHighlighted, "#wi-choices")
     def _choice_row(self, event: DataTable.RowHighlighted) -> None:
+        """Another choice under the cursor: the trial shown is not of it, so it goes (Accept
+        makes only what is shown); Enter tries the new one."""
         event.stop()
-        if self.trial is None or self.busy:
-            self._show_detail(None)
+        if self.tried is not None and self.highlighted_choice() is not self.tried:
+            self._gen += 1  # a trial still being checked is of the old choice: not shown
+            self.tried = None
+            self.trial = None
+            self._set_busy("")
+            self._fill_sides()
+        self._show_detail(None)
 
     def _set_busy(self, text: str) -> None:
         self.busy = text
@@ -280,10 +296,9 @@ class WhatIfScreen(Dialog[Trial | None]):
 
     # ------------------------------------------------------------ your own change
     def action_own_change(self) -> None:
-        device = self.device
         choice = self.highlighted_choice()
-        if device is None and choice is not None:
-            device = choice.changes[0].node
+        # the device of the change under the cursor, else the one the view is for
+        device = choice.changes[0].node if choice is not None else self.device
         if device is None or not any(n.id == device for n in self.site.nodes):
             self._say("This finding names no device to change.", error=True)
             self.app.bell()
