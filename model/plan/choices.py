@@ -15,6 +15,7 @@ from dataclasses import dataclass
 from typing import Literal
 
 from model.plan.changes import DeviceChange, Plan, finding_key
+from model.plan.trial import field_change_text
 from model.rules.findings import Analysis, Finding
 from model.site.models import SiteFile
 from model.site.terms import OVERCURRENT_KINDS, RCD_KINDS
@@ -40,9 +41,23 @@ class TrialChoice:
         return "; then ".join(dc.text or dc.node for dc in self.changes)
 
     @property
+    def summary(self) -> str:
+        """The changes in short: 'rc2: Type (waveform) AC → A' (what differs, by field)."""
+        return "; ".join(
+            f"{dc.node}: " + ", ".join(field_change_text(fc) for fc in dc.fields)
+            for dc in self.changes
+        )
+
+    @property
     def clears(self) -> int:
         """How many findings the changes are said to clear (each finding once)."""
         return len({k for dc in self.changes for k in dc.clears})
+
+    @property
+    def creates(self) -> int:
+        """How many findings the changes are said to create (each finding once; a trial
+        shows them all)."""
+        return len({k for dc in self.changes for k in dc.creates})
 
 
 def plan_changes_for(plan: Plan, finding: Finding) -> tuple[DeviceChange, ...]:

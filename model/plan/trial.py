@@ -19,7 +19,7 @@ from typing import Any
 
 from pydantic import BaseModel, ValidationError
 
-from model.plan.changes import REMOVED, DeviceChange, FieldChange, FindingDiff, change_ops
+from model.plan.changes import REMOVED, REPLACED, DeviceChange, FieldChange, FindingDiff, change_ops
 from model.plan.changes import diff_findings as _diff
 from model.rules.checks import analyse
 from model.rules.findings import SEVERITIES, Analysis, Finding
@@ -165,6 +165,8 @@ def field_change_text(fc: FieldChange) -> str:
     """One field change in words: 'IΔn 30 → 100', 'Type (waveform) AC → A'."""
     if fc.field == REMOVED:
         return f"remove the {fc.before}"
+    if fc.field == REPLACED:
+        return f"replace like for like ({_shown(fc.before)})"
     return f"{field_title(fc.field)} {_shown(fc.before)} → {_shown(fc.after)}"
 
 

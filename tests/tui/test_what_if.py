@@ -143,9 +143,28 @@ async def test_from_a_finding_opens_on_that_finding_and_its_device(oak_lane: Pat
         # before anything is tried, the before side lists every finding of the site
         assert len(screen.before_rows) == len(app.analysis.findings)  # type: ignore[union-attr]
         assert screen.after_rows == []
+        # first the plan's change for this finding: rc2 from Type AC to Type A
+        # (BS 7671 531.3.3), then the options of rc2, those that clear it first
+        plan = screen.choices[0]
+        assert plan.source == "plan" and plan.clears_target
+        (change,) = plan.changes
+        assert change.node == "rc2"
+        assert {(fc.field, fc.before, fc.after) for fc in change.fields} == {
+            ("waveform", "AC", "A")
+        }
+        assert all(c.source == "option" for c in screen.choices[1:])
+        assert all(c.changes[0].node == "rc2" for c in screen.choices[1:])
+        targets = [c.clears_target for c in screen.choices[1:]]
+        assert targets == sorted(targets, reverse=True)
+        await pilot.press("enter")  # try the plan's change
+        await settled(app, pilot)
+        assert screen.tried is plan and screen.trial is not None
+        assert rows(screen.before_rows)[AC_RULE] == "cleared"
+        assert "NEW" not in rows(screen.after_rows).values()
         await pilot.press("escape")
         await pilot.pause()
         assert isinstance(app.screen, MainScreen)
+        assert app.site.node("rc2").waveform == "AC"  # Escape: nothing changed
 
 
 @pytest.mark.parametrize("key", ["d", "escape"])

@@ -122,6 +122,7 @@ class WhatIfScreen(Dialog[Trial | None]):
         choices = self.query_one("#wi-choices", DataTable)
         choices.add_column("from", key="from", width=6)
         choices.add_column("clears", key="clears", width=6)
+        choices.add_column("new", key="new", width=4)
         choices.add_column("change", key="change", width=400)
         self._fill_sides()
         self._set_busy("finding the changes to try…")
@@ -162,10 +163,15 @@ class WhatIfScreen(Dialog[Trial | None]):
         table.clear()
         for i, c in enumerate(self.choices):
             mark = "✓" if c.clears_target else " "
+            unknown = c.source == "own"  # said once tried
             table.add_row(
                 Text(SOURCE_WORDS[c.source]),
-                Text(f"{mark} {c.clears}" if c.source != "own" else "?"),
-                Text(c.text, no_wrap=True),
+                Text("?" if unknown else f"{mark} {c.clears}"),
+                Text(
+                    "?" if unknown else (f"+{c.creates}" if c.creates else "0"),
+                    style=tone("bold $tw-bad") if c.creates else "",
+                ),
+                Text(c.summary, no_wrap=True),
                 key=str(i),
             )
 
