@@ -363,3 +363,29 @@ async def test_accept_makes_only_the_change_shown(oak_lane: Path) -> None:
         await pilot.press("a")
         await settled(app, pilot)
         assert app.site.node("rc2").waveform == "A"
+
+
+async def test_with_no_current_analysis_the_site_is_checked_first(oak_lane: Path) -> None:
+    from hosting import Host
+
+    from model.plan.choices import choices_for_device
+    from model.rules.checks import analyse
+
+    site = load_site(oak_lane)
+    seen: list[object] = []
+
+    def make(analysis: Any) -> Any:
+        seen.append(analysis)
+        return choices_for_device(site, analysis, "rc2")
+
+    screen = WhatIfScreen(site, None, make, device="rc2")
+    app = Host(screen)
+    async with app.run_test(size=(120, 40)) as pilot:
+        await settled(app, pilot)  # type: ignore[arg-type]
+        expected = analyse(site).findings
+        assert seen and seen[0] is screen.analysis  # checked once, handed to the planner
+        assert [f for _, f in screen.before_rows] == expected
+        assert screen.choices and all(c.changes[0].node == "rc2" for c in screen.choices)
+        await pilot.press("escape")
+        await pilot.pause()
+    assert app.results == [None]  # left without a change

@@ -76,7 +76,7 @@ class WhatIfMixin:
             devices = _finding_devices(site, finding)
             device = devices[0] if devices else None
 
-            def make() -> Any:
+            def make(analysis: Analysis) -> Any:
                 assert finding is not None
                 return choices_for_finding(site, analysis, finding)
         else:
@@ -89,7 +89,7 @@ class WhatIfMixin:
                 )
                 return
 
-            def make() -> Any:
+            def make(analysis: Analysis) -> Any:
                 assert device is not None
                 return choices_for_device(site, analysis, device)
 

@@ -23,6 +23,7 @@ from textual.widgets import DataTable, Static
 from model.plan.changes import PLAN_CAUTION
 from model.plan.choices import TrialChoice
 from model.plan.trial import Trial, TrialRefused, device_name, run_trial
+from model.rules.checks import analyse
 from model.rules.findings import Analysis, Finding
 from model.site.models import SiteFile
 from tui.screens.closing import Dialog
@@ -44,8 +45,9 @@ FULL_CAUTION_WIDTH = 120
 #: Where a choice comes from, as the list shows it.
 SOURCE_WORDS = {"plan": "plan", "option": "option", "own": "yours"}
 
-#: Finds the choices to try (run in a worker: it may take a moment on a large site).
-ChoiceMaker = Callable[[], list[TrialChoice]]
+#: Finds the choices to try from the site's analysis (run in a worker: it may take a
+#: moment on a large site).
+ChoiceMaker = Callable[[Analysis], list[TrialChoice]]
 
 
 def plan_caution_for_width(width: int) -> str:
@@ -135,15 +137,22 @@ class WhatIfScreen(Dialog[Trial | None]):
     # ------------------------------------------------------------ choices
     @work(thread=True, exclusive=True, group="what-if-choices", exit_on_error=False)
     def _load_choices(self) -> None:
+        analysis = self.analysis
         try:
-            result: list[TrialChoice] | str = self._make_choices()
+            if analysis is None:  # the app's last one was of an older site: made afresh
+                analysis = analyse(self.site)
+            result: list[TrialChoice] | str = self._make_choices(analysis)
         except Exception as exc:  # noqa: BLE001 - said on screen, never a traceback
             result = f"the changes to try could not be found: {exc}"
-        self.app.call_from_thread(self._choices_ready, result)
+        self.app.call_from_thread(self._choices_ready, result, analysis)
 
-    def _choices_ready(self, result: list[TrialChoice] | str) -> None:
+    def _choices_ready(self, result: list[TrialChoice] | str, analysis: Analysis | None) -> None:
         if self.dismissed:
             return
+        if self.analysis is None and analysis is not None:
+            self.analysis = analysis
+            if self.trial is None:
+                self._fill_sides()
         if isinstance(result, str):
             self._set_busy("")
             self._say(result)

@@ -56,10 +56,7 @@ def dropped_text(trial: Trial) -> str:
     if not by_device:
         return ""
     said = ", ".join(f"{d} ({n} visit{'s' if n > 1 else ''})" for d, n in by_device.items())
-    return (
-        f"Readings of {said} are not carried to the new device (the site keeps them "
-        "unless you accept). Test it after installation."
-    )
+    return f"Readings of {said} stay with the old device, not the new one."
 
 
 def _cells(f: Finding, status: str) -> tuple[Text, Text]:
@@ -139,8 +136,7 @@ class TrialSides(Vertical):
         created = trial.diff.created if trial is not None else []
         new = self.query_one("#wi-new", Static)
         new.update(
-            f"WARNING: this change CREATES {len(created)} NEW FINDING(S) the site does not "
-            "have now (listed first, marked NEW)."
+            f"WARNING: this change CREATES {len(created)} NEW FINDING(S) (marked NEW, first)"
             if created
             else ""
         )
