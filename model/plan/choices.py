@@ -1,5 +1,9 @@
 """What a "what if" offers to try: the plan's changes and each device's own options.
 
+The plan of the whole site takes far longer than one device's options, so each part is
+offered on its own (``options_for_*``, ``planned_for_*``) for a view that shows the
+options first; ``choices_for_*`` give both, merged.
+
 From a finding: the planned change(s) that clear it (:func:`model.plan.search.make_plan`),
 then the options of each device the finding names (:func:`model.plan.search.device_options`),
 those that clear the finding first.  From a device: the plan's change of that device,
@@ -72,10 +76,11 @@ def finding_devices(site: SiteFile, finding: Finding) -> list[str]:
     return [n for n in finding.nodes if kinds.get(n) in DEVICE_KINDS]
 
 
-def _dedup(choices: Iterable[TrialChoice]) -> list[TrialChoice]:
+def merge_choices(*groups: Iterable[TrialChoice]) -> list[TrialChoice]:
+    """The choices of every group in order, each set of changes once (the first kept)."""
     seen: set[tuple[tuple[str, tuple[tuple[str, str], ...]], ...]] = set()
     out: list[TrialChoice] = []
-    for c in choices:
+    for c in (c for g in groups for c in g):
         key = tuple(
             (dc.node, tuple((fc.field, repr(fc.after)) for fc in dc.fields)) for dc in c.changes
         )
@@ -99,6 +104,34 @@ def _options(
     return out
 
 
+def options_for_finding(
+    site: SiteFile, analysis: Analysis | None, finding: Finding
+) -> list[TrialChoice]:
+    """The options of the devices a finding names, those that clear it first."""
+    return merge_choices(_options(site, analysis, finding_devices(site, finding), finding))
+
+
+def options_for_device(
+    site: SiteFile, analysis: Analysis | None, node_id: str
+) -> list[TrialChoice]:
+    """The options of one device (none for a node that is no device)."""
+    kinds = {n.id: n.kind for n in site.nodes}
+    if kinds.get(node_id) not in DEVICE_KINDS:
+        return []
+    return merge_choices(_options(site, analysis, [node_id], None))
+
+
+def planned_for_finding(plan: Plan, finding: Finding) -> list[TrialChoice]:
+    """The plan's change(s) that clear a finding, as one choice (none when it has none)."""
+    planned = plan_changes_for(plan, finding)
+    return [TrialChoice("plan", planned, clears_target=True)] if planned else []
+
+
+def planned_for_device(plan: Plan, node_id: str) -> list[TrialChoice]:
+    """The plan's change of one device (none when the plan leaves it)."""
+    return [TrialChoice("plan", (dc,)) for dc in plan.changes if dc.node == node_id]
+
+
 def choices_for_finding(
     site: SiteFile, analysis: Analysis | None, finding: Finding, plan: Plan | None = None
 ) -> list[TrialChoice]:
@@ -109,12 +142,9 @@ def choices_for_finding(
 
     if plan is None:
         plan = make_plan(site, analysis)
-    out: list[TrialChoice] = []
-    planned = plan_changes_for(plan, finding)
-    if planned:
-        out.append(TrialChoice("plan", planned, clears_target=True))
-    out.extend(_options(site, analysis, finding_devices(site, finding), finding))
-    return _dedup(out)
+    return merge_choices(
+        planned_for_finding(plan, finding), options_for_finding(site, analysis, finding)
+    )
 
 
 def choices_for_device(
@@ -125,11 +155,9 @@ def choices_for_device(
 
     if plan is None:
         plan = make_plan(site, analysis)
-    out = [TrialChoice("plan", (dc,)) for dc in plan.changes if dc.node == node_id]
-    kinds = {n.id: n.kind for n in site.nodes}
-    if kinds.get(node_id) in DEVICE_KINDS:
-        out.extend(_options(site, analysis, [node_id], None))
-    return _dedup(out)
+    return merge_choices(
+        planned_for_device(plan, node_id), options_for_device(site, analysis, node_id)
+    )
 
 
 __all__ = [
@@ -138,5 +166,10 @@ __all__ = [
     "choices_for_device",
     "choices_for_finding",
     "finding_devices",
+    "merge_choices",
+    "options_for_device",
+    "options_for_finding",
+    "planned_for_device",
+    "planned_for_finding",
     "plan_changes_for",
 ]

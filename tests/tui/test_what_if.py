@@ -389,3 +389,52 @@ async def test_with_no_current_analysis_the_site_is_checked_first(oak_lane: Path
         await pilot.press("escape")
         await pilot.pause()
     assert app.results == [None]  # left without a change
+
+
+async def until(pilot: Any, ready: Any, what: str) -> None:
+    for _ in range(600):
+        if ready():
+            return
+        await pilot.pause(0.05)
+    raise AssertionError(f"timed out waiting for {what}")
+
+
+async def test_the_plan_arrives_after_the_options_and_keeps_the_trial(oak_lane: Path) -> None:
+    import threading
+
+    from hosting import Host
+
+    from model.plan.choices import options_for_device, planned_for_device
+    from model.plan.search import make_plan
+
+    site = load_site(oak_lane)
+    release = threading.Event()
+
+    def planned(analysis: Any) -> Any:
+        release.wait(60)
+        return planned_for_device(make_plan(site, analysis), "rc2")
+
+    screen = WhatIfScreen(
+        site, None, lambda a: options_for_device(site, a, "rc2"), planned, device="rc2"
+    )
+    app = Host(screen)
+    async with app.run_test(size=(120, 40)) as pilot:
+        await until(pilot, lambda: screen.choices, "the options")
+        assert screen.planning
+        assert "making the plan" in str(screen.query_one("#wi-title", Static).content)
+        assert all(c.source == "option" for c in screen.choices)
+        await pilot.press("down", "enter")  # try the second option meanwhile
+        await until(pilot, lambda: screen.trial is not None, "the trial")
+        tried = screen.tried
+        assert tried is not None and tried.summary == screen.choices[1].summary
+        release.set()
+        await until(pilot, lambda: not screen.planning, "the plan")
+        await pilot.pause()
+        # the plan's change of rc2 (Type AC to Type A, BS 7671 531.3.3) comes first now
+        assert screen.choices[0].source == "plan"
+        assert screen.choices[0].summary == "rc2: Type (waveform) AC → A"
+        # the trial shown is still of the change under the cursor
+        assert screen.trial is not None and screen.tried is not None
+        assert screen.tried.summary == tried.summary
+        assert screen.highlighted_choice() is screen.tried
+        await pilot.press("escape")

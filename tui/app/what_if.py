@@ -8,11 +8,18 @@ site, through the editing session, with the very ops the trial was checked with.
 from __future__ import annotations
 
 import contextlib
-from typing import Any
 
-from model.plan.changes import REMOVED
-from model.plan.choices import DEVICE_KINDS, choices_for_device, choices_for_finding
+from model.plan.changes import REMOVED, Plan
+from model.plan.choices import (
+    DEVICE_KINDS,
+    TrialChoice,
+    options_for_device,
+    options_for_finding,
+    planned_for_device,
+    planned_for_finding,
+)
 from model.plan.choices import finding_devices as _finding_devices
+from model.plan.search import make_plan
 from model.plan.trial import Trial
 from model.rules.findings import Analysis, Finding
 from model.site import ops
@@ -46,6 +53,8 @@ class WhatIfMixin:
 
     session: EditSession | None
     analysis: Analysis | None
+    #: The last plan made, with the site it is of.
+    _plan_kept: tuple[SiteFile, Plan] | None = None
 
     def _current_analysis(self) -> Analysis | None:
         """The last analysis when it is of the site as it is now (else None: made afresh)."""
@@ -53,6 +62,16 @@ class WhatIfMixin:
         if a is None or a.index is None or a.index.site is not self.site:
             return None
         return a
+
+    def _plan_of(self, site: SiteFile, analysis: Analysis) -> Plan:
+        """The plan of ``site``: made once for each state of the site (it is the slow part),
+        kept until the site changes.  Runs in the view's worker."""
+        kept = self._plan_kept
+        if kept is not None and kept[0] is site:
+            return kept[1]
+        plan = make_plan(site, analysis)
+        self._plan_kept = (site, plan)
+        return plan
 
     def _finding_under_cursor(self) -> Finding | None:
         panel = self.main.findings
@@ -76,9 +95,13 @@ class WhatIfMixin:
             devices = _finding_devices(site, finding)
             device = devices[0] if devices else None
 
-            def make(analysis: Analysis) -> Any:
+            def options(analysis: Analysis) -> list[TrialChoice]:
                 assert finding is not None
-                return choices_for_finding(site, analysis, finding)
+                return options_for_finding(site, analysis, finding)
+
+            def planned(analysis: Analysis) -> list[TrialChoice]:
+                assert finding is not None
+                return planned_for_finding(self._plan_of(site, analysis), finding)
         else:
             device = self.main.tree.selected_id()
             kind = self.index.kind(device) if device is not None else None
@@ -89,9 +112,13 @@ class WhatIfMixin:
                 )
                 return
 
-            def make(analysis: Analysis) -> Any:
+            def options(analysis: Analysis) -> list[TrialChoice]:
                 assert device is not None
-                return choices_for_device(site, analysis, device)
+                return options_for_device(site, analysis, device)
+
+            def planned(analysis: Analysis) -> list[TrialChoice]:
+                assert device is not None
+                return planned_for_device(self._plan_of(site, analysis), device)
 
         def done(trial: Trial | None) -> None:
             self._accept_trial(site, trial)
@@ -100,7 +127,8 @@ class WhatIfMixin:
             WhatIfScreen(
                 site,
                 analysis,
-                make,
+                options,
+                planned,
                 finding=finding,
                 device=device,
                 read_only=self.session.read_only,

@@ -21,7 +21,7 @@ from textual.containers import Vertical
 from textual.widgets import DataTable, Static
 
 from model.plan.changes import PLAN_CAUTION
-from model.plan.choices import TrialChoice
+from model.plan.choices import TrialChoice, merge_choices
 from model.plan.trial import Trial, TrialRefused, device_name, run_trial
 from model.rules.checks import analyse
 from model.rules.findings import Analysis, Finding
@@ -72,7 +72,8 @@ class WhatIfScreen(Dialog[Trial | None]):
         self,
         site: SiteFile,
         analysis: Analysis | None,
-        make_choices: ChoiceMaker,
+        make_options: ChoiceMaker,
+        make_planned: ChoiceMaker | None = None,
         *,
         finding: Finding | None = None,
         device: str | None = None,
@@ -86,7 +87,10 @@ class WhatIfScreen(Dialog[Trial | None]):
         #: the first device the finding names).
         self.device = device
         self.read_only = read_only
-        self._make_choices = make_choices
+        self._make_options = make_options
+        self._make_planned = make_planned
+        #: True while the plan of the whole site is being made (its change is added then).
+        self.planning = False
         self.choices: list[TrialChoice] = []
         #: The trial shown now (None while none is chosen or while it is checked).
         self.trial: Trial | None = None
@@ -141,7 +145,7 @@ class WhatIfScreen(Dialog[Trial | None]):
         try:
             if analysis is None:  # the app's last one was of an older site: made afresh
                 analysis = analyse(self.site)
-            result: list[TrialChoice] | str = self._make_choices(analysis)
+            result: list[TrialChoice] | str = self._make_options(analysis)
         except Exception as exc:  # noqa: BLE001 - said on screen, never a traceback
             result = f"the changes to try could not be found: {exc}"
         self.app.call_from_thread(self._choices_ready, result, analysis)
@@ -153,21 +157,57 @@ class WhatIfScreen(Dialog[Trial | None]):
             self.analysis = analysis
             if self.trial is None:
                 self._fill_sides()
+        if analysis is not None and self._make_planned is not None:
+            self.planning = True
+            self._show_title()
+            self._load_plan(analysis)
         if isinstance(result, str):
             self._set_busy("")
             self._say(result)
             return
-        self.choices = list(result)
+        self.choices = merge_choices(self.choices, result)
         self._show_choices()
         self._set_busy("")
-        if not self.choices:
+        if not self.choices and not self.planning:
             self._say(
                 "No standard change of a device clears this; press e for a change of your own."
                 if self.device is not None
                 else "No device change to try: this finding names no device that can be changed."
             )
 
-    def _show_choices(self) -> None:
+    @work(thread=True, exclusive=True, group="what-if-plan", exit_on_error=False)
+    def _load_plan(self, analysis: Analysis) -> None:
+        assert self._make_planned is not None
+        try:
+            result: list[TrialChoice] | str = self._make_planned(analysis)
+        except Exception as exc:  # noqa: BLE001 - said on screen, never a traceback
+            result = f"the plan could not be made: {exc}"
+        self.app.call_from_thread(self._planned_ready, result)
+
+    def _planned_ready(self, result: list[TrialChoice] | str) -> None:
+        """The plan's change arrives after the options: put it first, keep the cursor on
+        the choice it was on (a trial shown stays shown)."""
+        if self.dismissed:
+            return
+        self.planning = False
+        self._show_title(None if isinstance(result, str) else len(result))
+        if isinstance(result, str):
+            self._say(result, error=True)
+            return
+        here = self.highlighted_choice()
+        self.choices = merge_choices(result, self.choices)
+        self._show_choices(keep=here)
+
+    def _show_title(self, planned: int | None = 0) -> None:
+        title, _ = self._subject()
+        text = Text(title, style="bold")
+        if self.planning:
+            text.append("  · making the plan of the whole site…", style=tone("$tw-muted"))
+        elif planned is None:
+            text.append("  · no plan", style=tone("$tw-muted"))
+        self.query_one("#wi-title", Static).update(text)
+
+    def _show_choices(self, keep: TrialChoice | None = None) -> None:
         table = self.query_one("#wi-choices", DataTable)
         table.clear()
         for i, c in enumerate(self.choices):
@@ -183,6 +223,15 @@ class WhatIfScreen(Dialog[Trial | None]):
                 Text(c.summary, no_wrap=True),
                 key=str(i),
             )
+        if keep is None:
+            return
+        same = [i for i, c in enumerate(self.choices) if c is keep] or [
+            i for i, c in enumerate(self.choices) if c.summary == keep.summary
+        ]
+        if same:
+            if self.tried is keep:
+                self.tried = self.choices[same[0]]  # the same changes, now from the plan
+            table.move_cursor(row=same[0])
 
     def add_choice(self, choice: TrialChoice) -> None:
         """Add a choice (a change of your own) at the end, highlight and try it."""
