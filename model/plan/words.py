@@ -49,13 +49,28 @@ LEFT_REASONS: dict[str, str] = {
     "settle this range; enter the maker's selectivity table or curves",
 }
 
+#: What a finding a device could clear needs instead, where no catalogue change clears it
+#: without creating another one.
+DESIGN_REASONS: dict[str, str] = {
+    "leakage.over-30pct": "needs the circuits split over more RCDs (a board change), or the "
+    "standing leakage found and reduced (BS 7671 531.3.2)",
+    "resilience.lighting-single-rcd": "needs a lighting circuit moved to an RCD or RCBO not "
+    "behind this device (a board change, BS 7671 314.1)",
+    "coverage.no-overcurrent": "needs an overcurrent device added on the supply side of the "
+    "RCCB or in each circuit it feeds (IEC 61008-1)",
+}
+
 #: Said of a finding no catalogue change clears without creating another one.
 NO_CHANGE_REASON = (
     "no change from the catalogue clears it without creating another finding; "
     "it needs a design decision"
 )
 #: Said of a finding the changes of the plan would have to leave to the network operator.
-CUTOUT_REASON = "the supply's cut-out fuse belongs to the network operator; ask them"
+CUTOUT_REASON = (
+    "the upstream device is the supply's cut-out fuse, which belongs to the network operator "
+    "(ask them about its rating); no change of the device below clears it without creating "
+    "another finding"
+)
 
 
 def _name(node: Any) -> str:
@@ -69,7 +84,7 @@ def _rating(node: Any) -> str:
     if node.kind in ("rccb", "rcbo", "srcd", "prcd", "cbr"):
         parts.append(device_text(node))
     if node.kind in ("mcb", "rcbo", "fuse"):
-        parts.append(device_name(node).removesuffix(" RCBO"))
+        parts.append(_oc_name(node.kind, getattr(node, "curve", None), node.rated_a, node))
     ka = getattr(node, "breaking_ka", None)
     if ka is not None:
         parts.append(f"{ka:g} kA")
@@ -83,11 +98,22 @@ def _new_rcd(values: dict[str, Any], node: Any, kind: str) -> str:
     words = f"{idn:g} mA Type {wf}"
     if delay == "S":
         words += " type S"
+    elif delay == "set":
+        words += " (the same delay setting)"
     words += f" {KIND_WORDS[kind]}"
     if kind in ("rcbo",):
-        curve = values.get("curve", node.curve) or "?"
-        words += f" {curve}{values.get('rated_a', node.rated_a):g}"
+        curve = values.get("curve", node.curve)
+        words += " " + _oc_name("rcbo", curve, values.get("rated_a", node.rated_a), node)
     return words
+
+
+def _oc_name(kind: str, curve: str | None, rated_a: float | None, node: Any) -> str:
+    """'B32'; a breaker of unknown curve 'In 32 A'; a fuse 'gG 32 A'."""
+    if kind == "fuse":
+        return device_name(node)
+    if rated_a is None:
+        return curve or "rating not recorded"
+    return f"{curve}{rated_a:g}" if curve else f"In {rated_a:g} A"
 
 
 def change_text(node: Any, choice: Choice, above: Any | None = None) -> str:
@@ -117,14 +143,22 @@ def change_text(node: Any, choice: Choice, above: Any | None = None) -> str:
             f"replace {name} {rating} with a gG {values['rated_a']:g} A fuse-link "
             "(check the cable it protects: In no more than Iz, BS 7671 433.1)"
         )
-    curve = values.get("curve", getattr(node, "curve", None)) or "?"
+    curve = values.get("curve", getattr(node, "curve", None))
     rated = values.get("rated_a", node.rated_a)
+    new = _oc_name("mcb", curve, rated, node)
     check = (
         "check the cable it protects: In no more than Iz, BS 7671 433.1"
         if "rated_a" in values
         else "check Zs and inrush against the new curve, BS 7671 411.4.4"
     )
-    return f"replace {name} {rating} with a {curve}{rated:g} ({check})"
+    return f"replace {name} {rating} with a {new} ({check})"
 
 
-__all__ = ["CUTOUT_REASON", "KIND_WORDS", "LEFT_REASONS", "NO_CHANGE_REASON", "change_text"]
+__all__ = [
+    "CUTOUT_REASON",
+    "DESIGN_REASONS",
+    "KIND_WORDS",
+    "LEFT_REASONS",
+    "NO_CHANGE_REASON",
+    "change_text",
+]
