@@ -20,39 +20,23 @@ from textual.binding import Binding
 from textual.containers import Vertical
 from textual.widgets import DataTable, Static
 
-from model.plan.changes import PLAN_CAUTION
 from model.plan.choices import TrialChoice, merge_choices
 from model.plan.trial import Trial, TrialRefused, device_name, run_trial
 from model.rules.checks import analyse
 from model.rules.findings import Analysis, Finding
 from model.site.models import SiteFile
+from tui.format import PLAN_CAUTION_SHORT, plan_caution_for_width
 from tui.screens.closing import Dialog
 from tui.screens.confirm import ConfirmScreen
 from tui.screens.what_if_form import ScratchNodeForm
 from tui.themes import tone
 from tui.widgets.caution_bar import CautionBar
 from tui.widgets.key_bar import KeyBar
-from tui.widgets.trial_sides import TrialSides, counts_text
-
-#: The plan caution where the full text would take too many lines (it keeps every duty).
-PLAN_CAUTION_SHORT = (
-    "A plan supports, never replaces, a competent person's design to local rules: check "
-    "each change, isolate and prove dead, test every changed device after installation."
-)
-#: Screen width from which the full plan caution is shown.
-FULL_CAUTION_WIDTH = 120
-
-#: Where a choice comes from, as the list shows it.
-SOURCE_WORDS = {"plan": "plan", "option": "option", "own": "yours"}
+from tui.widgets.trial_sides import TrialSides, choice_cells, counts_text, created_question
 
 #: Finds the choices to try from the site's analysis (run in a worker: it may take a
 #: moment on a large site).
 ChoiceMaker = Callable[[Analysis], list[TrialChoice]]
-
-
-def plan_caution_for_width(width: int) -> str:
-    """The full plan caution on a wide screen, its short form on a narrow one."""
-    return PLAN_CAUTION if width >= FULL_CAUTION_WIDTH else PLAN_CAUTION_SHORT
 
 
 class WhatIfScreen(Dialog[Trial | None]):
@@ -211,18 +195,7 @@ class WhatIfScreen(Dialog[Trial | None]):
         table = self.query_one("#wi-choices", DataTable)
         table.clear()
         for i, c in enumerate(self.choices):
-            mark = "✓" if c.clears_target else " "
-            unknown = c.source == "own"  # said once tried
-            table.add_row(
-                Text(SOURCE_WORDS[c.source]),
-                Text("?" if unknown else f"{mark} {c.clears}"),
-                Text(
-                    "?" if unknown else (f"+{c.creates}" if c.creates else "0"),
-                    style=tone("bold $tw-bad") if c.creates else "",
-                ),
-                Text(c.summary, no_wrap=True),
-                key=str(i),
-            )
+            table.add_row(*choice_cells(c), key=str(i))
         if keep is None:
             return
         same = [i for i, c in enumerate(self.choices) if c is keep] or [
@@ -393,7 +366,6 @@ class WhatIfScreen(Dialog[Trial | None]):
         if not trial.creates:
             self.dismiss(trial)
             return
-        n = len(trial.diff.created)
 
         def answered(yes: bool | None) -> None:
             if yes:
@@ -402,10 +374,7 @@ class WhatIfScreen(Dialog[Trial | None]):
         self.app.push_screen(
             ConfirmScreen(
                 "This change creates new findings",
-                f"{n} finding(s) the site does not have now would appear:\n"
-                + "\n".join(f"- {f.severity}: {f.message}" for f in trial.diff.created[:5])
-                + ("\n…" if n > 5 else "")
-                + "\n\nAccept it into the site anyway?",
+                created_question(trial),
                 yes="Accept anyway",
                 no="Back",
             ),
@@ -416,4 +385,4 @@ class WhatIfScreen(Dialog[Trial | None]):
         self.dismiss(None)
 
 
-__all__ = ["WhatIfScreen", "counts_text", "plan_caution_for_width"]
+__all__ = ["WhatIfScreen"]

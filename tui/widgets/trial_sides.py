@@ -18,6 +18,7 @@ from textual.containers import Horizontal, Vertical
 from textual.message import Message
 from textual.widgets import DataTable, Static
 
+from model.plan.choices import TrialChoice
 from model.plan.trial import Trial
 from model.rules.findings import SEVERITIES, Finding
 from tui.format import SEVERITY_MARK
@@ -57,6 +58,38 @@ def dropped_text(trial: Trial) -> str:
         return ""
     said = ", ".join(f"{d} ({n} visit{'s' if n > 1 else ''})" for d, n in by_device.items())
     return f"Readings of {said} stay with the old device, not the new one."
+
+
+#: Where a choice comes from, as the list shows it.
+SOURCE_WORDS = {"plan": "plan", "option": "option", "own": "yours"}
+
+
+def choice_cells(c: TrialChoice) -> tuple[Text, Text, Text, Text]:
+    """A row of the list of choices: from, clears (✓ when it clears the finding the view
+    is for), new (findings it creates), the change in short.  A change of your own says
+    '?' until it is tried."""
+    unknown = c.source == "own"
+    mark = "✓" if c.clears_target else " "
+    return (
+        Text(SOURCE_WORDS[c.source]),
+        Text("?" if unknown else f"{mark} {c.clears}"),
+        Text(
+            "?" if unknown else (f"+{c.creates}" if c.creates else "0"),
+            style=tone("bold $tw-bad") if c.creates else "",
+        ),
+        Text(c.summary, no_wrap=True),
+    )
+
+
+def created_question(trial: Trial) -> str:
+    """The question before accepting a change that creates findings, naming them."""
+    n = len(trial.diff.created)
+    return (
+        f"{n} finding(s) the site does not have now would appear:\n"
+        + "\n".join(f"- {f.severity}: {f.message}" for f in trial.diff.created[:5])
+        + ("\n…" if n > 5 else "")
+        + "\n\nAccept it into the site anyway?"
+    )
 
 
 def _cells(f: Finding, status: str) -> tuple[Text, Text]:
