@@ -58,6 +58,9 @@ DESIGN_REASONS: dict[str, str] = {
     "behind this device (a board change, BS 7671 314.1)",
     "coverage.no-overcurrent": "needs an overcurrent device added on the supply side of the "
     "RCCB or in each circuit it feeds (IEC 61008-1)",
+    "overcurrent.not-selective": "no larger upstream rating (up to two steps) or slower curve "
+    "clears it without another finding: it needs the makers' selectivity tables or a "
+    "different arrangement (BS 7671 536.4.1.2)",
 }
 
 #: Said of a finding no catalogue change clears without creating another one.
