@@ -143,6 +143,8 @@ async def test_from_a_finding_opens_on_that_finding_and_its_device(oak_lane: Pat
         # before anything is tried, the before side lists every finding of the site
         assert len(screen.before_rows) == len(app.analysis.findings)  # type: ignore[union-attr]
         assert screen.after_rows == []
+        counts = str(screen.query_one("#wi-counts", Static).content)
+        assert "required 4" in counts and "finding the changes" not in counts
         # first the plan's change for this finding: rc2 from Type AC to Type A
         # (BS 7671 531.3.3), then the options of rc2, those that clear it first
         plan = screen.choices[0]
@@ -438,3 +440,29 @@ async def test_the_plan_arrives_after_the_options_and_keeps_the_trial(oak_lane: 
         assert screen.tried.summary == tried.summary
         assert screen.highlighted_choice() is screen.tried
         await pilot.press("escape")
+
+
+async def test_a_change_the_site_refuses_is_said_and_cannot_be_accepted(oak_lane: Path) -> None:
+    from hosting import Host
+
+    from model.plan.changes import DeviceChange, FieldChange
+    from model.plan.choices import TrialChoice
+
+    site = load_site(oak_lane)
+    bad = DeviceChange("rc2", (FieldChange("rc2", "idn_ma", 30.0, -5.0),), text="rc2 to -5 mA")
+    screen = WhatIfScreen(site, None, lambda a: [TrialChoice("option", (bad,))], device="rc2")
+    app = Host(screen)
+    async with app.run_test(size=(120, 40)) as pilot:
+        await settled(app, pilot)  # type: ignore[arg-type]
+        await pilot.press("enter")
+        await settled(app, pilot)  # type: ignore[arg-type]
+        said = str(screen.query_one("#wi-counts", Static).content)
+        # the site format's own bounds for IΔn, said with the field's title
+        assert "cannot be made" in said and "IΔn -5.0 is outside 6 to 30000 mA" in said
+        assert screen.trial is None and screen.after_rows == []
+        await pilot.press("a")
+        await pilot.pause()
+        assert app.results == []  # nothing to accept: still open
+        await pilot.press("escape")
+        await pilot.pause()
+    assert app.results == [None]

@@ -39,6 +39,10 @@ from tui.widgets.trial_sides import TrialSides, choice_cells, counts_text, creat
 ChoiceMaker = Callable[[Analysis], list[TrialChoice]]
 
 
+#: Said while the options are found (the first list the view shows).
+FINDING = "finding the changes to try…"
+
+
 class WhatIfScreen(Dialog[Trial | None]):
     """Try changes on a scratch copy; dismisses with the trial to accept, or None."""
 
@@ -78,8 +82,6 @@ class WhatIfScreen(Dialog[Trial | None]):
         self.choices: list[TrialChoice] = []
         #: The trial shown now (None while none is chosen or while it is checked).
         self.trial: Trial | None = None
-        #: Why the last choice could not be tried ('' when it could).
-        self.refused = ""
         #: The choice the trial shown (or being checked) is of.
         self.tried: TrialChoice | None = None
         self._gen = 0
@@ -99,7 +101,7 @@ class WhatIfScreen(Dialog[Trial | None]):
         title, subject = self._subject()
         with Vertical(id="wi-box"):
             yield Static(Text(title, style="bold"), id="wi-title", markup=False)
-            yield Static(subject, id="wi-subject", markup=False)
+            yield Static(subject, id="wi-subject", markup=False).set_class(not subject, "-empty")
             yield DataTable(id="wi-choices", cursor_type="row", zebra_stripes=True)
             yield Static("", id="wi-counts", markup=False)
             yield TrialSides(id="wi-trial")
@@ -115,7 +117,7 @@ class WhatIfScreen(Dialog[Trial | None]):
         choices.add_column("new", key="new", width=4)
         choices.add_column("change", key="change", width=400)
         self._fill_sides()
-        self._set_busy("finding the changes to try…")
+        self._set_busy(FINDING)
         choices.focus()
         self._load_choices()
 
@@ -146,12 +148,14 @@ class WhatIfScreen(Dialog[Trial | None]):
             self._show_title()
             self._load_plan(analysis)
         if isinstance(result, str):
-            self._set_busy("")
+            if self.busy == FINDING:
+                self._set_busy("")
             self._say(result)
             return
         self.choices = merge_choices(self.choices, result)
         self._show_choices()
-        self._set_busy("")
+        if self.busy == FINDING:  # (a trial being checked meanwhile still is)
+            self._set_busy("")
         if not self.choices and not self.planning:
             self._say(
                 "No standard change of a device clears this; press e for a change of your own."
@@ -237,7 +241,6 @@ class WhatIfScreen(Dialog[Trial | None]):
         self._gen += 1
         self.trial = None
         self.tried = choice
-        self.refused = ""
         self._fill_sides()
         self._set_busy("checking the change on a scratch copy…")
         self._run(choice, self._gen)
@@ -257,7 +260,6 @@ class WhatIfScreen(Dialog[Trial | None]):
             return  # another choice was tried since
         self._set_busy("")
         if isinstance(result, str):
-            self.refused = result
             self.trial = None
             self._fill_sides()
             self._say(result, error=True)
@@ -323,9 +325,14 @@ class WhatIfScreen(Dialog[Trial | None]):
         self._show_detail(None)
 
     def _set_busy(self, text: str) -> None:
-        self.busy = text
+        """Say what is being worked on; with '' the counts are shown again."""
+        was, self.busy = self.busy, text
         if text:
             self._say(text)
+        elif was:
+            self.query_one("#wi-counts", Static).update(
+                counts_text(self.trial, self._before_findings())
+            )
 
     def _say(self, text: str, *, error: bool = False) -> None:
         counts = self.query_one("#wi-counts", Static)
