@@ -4,6 +4,7 @@ from __future__ import annotations
 
 from typing import Any
 
+from model.plan.changes import PLAN_CAUTION
 from model.rules.findings import CAUTION
 from model.site.terms import RCD_KINDS
 
@@ -54,6 +55,21 @@ CAUTION_TINY = "Aid to judgement only; follow local rules. Not a certificate."
 LIVE_TEST_CAUTION = (
     "Live test: warn occupants, keep clear of exposed metalwork; competent persons only."
 )
+
+
+#: The plan caution (``model.plan.changes.PLAN_CAUTION``) where the full text would take
+#: too many lines: it keeps every duty of the full one.
+PLAN_CAUTION_SHORT = (
+    "A plan supports, never replaces, a competent person's design to local rules: check "
+    "each change, isolate and prove dead, test every changed device after installation."
+)
+#: Screen width from which the full plan caution is shown.
+FULL_PLAN_CAUTION_WIDTH = 120
+
+
+def plan_caution_for_width(width: int) -> str:
+    """The full plan caution on a wide screen, its short form on a narrow one."""
+    return PLAN_CAUTION if width >= FULL_PLAN_CAUTION_WIDTH else PLAN_CAUTION_SHORT
 
 
 def caution_for_width(width: int) -> str:

@@ -28,6 +28,8 @@ from tui.screens.path_prompt import PathPromptScreen
 from tui.screens.readings import ReadingScreen
 from tui.screens.site_details import SiteDetailsScreen
 from tui.screens.visits import VisitsScreen
+from tui.screens.what_if import WhatIfScreen
+from tui.screens.what_if_form import ScratchNodeForm
 from tui.widgets.findings_panel import FindingsTable
 
 README = Path(__file__).resolve().parents[2] / "README.md"
@@ -307,6 +309,74 @@ async def _back(app: TripwiseApp, pilot: Any, key: str) -> None:
     assert isinstance(app.screen, MainScreen)
 
 
+async def _what_if(app: TripwiseApp, pilot: Any, *, own: bool = True) -> WhatIfScreen:
+    """The what-if view on rc2, with a change of your own (Type A) tried."""
+    app.main.select("rc2")
+    app.main.focus_tree()
+    await pilot.press("w")
+    await app.workers.wait_for_complete()
+    await pilot.pause()
+    screen = app.screen
+    assert isinstance(screen, WhatIfScreen)
+    if own:
+        await pilot.press("e")
+        form = app.screen
+        assert isinstance(form, ScratchNodeForm)
+        form.query_one("#f-waveform").focus()
+        await pilot.press("a", "ctrl+s")
+        await app.workers.wait_for_complete()
+        await pilot.pause()
+        assert screen.trial is not None
+    return screen
+
+
+async def _what_if_finding(app: TripwiseApp, pilot: Any, key: str) -> None:
+    app.main.focus_findings()
+    first = app.main.findings.shown[0]
+    await pilot.press(key)
+    await pilot.pause()
+    screen = app.screen
+    assert isinstance(screen, WhatIfScreen)
+    assert screen.finding == first
+    await pilot.press("escape")
+
+
+async def _what_if_try(app: TripwiseApp, pilot: Any, key: str) -> None:
+    screen = await _what_if(app, pilot)
+    screen.trial = None
+    screen.query_one("#wi-choices").focus()
+    await pilot.press(key)
+    await app.workers.wait_for_complete()
+    await pilot.pause()
+    assert screen.trial is not None  # tried again
+    await pilot.press("escape")
+
+
+async def _what_if_own(app: TripwiseApp, pilot: Any, key: str) -> None:
+    await _what_if(app, pilot, own=False)
+    await pilot.press(key)
+    assert isinstance(app.screen, ScratchNodeForm)
+    await pilot.press("escape", "escape")
+
+
+async def _what_if_accept(app: TripwiseApp, pilot: Any, key: str) -> None:
+    await _what_if(app, pilot)
+    await pilot.press(key)
+    await pilot.pause()
+    assert isinstance(app.screen, MainScreen)
+    assert app.site.node("rc2").waveform == "A"
+    await pilot.press("u")
+    assert app.site.node("rc2").waveform == "AC"
+
+
+async def _what_if_drop(app: TripwiseApp, pilot: Any, key: str) -> None:
+    await _what_if(app, pilot)
+    await pilot.press(key)
+    await pilot.pause()
+    assert isinstance(app.screen, MainScreen)
+    assert app.site.node("rc2").waveform == "AC"
+
+
 def _const(check: Check) -> Callable[[str], Check]:
     return lambda _key: check
 
@@ -336,6 +406,13 @@ CHECKS: dict[tuple[str, str], Callable[[str], Check]] = {
     ("tree", "r"): opens(ReadingScreen),
     ("tree", "i"): opens(ImpactScreen),
     ("tree", "p"): opens(PairScreen, "rb1"),
+    ("tree", "w"): opens(WhatIfScreen, "rc2"),
+    ("findings", "w"): lambda k: lambda a, p: _what_if_finding(a, p, k),
+    ("what if", "enter"): lambda k: lambda a, p: _what_if_try(a, p, k),
+    ("what if", "e"): lambda k: lambda a, p: _what_if_own(a, p, k),
+    ("what if", "a"): lambda k: lambda a, p: _what_if_accept(a, p, k),
+    ("what if", "d"): lambda k: lambda a, p: _what_if_drop(a, p, k),
+    ("what if", "esc"): lambda k: lambda a, p: _what_if_drop(a, p, k),
     ("findings", "enter"): lambda k: lambda a, p: _jump(a, p, k),
     ("findings", "1"): _const(_filter("severity")),
     ("findings", "2"): _const(_filter("board")),

@@ -6,7 +6,8 @@ tests both use it.  This module holds the app's frame: its keys, start-up
 rest of the app is made of parts, one module each: saving
 (:mod:`tui.app.autosave`), the checks in the background (:mod:`tui.app.analysis`),
 changes and undo (:mod:`tui.app.edits`), the tree's actions
-(:mod:`tui.app.node_actions`) and the other screens (:mod:`tui.app.dialogs`).
+(:mod:`tui.app.node_actions`), trying a change on a scratch copy
+(:mod:`tui.app.what_if`) and the other screens (:mod:`tui.app.dialogs`).
 """
 
 from __future__ import annotations
@@ -32,6 +33,7 @@ from tui.app.edits import EditsMixin
 from tui.app.looks import LooksMixin
 from tui.app.node_actions import NodeActionsMixin
 from tui.app.safe_display import show_controls_visibly
+from tui.app.what_if import WhatIfMixin
 from tui.screens.closing import KeyGate
 from tui.screens.confirm import ConfirmScreen
 from tui.screens.main import MainScreen
@@ -41,6 +43,7 @@ from tui.screens.readings import ReadingScreen
 class TripwiseApp(
     CommandsMixin,
     NodeActionsMixin,
+    WhatIfMixin,
     DialogActionsMixin,
     EditsMixin,
     AutosaveMixin,

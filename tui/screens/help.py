@@ -47,6 +47,7 @@ def _classes() -> list[tuple[str, type]]:
     from tui.app.shell import TripwiseApp
     from tui.screens.node_editor import NodeEditorScreen
     from tui.screens.readings import ReadingScreen
+    from tui.screens.what_if import WhatIfScreen
     from tui.widgets.choice_row import ChoiceRow
     from tui.widgets.findings_panel import FindingsTable
     from tui.widgets.site_tree import SiteTree
@@ -58,6 +59,7 @@ def _classes() -> list[tuple[str, type]]:
         ("form", NodeEditorScreen),
         ("form", ChoiceRow),
         ("readings", ReadingScreen),
+        ("what if", WhatIfScreen),
     ]
 
 

@@ -32,6 +32,7 @@ class FindingsTable(DataTable[Text]):
         Binding("1", "filter('severity')", "Severity filter"),
         Binding("exclamation_mark", "filter('or-worse')", "Only / or worse"),
         Binding("2", "filter('board')", "Board filter"),
+        Binding("w", "app.what_if", "What if", tooltip="try a change that clears this finding"),
     ]
 
     def _panel(self) -> FindingsPanel | None:

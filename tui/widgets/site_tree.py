@@ -25,6 +25,7 @@ class SiteTree(Tree[str]):
         Binding("r", "app.readings", "Readings"),
         Binding("i", "app.impact", "Impact"),
         Binding("p", "app.pair", "Pair"),
+        Binding("w", "app.what_if", "What if", tooltip="try a change of this device on a copy"),
     ]
 
     def __init__(self, *, id: str | None = None) -> None:
