@@ -18,17 +18,26 @@ the nodes it names (message texts may change with the data; the key does not).
 
 from __future__ import annotations
 
+import json
 from collections.abc import Iterable, Sequence
 from dataclasses import dataclass, field
 from typing import Any
 
 from pydantic import ValidationError
 
-from model.rules.findings import Finding
+from model.rules.findings import Finding, device_text
 from model.site.messages import describe_validation_error
 from model.site.models import SiteFile
 from model.site.nodes import NODE_CLASSES, Node
-from model.site.ops import DeleteNodes, InvalidEdit, Op, SetReading, UpsertNode, apply_op
+from model.site.ops import (
+    DeleteNodes,
+    InvalidEdit,
+    Op,
+    SetReading,
+    UpsertNode,
+    UpsertVisit,
+    apply_op,
+)
 from model.site.terms import RCD_KINDS
 
 #: ``field`` of a :class:`FieldChange` that removes the device (its children move up
@@ -120,7 +129,9 @@ PLAN_CAUTION = (
 )
 
 
-def change_ops(site: SiteFile, changes: Sequence[DeviceChange]) -> list[Op]:
+def change_ops(
+    site: SiteFile, changes: Sequence[DeviceChange], *, record: str | None = None
+) -> list[Op]:
     """The site's own edit ops that make ``changes`` (in order) on ``site``.
 
     A field change sets the field on the node (a ``kind`` change makes the node
@@ -128,7 +139,11 @@ def change_ops(site: SiteFile, changes: Sequence[DeviceChange]) -> list[Op]:
     given, and only the fields the new kind has); a like-for-like replacement
     (:data:`REPLACED`) changes no field; a removal moves the node's children to its parent and deletes it.
     Readings of a changed residual-current device are removed (they were taken
-    of the device that is being replaced).  Raises :class:`InvalidEdit` (one
+    of the device that is being replaced).  ``record``: when the change is made
+    on the site itself (the time, in words), each visit that held such readings
+    keeps them in its notes, as text, with the old device's rating (an
+    outstanding failure never leaves the record); without it (a scratch copy,
+    the planner's search) they are only removed.  Raises :class:`InvalidEdit` (one
     line, naming the device) for an unknown node or a device the change would
     make invalid; an invalid site is refused by :func:`model.site.ops.apply_op`.
     """
@@ -168,7 +183,43 @@ def change_ops(site: SiteFile, changes: Sequence[DeviceChange]) -> list[Op]:
         if node.kind in RCD_KINDS:
             ops.extend(_drop_readings(site, dc.node))
         ops.append(UpsertNode(node=new))
+    if record is not None:
+        ops.extend(_record_ops(site, ops, record))
     return ops
+
+
+#: The notes of a visit hold at most this many characters (``Visit.notes``).
+_NOTES_MAX = 20_000
+
+
+def _record_ops(site: SiteFile, ops: Sequence[Op], when: str) -> Iterable[Op]:
+    """Each visit whose readings ``ops`` remove, with those readings kept in its notes."""
+    gone: dict[str, list[str]] = {}
+    for op in ops:
+        if isinstance(op, SetReading) and op.reading is None:
+            gone.setdefault(op.visit, []).append(op.device)
+    old = {n.id: n for n in site.nodes}
+    for v in site.visits:
+        devices = gone.get(v.id)
+        if not devices:
+            continue
+        lines = []
+        for d in devices:
+            node = old[d]
+            rating = device_text(node) if hasattr(node, "delay") else str(node.kind)
+            values = json.dumps(
+                v.readings[d].model_dump(mode="json", exclude_defaults=True), ensure_ascii=False
+            )
+            lines.append(
+                f"{when}: {d} ({node.label or d}; {rating}) was changed by an accepted plan; "
+                f"its readings of this visit, of the earlier device: {values}"
+            )
+        notes = "\n".join(x for x in (v.notes, *lines) if x)
+        if len(notes) > _NOTES_MAX:
+            tail = " … (cut to fit the visit's notes)"
+            notes = notes[: _NOTES_MAX - len(tail)] + tail
+        readings = {k: r for k, r in v.readings.items() if k not in devices}
+        yield UpsertVisit(visit=v.model_copy(update={"notes": notes, "readings": readings}))
 
 
 def _drop_readings(site: SiteFile, device: str) -> Iterable[Op]:
@@ -217,10 +268,13 @@ def diff_findings(
     return out
 
 
-def apply_changes(site: SiteFile, changes: Sequence[DeviceChange]) -> SiteFile:
-    """The site after ``changes``; ``site`` itself is never changed."""
+def apply_changes(
+    site: SiteFile, changes: Sequence[DeviceChange], *, record: str | None = None
+) -> SiteFile:
+    """The site after ``changes``; ``site`` itself is never changed (``record``: see
+    :func:`change_ops`)."""
     out = site
-    for op in change_ops(site, changes):
+    for op in change_ops(site, changes, record=record):
         out = apply_op(out, op)
     return out
 

@@ -103,7 +103,9 @@ def _refusal(exc: BaseException) -> str:
     return in_words(str(exc))
 
 
-def scratch_site(site: SiteFile, changes: Sequence[DeviceChange]) -> tuple[SiteFile, list[Op]]:
+def scratch_site(
+    site: SiteFile, changes: Sequence[DeviceChange], *, record: str | None = None
+) -> tuple[SiteFile, list[Op]]:
     """The scratch copy after ``changes`` and the ops that made it.
 
     Raises :class:`TrialRefused` with the reason when a change cannot be made (an
@@ -112,7 +114,7 @@ def scratch_site(site: SiteFile, changes: Sequence[DeviceChange]) -> tuple[SiteF
     if not changes:
         raise TrialRefused("no change to try")
     try:
-        ops = change_ops(site, changes)
+        ops = change_ops(site, changes, record=record)
         out = site
         for op in ops:
             out = apply_op(out, op)
@@ -122,7 +124,11 @@ def scratch_site(site: SiteFile, changes: Sequence[DeviceChange]) -> tuple[SiteF
 
 
 def run_trial(
-    site: SiteFile, changes: Sequence[DeviceChange], before: Analysis | None = None
+    site: SiteFile,
+    changes: Sequence[DeviceChange],
+    before: Analysis | None = None,
+    *,
+    record: str | None = None,
 ) -> Trial:
     """Try ``changes`` on a scratch copy of ``site`` and check the copy with every check.
 
@@ -130,7 +136,7 @@ def run_trial(
     very ``site``); otherwise it is made here.  Raises :class:`TrialRefused` when a
     change cannot be made.
     """
-    after_site, ops = scratch_site(site, changes)
+    after_site, ops = scratch_site(site, changes, record=record)
     if before is None:
         before = analyse(site)
     after = analyse(after_site)

@@ -89,3 +89,23 @@ def test_an_invalid_change_is_refused_with_the_reason() -> None:
     assert "\n" not in str(exc.value)
     with pytest.raises(InvalidEdit, match="cannot change nope: no such node"):
         change_ops(site, [_change("nope", ("waveform", "AC", "A"))])
+
+
+def test_a_change_made_on_the_site_keeps_the_old_readings_in_the_visits_notes() -> None:
+    site = load_site(OAK)
+    old = {v.id: v.readings["rc2"] for v in site.visits if "rc2" in v.readings}
+    assert len(old) == 2
+    after = apply_changes(
+        site, [_change("rc2", ("waveform", "AC", "A"))], record="2026-12-02 08:10 UTC"
+    )
+    for v in after.visits:
+        if v.id in old:
+            assert "rc2" not in v.readings
+            line = v.notes.splitlines()[-1]
+            # the failure stays on the record: the old device's rating and each value as typed
+            assert line.startswith("2026-12-02 08:10 UTC: rc2 (RCCB 2 (downstairs); 30 mA, Type AC")
+            assert f'"x1_180": {old[v.id].x1_180}' in line
+    # other devices' readings are untouched
+    assert {k for v in after.visits for k in v.readings} == {
+        k for v in site.visits for k in v.readings
+    } - {"rc2"}

@@ -11,6 +11,7 @@ step; Drop and Escape leave the site as it was.
 
 from __future__ import annotations
 
+import datetime as dt
 from collections.abc import Callable
 
 from rich.text import Text
@@ -248,7 +249,8 @@ class WhatIfScreen(Dialog[Trial | None]):
     @work(thread=True, exclusive=True, group="what-if-trial", exit_on_error=False)
     def _run(self, choice: TrialChoice, gen: int) -> None:
         try:
-            result: Trial | str = run_trial(self.site, choice.changes, self.analysis)
+            when = dt.datetime.now(dt.UTC).strftime("%Y-%m-%d %H:%M UTC")
+            result: Trial | str = run_trial(self.site, choice.changes, self.analysis, record=when)
         except TrialRefused as exc:
             result = f"This change cannot be made: {exc}"
         except Exception as exc:  # noqa: BLE001 - said on screen, never a traceback

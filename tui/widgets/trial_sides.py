@@ -57,7 +57,10 @@ def dropped_text(trial: Trial) -> str:
     if not by_device:
         return ""
     said = ", ".join(f"{d} ({n} visit{'s' if n > 1 else ''})" for d, n in by_device.items())
-    return f"Readings of {said} stay with the old device, not the new one."
+    return (
+        f"Readings of {said} were of the old device: accepting moves them to the "
+        "visit's notes, as text; the new device is to be tested."
+    )
 
 
 #: Where a choice comes from, as the list shows it.

@@ -83,12 +83,13 @@ def run(args: argparse.Namespace) -> int:
     analysis = analyse(site)
     plan = make_plan(site, analysis)
     if out is not None and plan.changes:
+        when = dt.datetime.now(dt.UTC).strftime("%Y-%m-%d %H:%M UTC")
         try:
-            changed = apply_changes(site, plan.changes)
+            # the readings of replaced devices go to their visits' notes, as text
+            changed = apply_changes(site, plan.changes, record=when)
         except InvalidEdit as exc:  # the plan was made on a copy: this is not expected
             say(f"cannot make the plan on a copy of {args.site}: {exc}; nothing written")
             return 2
-        when = dt.datetime.now(dt.UTC).strftime("%Y-%m-%d %H:%M UTC")
         info = changed.site.model_copy(
             update={"notes": plan_notes(site, plan, Path(args.site).name, when)}
         )
