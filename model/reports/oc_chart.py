@@ -11,12 +11,13 @@ from __future__ import annotations
 
 import math
 from dataclasses import dataclass, field
+from functools import lru_cache
 
 import numpy as np
 
 from model.reports.analysis_view import site_index
 from model.rules.findings import Analysis
-from model.rules.overcurrent.bands import Band, band_at, band_of, device_name
+from model.rules.overcurrent.bands import Band, PackedBands, band_of, device_name, evaluate
 from model.rules.overcurrent.pairs import VERDICT_WORDS, OcPair
 from model.site.models import SiteFile
 from model.site.terms import OVERCURRENT_KINDS
@@ -63,10 +64,17 @@ def _plain(values: np.ndarray) -> list[float | None]:
     return [None if math.isinf(v) else float(v) for v in values.tolist()]
 
 
+@lru_cache(maxsize=256)
+def _packed(band: Band) -> PackedBands:
+    """One band packed for evaluation, once per band (a site uses few)."""
+    return PackedBands.build([band])
+
+
 def _curves(band: Band | str, cur: np.ndarray) -> tuple[list[list[float | None]], str | None]:
+    """The band's four boundaries at ``cur``, as ``band_at`` gives them. [s]"""
     if isinstance(band, str):
         return [[], [], [], []], band
-    b = band_at(band, cur)
+    b = {k: v[0] for k, v in evaluate(_packed(band), cur.reshape(1, -1)).items()}
     return [_plain(b[k]) for k in ("min_est", "max_est", "min_rig", "max_rig")], None
 
 

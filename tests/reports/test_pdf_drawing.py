@@ -14,12 +14,14 @@ import pytest
 
 from model.reports.charts import pair_chart_data
 from model.reports.heading import Heading
+from model.reports.oc_chart import oc_chart_data
 from model.reports.render.pdf_axes import LogAxes, _bends, times_array
 from model.reports.render.pdf_base import ReportPdf
 from model.reports.sheet import build_sheet
 from model.reports.writer import write_report
 from model.rules.checks import analyse
 from model.rules.envelope import DeviceCurve, band_curve
+from model.rules.overcurrent.bands import Band, band_at, band_of
 from model.storage.codec import parse_site
 from model.storage.sites import load_site
 from tests.reports.report_sites import SAMPLES, big_raw, squash
@@ -141,3 +143,23 @@ def test_sheet_rows_of_a_device_stay_on_one_page(tmp_path: Path) -> None:
         assert "Board" in text and "Ramp" in text, f"headings missing on page {n + 1}"
         if squash("Loop impedance and disconnection") in text:
             break  # the circuits' table follows the devices' table
+
+
+def test_fuse_and_breaker_chart_bands_are_those_of_the_rules() -> None:
+    # each pair's curves are band_at's reading of the device's band (IEC 60898-1 Table 7,
+    # IEC 60269 gate currents), whichever pair asked for the band first
+    site = load_site(next(p for p in SAMPLES if p.stem == "oak-lane-house"))
+    result = analyse(site)
+    assert result.oc_pairs
+    for pair in result.oc_pairs:
+        c = oc_chart_data(site, result, pair.up, pair.down)
+        for node_id, curves in (
+            (pair.up, (c.up_min, c.up_max, c.up_min_rig, c.up_max_rig)),
+            (pair.down, (c.down_min, c.down_max, c.down_min_rig, c.down_max_rig)),
+        ):
+            band = band_of(next(n for n in site.nodes if n.id == node_id))
+            if not isinstance(band, Band):
+                continue
+            ref = band_at(band, np.array(c.currents_a))
+            for key, got in zip(("min_est", "max_est", "min_rig", "max_rig"), curves, strict=True):
+                np.testing.assert_array_equal(times_array(got), ref[key])
