@@ -128,15 +128,30 @@ def build_plan_part(plan: Plan | None, item_of: Mapping[FindingKey, list[int]]) 
         PlanStep(n, dc.node, change_words(dc), tuple(_numbers(dc.clears, item_of)))
         for n, dc in enumerate(plan.changes, start=1)
     )
-    left = tuple(
-        PlanLeft(
-            tuple(_numbers([finding_key(u.finding)], item_of)),
-            clean(u.finding.message),
-            clean(u.reason),
-        )
-        for u in plan.remaining
-    )
-    return PlanPart(steps, left)
+    used: dict[FindingKey, int] = {}
+    left: list[PlanLeft] = []
+    for u in plan.remaining:
+        key = finding_key(u.finding)
+        numbers = sorted(item_of.get(key, ()))
+        k = used.get(key, 0)
+        used[key] = k + 1
+        # findings with the same rule and nodes: the k-th one left is the k-th item
+        mine = (numbers[k],) if k < len(numbers) else ()
+        text = clean(u.finding.message)
+        left.append(PlanLeft(mine, short(text) if mine else text, clean(u.reason)))
+    return PlanPart(steps, tuple(left))
+
+
+#: The longest finding text the plan repeats where it names the item (the item has it all).
+SHORT_MAX = 150
+
+
+def short(text: str, limit: int = SHORT_MAX) -> str:
+    """``text`` cut at a word before ``limit`` characters, with '…' where it was cut."""
+    if len(text) <= limit:
+        return text
+    cut = text.rfind(" ", 0, limit)
+    return text[: cut if cut > limit // 2 else limit].rstrip(" ,;:(") + " …"
 
 
 __all__ = [
@@ -152,4 +167,5 @@ __all__ = [
     "change_words",
     "planned_by_key",
     "planned_row",
+    "short",
 ]

@@ -13,7 +13,13 @@ from pathlib import Path
 
 import pypdf
 
-from model.plan.changes import PLAN_CAUTION, apply_changes, diff_findings, finding_key
+from model.plan.changes import (
+    PLAN_CAUTION,
+    Unresolved,
+    apply_changes,
+    diff_findings,
+    finding_key,
+)
 from model.reports.plan_part import REMAINING_TITLE
 from model.reports.plan_part import TITLE as PLAN_TITLE
 from model.reports.remedial import build_remedial
@@ -219,3 +225,19 @@ def test_study_pdf_draws_the_after_chart_of_a_touched_pair(tmp_path: Path) -> No
     assert squash(MADE_TITLE) in text
     plain = write_report(site, "study", "pdf", tmp_path / "plain.pdf", plan=False)
     assert squash(AFTER_LABEL) not in squash(_pdf_text(plain))
+
+
+def test_findings_alike_left_by_the_plan_each_name_their_own_item() -> None:
+    # Oak Lane has two reading.trend findings of RCCB 2 (same rule, same device): each
+    # remaining entry names its own item, and a long text is cut (the item has it all).
+    site, result, plan = _oak()
+    trends = [f for f in result.findings if f.rule == "reading.trend"]
+    assert len(trends) == 2
+    plan.remaining.extend(Unresolved(f, "needs a test") for f in trends)
+    doc = build_remedial(site, result, plan=plan)
+    numbers = [i.number for i in doc.items if i.rule == "reading.trend"]
+    assert doc.plan is not None
+    left = [r for r in doc.plan.remaining if r.reason == "needs a test"]
+    assert [r.items for r in left] == [(numbers[0],), (numbers[1],)]
+    assert all(len(r.message) <= 152 for r in left)
+    assert left[0].message.endswith(" …") and left[0].message[:-2] in trends[0].message
