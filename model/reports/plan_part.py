@@ -139,6 +139,7 @@ def build_plan_part(plan: Plan | None, item_of: Mapping[FindingKey, list[int]]) 
         mine = (numbers[k],) if k < len(numbers) else ()
         text = clean(u.finding.message)
         left.append(PlanLeft(mine, short(text) if mine else text, clean(u.reason)))
+    left.sort(key=lambda r: r.items[0] if r.items else 1 << 30)  # in the list's order
     return PlanPart(steps, tuple(left))
 
 

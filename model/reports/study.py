@@ -14,7 +14,7 @@ from model.plan.changes import PLAN_CAUTION, Plan
 from model.reports.charts import PairChart, pair_chart_data
 from model.reports.heading import Heading, build_heading
 from model.reports.oc_chart import OcChart, oc_chart_data
-from model.reports.study_after import AfterPair, AfterStudy, after_pairs
+from model.reports.study_after import AfterPair, AfterStudy, after_pairs, same_pair
 from model.reports.zs_sheet import ZsRow, build_zs_rows
 from model.rules.findings import CAUTION, Analysis
 from model.rules.limits import IEC_61008_T1
@@ -85,11 +85,29 @@ def build_study(
     if after is not None:
         numbers = {(s.chart.up_id, s.chart.down_id): s.chart.number for s in rcd}
         numbers.update({(c.up_id, c.down_id): c.number for c in oc})
-        touched = {k: _numbered(a, numbers[k]) for k, a in after.touched.items()}
+        charts: dict[tuple[str, str], PairChart | OcChart] = {
+            (s.chart.up_id, s.chart.down_id): s.chart for s in rcd
+        }
+        charts.update({(c.up_id, c.down_id): c for c in oc})
+        verdicts = {(p.up, p.down): p.verdict for p in analysis.pairs}
+        touched = {
+            k: _numbered(_same_or_after(a, charts[k], verdicts.get(k)), numbers[k])
+            for k, a in after.touched.items()
+        }
         made = tuple(_numbered(a, number + n) for n, a in enumerate(after.made, start=1))
         after = replace(after, touched=touched, made=made)
     zs = build_zs_rows(site, analysis)
     return StudyDoc(heading, rcd, oc, zs, analysis.caution, after)
+
+
+def _same_or_after(a: AfterPair, before: PairChart | OcChart, verdict: str | None) -> AfterPair:
+    """``a`` without its chart where the pair is the same after the change as now."""
+    chart = a.rcd_chart or a.oc_chart
+    if chart is None or not same_pair(before, chart):
+        return a
+    if a.rcd_chart is not None and verdict != a.verdict:
+        return a
+    return replace(a, unchanged=True, rcd_chart=None, oc_chart=None)
 
 
 def _numbered(a: AfterPair, number: int) -> AfterPair:

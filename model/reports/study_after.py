@@ -55,6 +55,10 @@ class AfterPair:
     oc_chart: OcChart | None = None
     #: Why the pair is no longer a pair after the changes ('' while it still is).
     gone: str = ""
+    #: True when the pair's bands, ranges and verdict are the same after the changes
+    #: (the change is elsewhere in the devices: a waveform type under a fuse pair); then
+    #: no chart is repeated.
+    unchanged: bool = False
 
     @property
     def changes_text(self) -> str:
@@ -123,6 +127,19 @@ def after_pairs(site: SiteFile, analysis: Analysis, plan: Plan | None) -> AfterS
         if ("oc", (q.up, q.down)) not in before_keys:
             made.extend(_some(_oc_after(after_site, after, plan, q.up, q.down)))
     return AfterStudy(out, tuple(made), tuple(change_words(dc) for dc in plan.changes))
+
+
+UNCHANGED = "the same bands and verdict as now: the change does not alter this pair's selectivity"
+
+
+def same_pair(before: PairChart | OcChart, after: PairChart | OcChart) -> bool:
+    """Whether two charts of one pair have the same bands, ranges and verdict."""
+    names = ["up_min", "up_max", "down_min", "down_max", "ranges"]
+    if isinstance(before, OcChart):
+        names += ["verdict", "up_min_rig", "up_max_rig", "down_min_rig", "down_max_rig"]
+    else:
+        names += ["explanation", "currents_ma"]
+    return all(getattr(before, n) == getattr(after, n) for n in names)
 
 
 def _some(a: AfterPair | None) -> list[AfterPair]:

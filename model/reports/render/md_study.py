@@ -11,6 +11,7 @@ from model.reports.study_after import (
     MADE_LEAD,
     MADE_TITLE,
     PLAN_NOTE,
+    UNCHANGED,
     AfterPair,
     AfterStudy,
 )
@@ -86,6 +87,8 @@ def _after_md(a: AfterPair | None) -> list[str]:
     lines = [f"#### {esc(AFTER_LABEL)}", "", f"Change: {esc(a.changes_text)}", ""]
     if a.gone:
         return lines + [f"**Verdict after: none** — {esc(a.gone)}.", ""]
+    if a.unchanged:
+        return lines + [f"**Verdict after: {esc(a.verdict)}** — {esc(UNCHANGED)}.", ""]
     if a.rcd_chart is not None:
         return lines + _rcd_md(a.rcd_chart, a.verdict)
     if a.oc_chart is not None:

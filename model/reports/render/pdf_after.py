@@ -19,6 +19,7 @@ from model.reports.study_after import (
     MADE_LEAD,
     MADE_TITLE,
     PLAN_NOTE,
+    UNCHANGED,
     AfterPair,
     AfterStudy,
 )
@@ -34,11 +35,22 @@ def _band(pdf: ReportPdf, text: str) -> None:
     y = pdf.get_y() + 3
     pdf.set_fill_color(*ACCENT)
     pdf.rect(pdf.l_margin, y, pdf.content_w, 6, style="F")
+    pdf.set_fill_color(*PANEL)  # text set in the fill colour prints in the page's last one
     pdf.set_xy(pdf.l_margin + 2.5, y + 0.8)
     pdf.font(9.4, True)
     pdf.ink(WHITE)
     pdf.cell(pdf.content_w - 5, 4.4, text)
     pdf.set_y(y + 7.5)
+
+
+def _end(pdf: ReportPdf) -> None:
+    """A thin accent rule that closes the after block, so the next pair reads as now."""
+    y = pdf.get_y() + 2
+    if y < pdf.bottom:
+        pdf.set_draw_color(*ACCENT)
+        pdf.set_line_width(0.5)
+        pdf.line(pdf.l_margin, y, pdf.l_margin + pdf.content_w, y)
+    pdf.set_y(y + 4)
 
 
 def _lead(pdf: ReportPdf, a: AfterPair, word: str) -> None:
@@ -52,12 +64,13 @@ def draw_after(pdf: ReportPdf, a: AfterPair | None, draw_oc: DrawOc) -> None:
         return
     w = pdf.content_w
     x = pdf.l_margin
-    if a.gone:
+    if a.gone or a.unchanged:
         pdf.room(26)
         _band(pdf, AFTER_LABEL)
         _lead(pdf, a, "Change")
-        pdf.para(x, w, 4.5, f"Verdict after: none — {a.gone}.", 9, True)
-        pdf.set_y(pdf.get_y() + 3)
+        words = f"none — {a.gone}" if a.gone else f"{a.verdict} — {UNCHANGED}"
+        pdf.para(x, w, 4.5, f"Verdict after: {words}.", 9, True)
+        _end(pdf)
         return
     if a.rcd_chart is not None:
         c = a.rcd_chart
@@ -67,6 +80,7 @@ def draw_after(pdf: ReportPdf, a: AfterPair | None, draw_oc: DrawOc) -> None:
         pdf.para(x, w, 4.5, f"Verdict after: {a.verdict}", 9, True)
         title = f"Pair chart {c.number} after: {c.up_label} above {c.down_label}"
         draw_chart(pdf, c, x, pdf.get_y(), w, title=title)
+        _end(pdf)
     elif a.oc_chart is not None:
         oc: OcChart = a.oc_chart
         pdf.room(OC_AFTER_H + 20)
@@ -77,6 +91,7 @@ def draw_after(pdf: ReportPdf, a: AfterPair | None, draw_oc: DrawOc) -> None:
             f"{oc.down_label} ({oc.down_name})"
         )
         draw_oc(pdf, oc, x, pdf.get_y() + 2, w, title=title)
+        _end(pdf)
 
 
 def draw_made(pdf: ReportPdf, after: AfterStudy, draw_oc: DrawOc) -> None:
@@ -116,6 +131,7 @@ def draw_plan_note(pdf: ReportPdf, after: AfterStudy) -> None:
     pdf.rect(x, y, w, h, style="F")
     pdf.set_fill_color(*ACCENT)
     pdf.rect(x, y, 1.4, h, style="F")
+    pdf.set_fill_color(*PANEL)  # text set in the fill colour prints in the page's last one
     pdf.set_y(y + 2.5)
     pdf.para(x + 4, w - 8, 4, PLAN_NOTE, 8.4, True)
     for t in lines:

@@ -64,6 +64,7 @@ def _caution(pdf: ReportPdf, caution: str, h: float) -> None:
     pdf.rect(x, y, w, h, style="F")
     pdf.set_fill_color(*ACCENT)
     pdf.rect(x, y, 1.4, h, style="F")
+    pdf.set_fill_color(*PANEL)  # text set in the fill colour prints in the page's last one
     pdf.set_y(y + 2.5)
     pdf.para(x + 4, w - 8, 4.1, caution, 8.2, True)
     pdf.set_y(y + h + 3)
