@@ -24,13 +24,18 @@ from typing import Any
 
 from model.rules.findings import Finding
 from model.site.models import SiteFile
-from model.site.nodes import Node
+from model.site.nodes import NODE_CLASSES, Node
 from model.site.ops import DeleteNodes, Op, SetReading, UpsertNode, apply_op
 from model.site.terms import RCD_KINDS
 
 #: ``field`` of a :class:`FieldChange` that removes the device (its children move up
 #: to its parent); ``before`` is the device's kind, ``after`` is None.
 REMOVED = "removed"
+
+#: ``field`` of a :class:`FieldChange` that replaces a device like for like (one that
+#: failed its tests): no field of the node changes; ``before`` and ``after`` are its
+#: rating in words.  Its readings go with the old device, as for any changed device.
+REPLACED = "replaced"
 
 FindingKey = tuple[str, tuple[str, ...]]
 
@@ -63,6 +68,9 @@ class DeviceChange:
     clears: tuple[FindingKey, ...] = ()
     #: The change in words: "replace RCCB "Studio RCCB" (30 mA, Type AC, general) with ...".
     text: str = ""
+    #: Findings the change would create (keys of findings after it); a plan's changes
+    #: create none, the options of one device (``device_options``) may.
+    creates: tuple[FindingKey, ...] = ()
 
     @property
     def removes(self) -> bool:
@@ -114,7 +122,8 @@ def change_ops(site: SiteFile, changes: Sequence[DeviceChange]) -> list[Op]:
 
     A field change sets the field on the node (a ``kind`` change makes the node
     a different kind, keeping id, parent, label, way and notes, plus the fields
-    given); a removal moves the node's children to its parent and deletes it.
+    given, and only the fields the new kind has); a like-for-like replacement
+    (:data:`REPLACED`) changes no field; a removal moves the node's children to its parent and deletes it.
     Readings of a changed residual-current device are removed (they were taken
     of the device that is being replaced).  Raises ``KeyError`` for an unknown
     node; an invalid result is refused by :func:`model.site.ops.apply_op`.
@@ -134,10 +143,15 @@ def change_ops(site: SiteFile, changes: Sequence[DeviceChange]) -> list[Op]:
             continue
         data = node.model_dump(exclude_unset=False)
         for fc in dc.fields:
+            if fc.field == REPLACED:
+                continue
             if fc.after is None:
                 data.pop(fc.field, None)
             else:
                 data[fc.field] = fc.after
+        if data["kind"] != node.kind:
+            keep = NODE_CLASSES[data["kind"]].model_fields
+            data = {k: v for k, v in data.items() if k in keep}
         new = UpsertNode.model_validate({"node": data}).node
         nodes[dc.node] = new
         if node.kind in RCD_KINDS:
@@ -202,6 +216,7 @@ def apply_changes(site: SiteFile, changes: Sequence[DeviceChange]) -> SiteFile:
 
 __all__ = [
     "REMOVED",
+    "REPLACED",
     "DeviceChange",
     "FieldChange",
     "FindingDiff",
