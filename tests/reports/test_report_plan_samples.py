@@ -18,6 +18,7 @@ import pytest
 from model.plan.changes import apply_changes, diff_findings, finding_key
 from model.plan.search import make_plan
 from model.reports.render.csv import ENCODING
+from model.reports.study_after import AFTER_LABEL
 from model.reports.writer import render
 from model.rules.checks import analyse
 from model.storage.sites import load_site
@@ -42,6 +43,12 @@ def test_planned_items_are_exactly_what_the_plan_clears(path: Path) -> None:
     keys = [finding_key(f) for f in result.findings]
     planned = {(r["rule"], tuple(r["nodes"].split())) for r in rows if r["planned_change"]}
     assert planned == claimed & set(keys)
+    # the study follows every pair a change touches with the pair after it, and no other
+    changed = {dc.node for dc in plan.changes}
+    pairs = [(p.up, p.down) for p in [*result.pairs, *result.oc_pairs]]
+    touched = [k for k in pairs if changed & set(k)]
+    study = render(site, "study", "md", analysis=result, plan=plan).decode("utf-8")
+    assert study.count(f"#### {AFTER_LABEL}") == len(touched)
 
 
 def test_oak_lane_ac_rccb_gets_a_type_a_or_better_replacement() -> None:
