@@ -187,7 +187,7 @@ def _rcd_targets(node: Any, personal: bool) -> list[tuple[float, str, str]]:
         other = "general" if node.delay == "S" else "S"
         out.append((node.idn_ma, base_wf, other))
         if other == "S":
-            out += [(idn, base_wf, "S") for idn in series if idn > node.idn_ma][:2]
+            out += [(idn, base_wf, "S") for idn in series if idn > node.idn_ma]
     return list(dict.fromkeys(out))
 
 

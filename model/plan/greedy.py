@@ -72,13 +72,23 @@ class _Move:
     gain: frozenset[FindingKey]
     new_devices: int
     cost: int
+    #: Findings the first choice clears on its own (a move led by the change that does
+    #: the work is preferred to the same changes led by a repair).
+    lead: int = 0
+    #: For each repair (choices after the first), the rule of the finding it keeps away.
+    why: tuple[str, ...] = ()
     #: The changes made, once the move is taken into the plan.
     made: list[DeviceChange] = field(default_factory=list)
 
-    def rank(self) -> tuple[float, int, int, int, str]:
+    def rank(self) -> tuple[float, int, int, int, int, str]:
         n = len(self.choices)
         steps = sum(c.steps for c in self.choices)
-        return (-len(self.gain) / n, self.new_devices, self.cost, steps, self.choices[0].node)
+        first = self.choices[0].node
+        return (-len(self.gain) / n, self.new_devices, self.cost, steps, -self.lead, first)
+
+
+def _cheap_first(c: Choice) -> tuple[int, int, int]:
+    return (c.new_device, c.cost, c.steps)
 
 
 class Search:
@@ -102,6 +112,8 @@ class Search:
         #: The devices changed by the plan, in the order the moves were taken.
         self.log: list[str] = []
         self.zones: dict[tuple[str, ...], frozenset[str]] = {}
+        #: The findings each candidate device was chosen for.
+        self.reach: dict[str, set[FindingKey]] = {}
 
     @property
     def changes(self) -> list[DeviceChange]:
@@ -123,6 +135,7 @@ class Search:
                     near = idx.ocpd_above[n][:1] + idx.rcd_above[n][:2]
                 for d in near:
                     out.setdefault(d, set()).update(aspects)
+                    self.reach.setdefault(d, set()).add(finding_key(f))
         return {n: frozenset(out[n]) for n in idx.order if n in out and not self._is_cutout(n)}
 
     def _is_cutout(self, node_id: str) -> bool:
@@ -193,7 +206,7 @@ class Search:
         cleared = frozenset(finding_key(f) for f in got.cleared) & self.targets.keys()
         return cleared, got.created
 
-    def move(self, choices: tuple[Choice, ...]) -> _Move | None:
+    def move(self, choices: tuple[Choice, ...], why: tuple[str, ...] = ()) -> _Move | None:
         gain, created = self.screen(choices)
         if created or not gain:
             return None
@@ -202,6 +215,8 @@ class Search:
             gain,
             sum(c.new_device for c in choices),
             sum(c.cost for c in choices),
+            len(self.screen(choices[:1])[0]),
+            why,
         )
 
     def repaired(self, first: Choice, created: list[Finding]) -> _Move | None:
@@ -214,6 +229,7 @@ class Search:
         if len(created) > REPAIR_MAX:
             return None
         chosen: tuple[Choice, ...] = (first,)
+        why: tuple[str, ...] = ()
         idx = self.index0
         still = created
         while still:
@@ -232,11 +248,11 @@ class Search:
                 _, after = self.screen((*chosen, r))
                 keys = {finding_key(g) for g in after}
                 if finding_key(f) not in keys and keys <= known:
-                    chosen, still = (*chosen, r), after
+                    chosen, still, why = (*chosen, r), after, (*why, f.rule)
                     break
             else:
                 return None
-        return self.move(chosen)
+        return self.move(chosen, why)
 
     # ---- the search -------------------------------------------------------------------
     def run(self) -> None:
@@ -244,28 +260,31 @@ class Search:
 
         Every candidate is screened once; the moves are kept in a heap by their
         rank and re-screened lazily when they reach the top.  When the heap is
-        empty, the candidates that cleared something are tried again on the
-        site as the plan has left it (a change may become possible after another).
+        empty, the candidates that cleared something but created a finding are
+        tried again on the site as the plan has left it (a change may become
+        possible after another).
         """
         pending = [
             c
             for node_id, aspects in self.candidate_nodes().items()
-            for c in self.choices(node_id, aspects)
+            for c in sorted(self.choices(node_id, aspects), key=_cheap_first)
         ]
         for _ in range(PASSES):
-            heap: list[tuple[tuple[float, int, int, int, str], int, _Move]] = []
-            useful: list[Choice] = []
+            heap: list[tuple[tuple[float, int, int, int, int, str], int, _Move]] = []
+            blocked: list[tuple[Choice, list[Finding]]] = []
             taken = {dc.node for dc in self.changes}
             best: dict[str, tuple[int, Choice, list[Finding]]] = {}
             clean: dict[str, int] = {}
+            #: Devices whose cheapest clean change already clears all they were chosen for.
+            settled: set[str] = set()
             for seq, choice in enumerate(pending):
-                if choice.node in taken:
+                if choice.node in taken or choice.node in settled:
                     continue
                 gain, created = self.screen((choice,))
                 if not gain:
                     continue
-                useful.append(choice)
                 if created:
+                    blocked.append((choice, created))
                     # Only the best change of a device that creates findings is repaired.
                     if len(gain) > best.get(choice.node, (0, choice, []))[0]:
                         best[choice.node] = (len(gain), choice, created)
@@ -274,6 +293,8 @@ class Search:
                 if mv is not None:
                     clean[choice.node] = max(clean.get(choice.node, 0), len(gain))
                     heapq.heappush(heap, (mv.rank(), seq, mv))
+                    if gain >= self.reach.get(choice.node, set()) - self.done:
+                        settled.add(choice.node)
             for node_id, (n, choice, created) in best.items():
                 if n > clean.get(node_id, 0):
                     mv = self.repaired(choice, created)
@@ -281,9 +302,11 @@ class Search:
                         heapq.heappush(heap, (mv.rank(), len(pending) + len(heap), mv))
             if not self.take(heap):
                 return
-            pending = useful
+            # Retried: a change blocked by a finding on a device the plan has changed since.
+            changed = set(self.log)
+            pending = [c for c, made in blocked if changed & {n for f in made for n in f.nodes}]
 
-    def take(self, heap: list[tuple[tuple[float, int, int, int, str], int, _Move]]) -> int:
+    def take(self, heap: list[tuple[tuple[float, int, int, int, int, str], int, _Move]]) -> int:
         """Moves taken from the heap, best first, each re-screened when it reaches the top."""
         taken = 0
         seq = len(heap) + 1_000_000
@@ -291,7 +314,7 @@ class Search:
             _, _, mv = heapq.heappop(heap)
             if {c.node for c in mv.choices} & {dc.node for dc in self.changes}:
                 continue
-            fresh = self.move(mv.choices)
+            fresh = self.move(mv.choices, mv.why)
             if fresh is None:
                 continue
             if heap and fresh.rank() > heap[0][0]:
@@ -305,9 +328,8 @@ class Search:
         notes = [""] * len(mv.choices)
         first = self.index0.node(mv.choices[0].node)
         for i in range(1, len(mv.choices)):
-            notes[i] = "; " + REPAIR_WORDS.get(
-                "coverage.additional-protection", "keeps the site clear"
-            )
+            rule = mv.why[i - 1]
+            notes[i] = "; " + REPAIR_WORDS.get(rule, f"keeps {rule} away")
             notes[i] += f' with the change to "{first.label or first.id}"'
         new = [self.to_change(c, n) for c, n in zip(mv.choices, notes, strict=True)]
         try:

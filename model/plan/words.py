@@ -69,7 +69,7 @@ def _rating(node: Any) -> str:
     if node.kind in ("rccb", "rcbo", "srcd", "prcd", "cbr"):
         parts.append(device_text(node))
     if node.kind in ("mcb", "rcbo", "fuse"):
-        parts.append(device_name(node).removesuffix(" RCBO"))
+        parts.append(_oc_name(node.kind, getattr(node, "curve", None), node.rated_a, node))
     ka = getattr(node, "breaking_ka", None)
     if ka is not None:
         parts.append(f"{ka:g} kA")
@@ -85,9 +85,18 @@ def _new_rcd(values: dict[str, Any], node: Any, kind: str) -> str:
         words += " type S"
     words += f" {KIND_WORDS[kind]}"
     if kind in ("rcbo",):
-        curve = values.get("curve", node.curve) or "?"
-        words += f" {curve}{values.get('rated_a', node.rated_a):g}"
+        curve = values.get("curve", node.curve)
+        words += " " + _oc_name("rcbo", curve, values.get("rated_a", node.rated_a), node)
     return words
+
+
+def _oc_name(kind: str, curve: str | None, rated_a: float | None, node: Any) -> str:
+    """'B32'; a breaker of unknown curve 'In 32 A'; a fuse 'gG 32 A'."""
+    if kind == "fuse":
+        return device_name(node)
+    if rated_a is None:
+        return curve or "rating not recorded"
+    return f"{curve}{rated_a:g}" if curve else f"In {rated_a:g} A"
 
 
 def change_text(node: Any, choice: Choice, above: Any | None = None) -> str:
@@ -117,14 +126,15 @@ def change_text(node: Any, choice: Choice, above: Any | None = None) -> str:
             f"replace {name} {rating} with a gG {values['rated_a']:g} A fuse-link "
             "(check the cable it protects: In no more than Iz, BS 7671 433.1)"
         )
-    curve = values.get("curve", getattr(node, "curve", None)) or "?"
+    curve = values.get("curve", getattr(node, "curve", None))
     rated = values.get("rated_a", node.rated_a)
+    new = _oc_name("mcb", curve, rated, node)
     check = (
         "check the cable it protects: In no more than Iz, BS 7671 433.1"
         if "rated_a" in values
         else "check Zs and inrush against the new curve, BS 7671 411.4.4"
     )
-    return f"replace {name} {rating} with a {curve}{rated:g} ({check})"
+    return f"replace {name} {rating} with a {new} ({check})"
 
 
 __all__ = ["CUTOUT_REASON", "KIND_WORDS", "LEFT_REASONS", "NO_CHANGE_REASON", "change_text"]

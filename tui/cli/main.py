@@ -30,6 +30,7 @@ COMMANDS: dict[str, str] = {
     "print": "tui.cli.commands.print_",
     "open": "tui.cli.commands.open",
     "new": "tui.cli.commands.new",
+    "plan": "tui.cli.commands.plan",
 }
 COMMAND_MODULES = list(COMMANDS.values())
 
