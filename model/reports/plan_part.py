@@ -74,6 +74,18 @@ class PlanPart:
     def lead(self) -> str:
         return LEAD if self.steps else NONE_CLEARED
 
+    def summary(self, total: int) -> str:
+        """One line for the top of the list: how many items the planned changes clear."""
+        cleared = len({n for s in self.steps for n in s.items})
+        changes = len(self.steps)
+        if not changes:
+            return f"No device change clears any of the {total} item(s) (see {self.title})."
+        words = "change clears" if changes == 1 else "changes clear"
+        return (
+            f"{changes} planned device {words} {cleared} of the {total} item(s) "
+            f"(see {self.title}; not yet made)."
+        )
+
 
 def change_words(dc: DeviceChange) -> str:
     """The change as printed: its own words, or its fields where it has none."""

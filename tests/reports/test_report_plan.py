@@ -134,7 +134,7 @@ def test_remedial_pdf_names_the_change_under_the_item_and_in_the_plan(tmp_path: 
     row = squash("Planned change " + RC2_TEXT)
     assert text.count(row) == 1  # one item carries it: the one the plan clears
     item_at = text.index(squash("RCCB 2 (downstairs) is Type AC"))
-    assert item_at < text.index(row) < text.index(squash(PLAN_TITLE))
+    assert item_at < text.index(row) < text.rindex(squash(PLAN_TITLE))
     assert squash(PLAN_CAUTION) in text and squash(REMAINING_TITLE) in text
     plain = tmp_path / "plain.pdf"
     plain.write_bytes(render(site, "remedial", "pdf", analysis=result, plan=False))
@@ -241,3 +241,16 @@ def test_findings_alike_left_by_the_plan_each_name_their_own_item() -> None:
     assert [r.items for r in left] == [(numbers[0],), (numbers[1],)]
     assert all(len(r.message) <= 152 for r in left)
     assert left[0].message.endswith(" …") and left[0].message[:-2] in trends[0].message
+
+
+def test_the_top_of_the_list_says_what_the_plan_clears() -> None:
+    site, result, plan = _oak()
+    total = len(result.findings)
+    line = f"1 planned device change clears 1 of the {total} item(s)"
+    md = render(site, "remedial", "md", analysis=result, plan=plan).decode("utf-8")
+    assert line in md.split("## ")[0]  # before the first board
+    txt = render(site, "remedial", "txt", analysis=result, plan=plan).decode("utf-8")
+    assert line in " ".join(txt.split())
+    assert (
+        "planned device" not in render(site, "remedial", "md", analysis=result, plan=False).decode()
+    )

@@ -72,6 +72,8 @@ def remedial_md(doc: RemedialDoc) -> bytes:
     total = sum(doc.counts.values())
     summary = " · ".join(f"{n} {s}" for s, n in doc.counts.items())
     lines += [f"**{total} item(s) to act on:** {summary}", ""]
+    if doc.plan is not None:
+        lines += [esc(doc.plan.summary(total)), ""]
     if not total:
         lines += ["No work arises from the checks made on this visit.", ""]
     for g in doc.groups:

@@ -143,6 +143,8 @@ def remedial_pdf(doc: RemedialDoc) -> bytes:
         if total
         else "No work arises from the checks made on this visit."
     )
+    if doc.plan is not None:
+        lead += " " + doc.plan.summary(total)
     pdf.title_block(doc.heading, lead)
     _summary(pdf, doc.counts)
     for g in doc.groups:

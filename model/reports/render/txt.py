@@ -56,6 +56,8 @@ def remedial_txt(doc: RemedialDoc) -> bytes:
     lines = _top(h)
     total = sum(doc.counts.values())
     lines.append(f"{total} item(s): " + ", ".join(f"{n} {s}" for s, n in doc.counts.items()))
+    if doc.plan is not None:
+        lines += _wrap(doc.plan.summary(total))
     if not total:
         lines.append("No work arises from the checks made on this visit.")
     for g in doc.groups:
