@@ -23,6 +23,7 @@ sys.path.insert(0, str(Path(__file__).resolve().parent))
 from gen_site import generate_site  # noqa: E402
 
 from model.plan.changes import apply_changes, diff_findings  # noqa: E402
+from model.plan.evaluate import compare  # noqa: E402
 from model.plan.greedy import Search  # noqa: E402
 from model.plan.search import make_plan  # noqa: E402
 from model.rules.checks import analyse  # noqa: E402
@@ -51,7 +52,10 @@ def main() -> None:
     search = Search(site, analysis)
     search.run()
     after = analyse(apply_changes(site, plan.changes))
-    d = diff_findings(analysis.findings, after.findings, [dc.node for dc in plan.changes])
+    changed = [dc.node for dc in plan.changes]
+    d = diff_findings(analysis.findings, after.findings, changed)
+    replaced = [dc.node for dc in plan.changes if dc.fields[0].field == "replaced"]
+    got = compare(analysis.findings, after.findings, changed, replaced)
     cleared = sum(len(dc.clears) for dc in plan.changes)
     print(f"site: {len(site.nodes)} nodes, {len(analysis.findings)} findings")
     print(
@@ -67,7 +71,11 @@ def main() -> None:
         f"clearing {cleared} findings, {len(plan.remaining)} remaining; "
         f"{search.evaluations} screenings"
     )
-    print(f"re-check of the planned site: {len(d.created)} new findings, {len(d.to_test)} to test")
+    print(
+        f"re-check of the planned site: {len(got.created)} new or worse findings; "
+        f"{len(d.created) - len(got.created)} kept with fewer devices listed; "
+        f"{len(d.to_test)} changed devices to test"
+    )
 
 
 if __name__ == "__main__":

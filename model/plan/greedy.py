@@ -12,7 +12,6 @@ changed since.
 from __future__ import annotations
 
 import heapq
-from dataclasses import dataclass, field
 
 from model.plan.catalogue import ANY_ASPECT, RULE_ASPECTS, Choice, choices_for
 from model.plan.changes import (
@@ -32,6 +31,7 @@ from model.plan.evaluate import (
     zone_nodes,
     zone_root,
 )
+from model.plan.moves import Move, cheap_first, idn_way, idn_ways
 from model.plan.words import LEFT_REASONS, change_text
 from model.rules.findings import Analysis, Finding
 from model.site.models import SiteFile
@@ -64,33 +64,6 @@ REPAIR_WORDS = {
 DEVICE_KINDS = RCD_KINDS | OVERCURRENT_KINDS
 
 
-@dataclass
-class _Move:
-    """One step of the plan: a choice, and the repairs that go with it."""
-
-    choices: tuple[Choice, ...]
-    gain: frozenset[FindingKey]
-    new_devices: int
-    cost: int
-    #: Findings the first choice clears on its own (a move led by the change that does
-    #: the work is preferred to the same changes led by a repair).
-    lead: int = 0
-    #: For each repair (choices after the first), the rule of the finding it keeps away.
-    why: tuple[str, ...] = ()
-    #: The changes made, once the move is taken into the plan.
-    made: list[DeviceChange] = field(default_factory=list)
-
-    def rank(self) -> tuple[float, int, int, int, int, str]:
-        n = len(self.choices)
-        steps = sum(c.steps for c in self.choices)
-        first = self.choices[0].node
-        return (-len(self.gain) / n, self.new_devices, self.cost, steps, -self.lead, first)
-
-
-def _cheap_first(c: Choice) -> tuple[int, int, int]:
-    return (c.new_device, c.cost, c.steps)
-
-
 class Search:
     def __init__(self, site: SiteFile, analysis: Analysis) -> None:
         self.site0 = site
@@ -102,8 +75,9 @@ class Search:
         self.sizes = subtree_sizes(self.index0)
         self.whole = len(site.nodes) <= ZONE_MAX
         self.base_cache: dict[frozenset[str], list[Finding]] = {}
+        self.cut_cache: dict[tuple[frozenset[str], int], SiteFile] = {}
         self.current = site
-        self.chosen: list[_Move] = []
+        self.chosen: list[Move] = []
         self.done: set[FindingKey] = set()
         self.evaluations = 0
         #: Screening results by choices: (length of the log then, cleared, created); a
@@ -114,6 +88,12 @@ class Search:
         self.zones: dict[tuple[str, ...], frozenset[str]] = {}
         #: The findings each candidate device was chosen for.
         self.reach: dict[str, set[FindingKey]] = {}
+        #: Which way (``up``, ``down``) an IΔn change of each candidate can help.
+        self.ways: dict[str, set[str]] = {}
+
+    def replaced(self) -> set[str]:
+        """Devices the plan so far replaces like for like."""
+        return {c.node for mv in self.chosen for c in mv.choices if c.action == "replace"}
 
     @property
     def changes(self) -> list[DeviceChange]:
@@ -136,23 +116,30 @@ class Search:
                 for d in near:
                     out.setdefault(d, set()).update(aspects)
                     self.reach.setdefault(d, set()).add(finding_key(f))
-        return {n: frozenset(out[n]) for n in idx.order if n in out and not self._is_cutout(n)}
+                    self.ways.setdefault(d, set()).update(idn_ways(f, d))
+        return {n: frozenset(out[n]) for n in idx.order if n in out and not self.is_cutout(n)}
 
-    def _is_cutout(self, node_id: str) -> bool:
+    def is_cutout(self, node_id: str) -> bool:
         """The supply's own fuse (fed straight from the origin): the network operator's."""
         idx = self.index0
         parent = idx.parent(node_id)
         return idx.kind(node_id) == "fuse" and parent is not None and idx.parent(parent) is None
 
-    def choices(self, node_id: str, aspects: frozenset[str] = ANY_ASPECT) -> list[Choice]:
-        """The catalogue changes of a device that bear on ``aspects``."""
+    def choices(
+        self, node_id: str, aspects: frozenset[str] = ANY_ASPECT, ways: set[str] | None = None
+    ) -> list[Choice]:
+        """The catalogue changes of a device that bear on ``aspects``; an IΔn change only
+        the ``ways`` it can help (None: either way)."""
         idx = self.index0
         node = idx.node(node_id)
         above = idx.rcd_above[node_id][:1]
         failed = any(f.rule in FAILED_RULES and node_id in f.nodes for f in self.before)
         feeds = any(idx.kind(c) != "circuit" for c in idx.children.get(node_id, []))
         every = choices_for(node, idx.node(above[0]) if above else None, failed, feeds)
-        return [c for c in every if c.aspects <= aspects]
+        out = [c for c in every if c.aspects <= aspects]
+        if ways is None:
+            return out
+        return [c for c in out if idn_way(c, node) in ways]
 
     def to_change(self, choice: Choice, note: str = "") -> DeviceChange:
         idx = self.index0
@@ -195,22 +182,26 @@ class Search:
         if base is None:
             base = self.before if not keep else findings_of(restrict(self.site0, keep))
             self.base_cache[keep] = base
+        # The zone of the site as the plan has left it (cut once per zone and plan state).
+        part = self.cut_cache.get((keep, len(self.log)))
+        if part is None:
+            part = self.current if not keep else restrict(self.current, keep)
+            self.cut_cache[(keep, len(self.log))] = part
         try:
-            site = fast_apply(self.current, [self.to_change(c) for c in extra])
+            site = fast_apply(part, [self.to_change(c) for c in extra])
         except (InvalidEdit, ValueError, KeyError):
             return frozenset(), [Finding("plan.invalid", "required", (), "", "", "", "")]
-        if keep:
-            site = restrict(site, keep)
         changed = {c.node for c in extra} | {dc.node for dc in self.changes}
-        got = compare(base, findings_of(site), changed)
+        replaced = {c.node for c in extra if c.action == "replace"} | self.replaced()
+        got = compare(base, findings_of(site), changed, replaced)
         cleared = frozenset(finding_key(f) for f in got.cleared) & self.targets.keys()
         return cleared, got.created
 
-    def move(self, choices: tuple[Choice, ...], why: tuple[str, ...] = ()) -> _Move | None:
+    def move(self, choices: tuple[Choice, ...], why: tuple[str, ...] = ()) -> Move | None:
         gain, created = self.screen(choices)
         if created or not gain:
             return None
-        return _Move(
+        return Move(
             choices,
             gain,
             sum(c.new_device for c in choices),
@@ -219,7 +210,7 @@ class Search:
             why,
         )
 
-    def repaired(self, first: Choice, created: list[Finding]) -> _Move | None:
+    def repaired(self, first: Choice, created: list[Finding]) -> Move | None:
         """``first`` with further changes that clear every finding it creates, or None.
 
         Each round takes the first finding still created and tries the changes
@@ -241,7 +232,7 @@ class Search:
                     continue
                 near = [n] if idx.kind(n) in DEVICE_KINDS else list(idx.ocpd_above[n][:1])
                 for d in near:
-                    if d not in {c.node for c in chosen} and not self._is_cutout(d):
+                    if d not in {c.node for c in chosen} and not self.is_cutout(d):
                         options.extend(self.choices(d, RULE_ASPECTS.get(f.rule, ANY_ASPECT)))
             options.sort(key=lambda c: (c.new_device, c.cost, c.steps))
             for r in options[:REPAIR_TRIES]:
@@ -267,10 +258,10 @@ class Search:
         pending = [
             c
             for node_id, aspects in self.candidate_nodes().items()
-            for c in sorted(self.choices(node_id, aspects), key=_cheap_first)
+            for c in sorted(self.choices(node_id, aspects, self.ways.get(node_id)), key=cheap_first)
         ]
         for _ in range(PASSES):
-            heap: list[tuple[tuple[float, int, int, int, int, str], int, _Move]] = []
+            heap: list[tuple[tuple[float, int, int, int, int, str], int, Move]] = []
             blocked: list[tuple[Choice, list[Finding]]] = []
             taken = {dc.node for dc in self.changes}
             best: dict[str, tuple[int, Choice, list[Finding]]] = {}
@@ -306,7 +297,7 @@ class Search:
             changed = set(self.log)
             pending = [c for c, made in blocked if changed & {n for f in made for n in f.nodes}]
 
-    def take(self, heap: list[tuple[tuple[float, int, int, int, int, str], int, _Move]]) -> int:
+    def take(self, heap: list[tuple[tuple[float, int, int, int, int, str], int, Move]]) -> int:
         """Moves taken from the heap, best first, each re-screened when it reaches the top."""
         taken = 0
         seq = len(heap) + 1_000_000
@@ -324,7 +315,7 @@ class Search:
             taken += self.accept(fresh)
         return taken
 
-    def accept(self, mv: _Move) -> int:
+    def accept(self, mv: Move) -> int:
         notes = [""] * len(mv.choices)
         first = self.index0.node(mv.choices[0].node)
         for i in range(1, len(mv.choices)):
@@ -357,6 +348,7 @@ class Search:
                 break
         self.chosen.pop(drop)
         self.memo.clear()
+        self.cut_cache.clear()
         self.log = [c.node for m in self.chosen for c in m.choices]
         self.done = set().union(*(m.gain for m in self.chosen)) if self.chosen else set()
         self.current = apply_changes(self.site0, self.changes)

@@ -23,6 +23,7 @@ on the whole site, with what it clears and creates.
 
 from __future__ import annotations
 
+from collections import Counter
 from dataclasses import replace
 
 from model.plan.changes import (
@@ -35,7 +36,7 @@ from model.plan.changes import (
 )
 from model.plan.evaluate import compare
 from model.plan.greedy import Search
-from model.plan.words import LEFT_REASONS, NO_CHANGE_REASON
+from model.plan.words import CUTOUT_REASON, DESIGN_REASONS, LEFT_REASONS, NO_CHANGE_REASON
 from model.rules.checks import analyse
 from model.rules.findings import Analysis, Finding
 from model.site.models import SiteFile
@@ -55,7 +56,8 @@ def make_plan(site: SiteFile, analysis: Analysis | None = None) -> Plan:
     search.run()
     while True:
         after = analyse(apply_changes(site, search.changes)).findings if search.changes else []
-        got = compare(analysis.findings, after, [dc.node for dc in search.changes])
+        changed = [dc.node for dc in search.changes]
+        got = compare(analysis.findings, after, changed, search.replaced())
         if not got.created or not search.chosen:
             break
         search.drop_last_touching(got.created)
@@ -63,25 +65,34 @@ def make_plan(site: SiteFile, analysis: Analysis | None = None) -> Plan:
 
 
 def _claims(search: Search, analysis: Analysis, cleared: list[Finding]) -> Plan:
-    """The plan with each change's claims taken from the full analysis."""
-    real = {finding_key(f) for f in cleared} & search.targets.keys()
+    """The plan with each change's claims taken from the full analysis.
+
+    A finding listed twice before (two results of one device) and cleared twice
+    is claimed twice; one cleared once of two stays once in ``remaining``.
+    """
+    times = Counter(finding_key(f) for f in cleared if finding_key(f) in search.targets)
     changes: list[DeviceChange] = []
     claimed: set[FindingKey] = set()
     for mv in search.chosen:
         group = mv.made
-        mine = tuple(k for k in search.targets if k in mv.gain and k in real)
+        mine = [k for k in search.targets if k in mv.gain and k in times]
         claimed |= set(mine)
-        changes.append(replace(group[0], clears=mine))
+        changes.append(replace(group[0], clears=tuple(k for k in mine for _ in range(times[k]))))
         changes.extend(group[1:])
-    for k in [k for k in search.targets if k in real and k not in claimed]:
+    for k in [k for k in search.targets if k in times and k not in claimed]:
         j = _owner(search, changes, k)
-        changes[j] = replace(changes[j], clears=(*changes[j].clears, k))
-        claimed.add(k)
-    remaining = [
-        Unresolved(f, LEFT_REASONS.get(f.rule, NO_CHANGE_REASON))
-        for f in analysis.findings
-        if finding_key(f) not in claimed
-    ]
+        changes[j] = replace(changes[j], clears=(*changes[j].clears, *[k] * times[k]))
+    left = Counter(times)
+    remaining: list[Unresolved] = []
+    for f in analysis.findings:
+        k = finding_key(f)
+        if left[k] > 0:
+            left[k] -= 1
+        else:
+            reason = LEFT_REASONS.get(f.rule) or DESIGN_REASONS.get(f.rule, NO_CHANGE_REASON)
+            if f.rule == "overcurrent.not-selective" and f.nodes and search.is_cutout(f.nodes[0]):
+                reason = CUTOUT_REASON
+            remaining.append(Unresolved(f, reason))
     return Plan(changes=changes, remaining=remaining)
 
 
@@ -121,7 +132,8 @@ def device_options(
             after = analyse(apply_changes(site, [dc])).findings
         except (InvalidEdit, ValueError):
             continue
-        got = compare(analysis.findings, after, [node_id])
+        replaced = [node_id] if choice.action == "replace" else []
+        got = compare(analysis.findings, after, [node_id], replaced)
         clears = tuple(k for k in (finding_key(f) for f in got.cleared) if k in search.targets)
         creates = tuple(finding_key(f) for f in got.created)
         dc = replace(dc, clears=clears, creates=creates)

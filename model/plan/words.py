@@ -49,13 +49,31 @@ LEFT_REASONS: dict[str, str] = {
     "settle this range; enter the maker's selectivity table or curves",
 }
 
+#: What a finding a device could clear needs instead, where no catalogue change clears it
+#: without creating another one.
+DESIGN_REASONS: dict[str, str] = {
+    "leakage.over-30pct": "needs the circuits split over more RCDs (a board change), or the "
+    "standing leakage found and reduced (BS 7671 531.3.2)",
+    "resilience.lighting-single-rcd": "needs a lighting circuit moved to an RCD or RCBO not "
+    "behind this device (a board change, BS 7671 314.1)",
+    "coverage.no-overcurrent": "needs an overcurrent device added on the supply side of the "
+    "RCCB or in each circuit it feeds (IEC 61008-1)",
+    "overcurrent.not-selective": "no larger upstream rating (up to two steps) or slower curve "
+    "clears it without another finding: it needs the makers' selectivity tables or a "
+    "different arrangement (BS 7671 536.4.1.2)",
+}
+
 #: Said of a finding no catalogue change clears without creating another one.
 NO_CHANGE_REASON = (
     "no change from the catalogue clears it without creating another finding; "
     "it needs a design decision"
 )
 #: Said of a finding the changes of the plan would have to leave to the network operator.
-CUTOUT_REASON = "the supply's cut-out fuse belongs to the network operator; ask them"
+CUTOUT_REASON = (
+    "the upstream device is the supply's cut-out fuse, which belongs to the network operator "
+    "(ask them about its rating); no change of the device below clears it without creating "
+    "another finding"
+)
 
 
 def _name(node: Any) -> str:
@@ -83,6 +101,8 @@ def _new_rcd(values: dict[str, Any], node: Any, kind: str) -> str:
     words = f"{idn:g} mA Type {wf}"
     if delay == "S":
         words += " type S"
+    elif delay == "set":
+        words += " (the same delay setting)"
     words += f" {KIND_WORDS[kind]}"
     if kind in ("rcbo",):
         curve = values.get("curve", node.curve)
@@ -137,4 +157,11 @@ def change_text(node: Any, choice: Choice, above: Any | None = None) -> str:
     return f"replace {name} {rating} with a {new} ({check})"
 
 
-__all__ = ["CUTOUT_REASON", "KIND_WORDS", "LEFT_REASONS", "NO_CHANGE_REASON", "change_text"]
+__all__ = [
+    "CUTOUT_REASON",
+    "DESIGN_REASONS",
+    "KIND_WORDS",
+    "LEFT_REASONS",
+    "NO_CHANGE_REASON",
+    "change_text",
+]

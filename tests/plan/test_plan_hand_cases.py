@@ -245,3 +245,93 @@ def test_findings_a_device_cannot_clear_remain_with_their_reason() -> None:
     assert plan.changes == []
     left = {u.finding.rule: u.reason for u in plan.remaining}
     assert left["disconnection.zs-too-high"].startswith("needs a wiring change")
+
+
+def test_the_supply_cutout_is_never_changed_and_the_reason_says_whose_it_is() -> None:
+    site = build(
+        [
+            node("cut", "o", "fuse", fuse_type="gG", rated_a=63.0),
+            node("b", "cut", "board"),
+            node("m", "b", "mcb", rated_a=63.0, curve="B"),
+            circuit("c", "m", "fixed-equipment", rated_a=63.0),
+        ]
+    )
+    plan = make_plan(site)
+    # Common practice: the cut-out fuse is the network operator's; a B63 under a 63 A
+    # gG fuse is not selective (IEC 60269-1 gates against IEC 60898-1 Table 7).
+    assert plan.changes == []
+    [left] = plan.remaining
+    assert left.finding.rule == "overcurrent.not-selective"
+    assert "network operator" in left.reason
+
+
+def test_leakage_over_30_percent_needs_a_board_change() -> None:
+    site = build(
+        [
+            BOARD,
+            rcd("ict", "b", 30, rated_a=63.0),
+            node("m1", "ict", "mcb", rated_a=20.0, curve="B"),
+            circuit("c1", "m1", "sockets", rated_a=20.0, leakage_ma=5.0),
+            node("m2", "ict", "mcb", rated_a=20.0, curve="B"),
+            circuit("c2", "m2", "sockets", rated_a=20.0, leakage_ma=5.0),
+        ]
+    )
+    plan = make_plan(site)
+    # BS 7671 531.3.2: 10 mA over 30 % of 30 mA (9 mA); a larger IΔn would take the
+    # sockets' 30 mA protection (411.3.3), so no device change is offered.
+    assert plan.changes == []
+    reasons = {u.finding.rule: u.reason for u in plan.remaining}
+    assert "split over more RCDs" in reasons["leakage.over-30pct"]
+
+
+def test_type_a_upstream_of_a_type_b_becomes_type_b_and_selective() -> None:
+    site = build(
+        [
+            BOARD,
+            rcd("up", "b", 100, delay="S", rated_a=63.0),
+            node("m", "up", "mcb", rated_a=16.0, curve="B"),
+            circuit("c", "m", "fixed-equipment", rated_a=16.0),
+            rcd("rb", "up", 30, kind="rcbo", waveform="B", rated_a=32.0, curve="B"),
+            circuit("ev", "rb", "ev-charger", rated_a=32.0, loads=["ev-no-dc-detect"]),
+        ]
+    )
+    plan = make_plan(site)
+    # Makers' guidance from BS 7671 531.3.3: upstream of a Type B RCD, Type B (advisory);
+    # IEC 61008-1 Table 1 with its 0.25 A note: a 500 mA type S device cannot trip below
+    # 250 mA, where the 30 mA device is sure to break within 40 ms: one device clears both.
+    assert fields(plan) == [("up", "idn_ma", 100.0, 500.0), ("up", "waveform", "A", "B")]
+    assert cleared_rules(plan) == {"cascade.dc-blinding", "cascade.band-overlap"}
+    assert_additional_kept(site, plan)
+
+
+def test_a_failed_test_button_means_a_new_device_of_the_same_rating() -> None:
+    site = build(
+        [
+            BOARD,
+            rcd("rb", "b", 30, kind="rcbo", rated_a=32.0, curve="B"),
+            circuit("c", "rb", "sockets", rated_a=32.0),
+        ],
+        [visit({"rb": {"x1_0": 25.0, "x1_180": 28.0, "button": "failed"}})],
+    )
+    plan = make_plan(site)
+    # Common practice: a device whose test button does not trip it is replaced.
+    assert fields(plan) == [("rb", REPLACED, "30 mA, Type A, general", "30 mA, Type A, general")]
+    assert cleared_rules(plan) == {"reading.button-failed"}
+
+
+def test_breaker_over_breaker_left_for_the_makers_tables() -> None:
+    site = build(
+        [
+            BOARD,
+            node("mm", "b", "mcb", rated_a=40.0, curve="B"),
+            node("b2", "mm", "board"),
+            node("m", "b2", "mcb", rated_a=32.0, curve="B"),
+            circuit("c", "m", "fixed-equipment", rated_a=32.0),
+        ]
+    )
+    plan = make_plan(site)
+    # MCB under MCB: at best partial up to the upstream magnetic threshold (common
+    # practice); neither B50/B63 nor a C or D curve shows it from IEC 60898-1 Table 7.
+    assert plan.changes == []
+    [left] = plan.remaining
+    assert "selectivity tables" in left.reason

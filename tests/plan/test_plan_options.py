@@ -101,20 +101,33 @@ def test_a_move_the_whole_site_check_refuses_is_dropped(monkeypatch: pytest.Monk
     # Screening is only a guide: if it ever let through a change that creates a finding
     # on the whole site, the full check drops that move before the plan is offered.
     from model.plan import greedy
+    from model.plan.moves import Move
 
     site = load_site(SAMPLES / "oak-lane-house.json")
 
     def bad_run(self: greedy.Search) -> None:
         good = next(c for c in self.choices("rc2") if c.values == (("waveform", "A"),))
         worse = next(c for c in self.choices("m8") if ("kind", "rcbo") in c.values)
-        self.accept(greedy._Move((good,), frozenset(), 1, 2))
+        self.accept(Move((good,), frozenset(), 1, 2))
         # 100 mA on rc1: takes the 30 mA protection of BS 7671 411.3.3 from its sockets.
         bad = next(c for c in self.choices("rc1") if c.values == (("idn_ma", 100.0),))
-        self.accept(greedy._Move((bad,), frozenset(), 1, 2))
-        self.accept(greedy._Move((worse,), frozenset(), 1, 3))
+        self.accept(Move((bad,), frozenset(), 1, 2))
+        self.accept(Move((worse,), frozenset(), 1, 3))
 
     monkeypatch.setattr(greedy.Search, "run", bad_run)
     plan = make_plan(site)
     assert [dc.node for dc in plan.changes] == ["rc2", "m8"]
     after = analyse(apply_changes(site, plan.changes))
     assert not [f for f in after.findings if f.rule == "coverage.additional-protection"]
+
+
+def test_which_way_an_idn_change_can_help() -> None:
+    from model.plan.moves import idn_ways
+
+    pair = _f("cascade.ratio-below-3", ("up", "down"), "advisory")
+    # BS 7671 536.4.1.4 (common practice): IΔn(up) ≥ 3 × IΔn(down): up goes up, down goes down.
+    assert idn_ways(pair, "up") == {"same", "up"}
+    assert idn_ways(pair, "down") == {"same", "down"}
+    # BS 7671 411.3.3: additional protection needs 30 mA or less; 531.3.2: leakage a larger IΔn.
+    assert idn_ways(_f("coverage.additional-protection", ("c", "rc")), "rc") == {"same", "down"}
+    assert idn_ways(_f("leakage.over-30pct", ("rc",)), "rc") == {"same", "up"}
