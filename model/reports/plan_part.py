@@ -20,7 +20,8 @@ ROW = "Planned change"
 LEAD = (
     "Device changes that clear the items named beside each, in the order listed. The plan "
     "was checked against every rule on a copy of the site: no change creates a finding the "
-    "site did not have. Nothing here has been done: each change is a proposal for the "
+    "site did not have, other than the tests a new device needs before its selectivity can "
+    "be shown again. Nothing here has been done: each change is a proposal for the "
     "electrician to quote and for a competent person to confirm, and every new or changed "
     "device needs its own tests after installation."
 )

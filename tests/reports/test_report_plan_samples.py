@@ -15,7 +15,8 @@ from pathlib import Path
 
 import pytest
 
-from model.plan.changes import apply_changes, diff_findings, finding_key
+from model.plan.changes import REPLACED, apply_changes, diff_findings, finding_key
+from model.plan.evaluate import compare
 from model.plan.search import make_plan
 from model.reports.render.csv import ENCODING
 from model.reports.study_after import AFTER_LABEL
@@ -36,7 +37,15 @@ def test_planned_items_are_exactly_what_the_plan_clears(path: Path) -> None:
     after = analyse(apply_changes(site, plan.changes))
     diff = diff_findings(result.findings, after.findings, [dc.node for dc in plan.changes])
     assert claimed <= {finding_key(f) for f in diff.cleared}
-    assert diff.created == []
+    # no new finding, as the planner counts them (README "Planning a remedy"): a device
+    # replaced like for like leaves its pair "not guaranteed" until the new one is
+    # tested, a test to make after installation, not a finding the change creates
+    replaced = [dc.node for dc in plan.changes if any(fc.field == REPLACED for fc in dc.fields)]
+    compared = compare(result.findings, after.findings, [dc.node for dc in plan.changes], replaced)
+    assert compared.created == []
+    for f in diff.created:
+        assert f.rule == "cascade.band-overlap" and f.severity == "investigate"
+        assert set(f.nodes) & set(replaced)
     data = render(site, "remedial", "csv", analysis=result)  # the writer makes the plan
     rows = [r for r in csv.DictReader(io.StringIO(data.decode(ENCODING))) if r["number"]]
     assert len(rows) == len(result.findings)
