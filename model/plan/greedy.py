@@ -65,6 +65,9 @@ DEVICE_KINDS = RCD_KINDS | OVERCURRENT_KINDS
 
 
 class Search:
+    """The state of one search: the site as planned so far, the moves taken, and the
+    screening results still valid (see the module's docstring)."""
+
     def __init__(self, site: SiteFile, analysis: Analysis) -> None:
         self.site0 = site
         self.index0 = analysis.index if analysis.index is not None else SiteIndex.build(site)
