@@ -160,6 +160,8 @@ def run_once(tree: Path, site: Path, kind: str, out: Path) -> tuple[float, float
     t0 = time.perf_counter()
     cmd = [sys.executable, "-m", "tui", "report", str(site), "--kind", kind]
     cmd += ["--out", str(out), "--force"]
+    if "--no-plan" in (tree / "tui/cli/commands/report.py").read_text(encoding="utf-8"):
+        cmd.append("--no-plan")  # the renderers alone; making the plan is bench_report_plan's
     subprocess.run(cmd, cwd=tree, check=True, stdout=subprocess.DEVNULL)
     wall = time.perf_counter() - t0
     after = resource.getrusage(resource.RUSAGE_CHILDREN)

@@ -10,9 +10,12 @@ from __future__ import annotations
 import datetime as dt
 from dataclasses import dataclass, replace
 
+from model.plan.changes import Plan, finding_key
 from model.reports.analysis_view import findings_by_board, site_index
 from model.reports.charts import PairChart, pair_chart_data
 from model.reports.heading import Heading, build_heading
+from model.reports.plan_part import ROW as PLANNED
+from model.reports.plan_part import PlanPart, build_plan_part, planned_by_key, planned_row
 from model.reports.text import clean, with_way
 from model.rules.findings import CAUTION, Analysis, Finding
 from model.site.models import SiteFile, Visit
@@ -57,6 +60,8 @@ class RemedialItem:
     charts: tuple[int, ...] = ()
     #: The board's way of each node in ``node_labels`` ('' where none is given).
     node_ways: tuple[str, ...] = ()
+    #: The planned change(s) that clear this item, in words ('' where the plan clears none).
+    planned: str = ""
 
     @property
     def named_nodes(self) -> tuple[str, ...]:
@@ -90,6 +95,8 @@ class RemedialItem:
             out.append((MEASURED, self.measured or "—", False))
             out.append((LIMIT, self.band or "—", False))
         out.append((ACTION, self.action, True))
+        if self.planned:
+            out.append((PLANNED, self.planned, True))
         out.append((REFERENCE, self.source_text(), False))
         if self.charts:
             out.append((CHART, f"{self.charts_text()} ({chart_where})", False))
@@ -113,6 +120,13 @@ class RemedialDoc:
     groups: tuple[BoardGroup, ...]
     charts: tuple[PairChart, ...]
     caution: str = CAUTION
+    #: The planned remedy (None: no plan was asked for, or it has nothing to say).
+    plan: PlanPart | None = None
+
+    @property
+    def closing_caution(self) -> str:
+        """The closing caution: the plan's (when there is a plan) beside the general one."""
+        return f"{self.plan.caution} {self.caution}" if self.plan is not None else self.caution
 
     @property
     def items(self) -> list[RemedialItem]:
@@ -153,20 +167,34 @@ def build_remedial(
     *,
     generated: dt.datetime | None = None,
     later: Visit | None = None,
+    plan: Plan | None = None,
 ) -> RemedialDoc:
-    """The remedial-work list: one item per finding, grouped by board, worst first."""
+    """The remedial-work list: one item per finding, grouped by board, worst first.
+
+    ``plan`` (made for this site and ``analysis``): each item it clears shows the
+    change under its Action, and the document gains the plan's part (changes in
+    order, what remains and why) and its caution.
+    """
     idx = site_index(site, analysis)
     visit = site.latest_visit()
     pairs = _chart_pairs(analysis)
     charts = [_printed_chart(site, analysis, n, u, d) for n, (u, d) in enumerate(pairs, start=1)]
     chart_of = {(c.up_id, c.down_id): c.number for c in charts}
+    planned = planned_by_key(plan)
+    total = len(plan.changes) if plan is not None else 0
+    item_of: dict[tuple[str, tuple[str, ...]], list[int]] = {}
     groups: list[BoardGroup] = []
     number = 0
     for board, fs in findings_by_board(idx, analysis):
         items: list[RemedialItem] = []
         for f in fs:
             number += 1
-            items.append(_item(number, idx, f, chart_of))
+            item = _item(number, idx, f, chart_of)
+            key = finding_key(f)
+            item_of.setdefault(key, []).append(number)
+            if key in planned:
+                item = replace(item, planned=planned_row(planned[key], total))
+            items.append(item)
         bnode = idx.by_id.get(board)
         place = clean(getattr(bnode, "place", "")) if bnode is not None else ""
         label = clean(idx.label(board)) if bnode is not None else clean(board)
@@ -177,6 +205,7 @@ def build_remedial(
         groups=tuple(groups),
         charts=tuple(charts),
         caution=analysis.caution,
+        plan=build_plan_part(plan, item_of),
     )
 
 

@@ -21,6 +21,7 @@ from dataclasses import replace
 from pathlib import Path
 from typing import Any, Literal
 
+from model.plan.changes import Plan
 from model.reports import remedial, sheet, study
 from model.reports.remedial import build_remedial
 from model.reports.sheet import build_sheet
@@ -129,12 +130,18 @@ def render(
     generated: dt.datetime | None = None,
     analysis: Analysis | None = None,
     visit: str | None = None,
+    plan: Plan | bool = True,
 ) -> bytes:
     """The bytes of one document in one format, of ``visit`` (default the latest).
 
     A document of an earlier visit is built from the site as it stood then
     (:func:`report_visit`) and says in its heading that a later visit exists;
     ``analysis`` is used only for the latest visit.
+
+    ``plan``: True (the default) makes the planned remedy of the site as shown
+    (:func:`model.plan.search.make_plan`) for the remedial list and the study;
+    False leaves it out; a :class:`Plan` is used as given (it must have been made
+    for the site as shown).  The test sheet never carries a plan.
     """
     if kind not in KINDS:
         raise ReportError(f"unknown report kind {kind!r}; choose {' or '.join(KINDS)}")
@@ -152,15 +159,18 @@ def render(
         from model.reports.render import md_study, pdf_study
 
         result = analysis if analysis is not None else analyse(shown)
-        doc_study = build_study(shown, result, generated=generated)
+        made = _plan_of(shown, result, plan)
+        doc_study = build_study(shown, result, generated=generated, plan=made)
         return (pdf_study.study_pdf if fmt == "pdf" else md_study.study_md)(doc_study)
     renderer = _renderer(kind, fmt)
     if kind == "remedial":
+        result = analysis if analysis is not None else analyse(shown)
         doc: Any = build_remedial(
             shown,
-            analysis if analysis is not None else analyse(shown),
+            result,
             generated=generated,
             later=later,
+            plan=_plan_of(shown, result, plan),
         )
     else:
         from model.reports.zs_sheet import build_zs_rows
@@ -176,6 +186,17 @@ def render(
             table = "\n".join(["", *zs_table_md(rows)])
             return (text[:cut] + table + text[cut:]).encode("utf-8")
     return renderer(doc)
+
+
+def _plan_of(site: SiteFile, analysis: Analysis, plan: Plan | bool) -> Plan | None:
+    """The plan a document carries: made here (True), none (False) or the one given."""
+    if plan is False:
+        return None
+    if plan is True:
+        from model.plan.search import make_plan
+
+        return make_plan(site, analysis)
+    return plan
 
 
 def _renderer(kind: str, fmt: str) -> Callable[[Any], bytes]:
@@ -209,8 +230,12 @@ def write_report(
     force: bool = False,
     generated: dt.datetime | None = None,
     visit: str | None = None,
+    plan: Plan | bool = True,
 ) -> Path:
     """Render one document of ``visit`` (default the latest) to ``out_path``; return the path.
+
+    ``plan`` as for :func:`render` (by default the remedial list and the study carry
+    the planned remedy).
 
     The document is rendered in memory first, then written by
     :func:`model.storage.files.write_atomic` (the one atomic writer; a link at
@@ -237,7 +262,7 @@ def write_report(
         raise
     except OSError as exc:
         raise ReportError(f"{out}: cannot write ({plain_os_error(exc)})") from None
-    data = render(site, kind, fmt, generated=generated, visit=visit)
+    data = render(site, kind, fmt, generated=generated, visit=visit, plan=plan)
     try:
         write_atomic(out, data, replace=force, backup=False, follow_links=False)
     except FileExistsError:

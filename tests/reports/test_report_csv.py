@@ -152,4 +152,6 @@ def test_remedial_csv_one_row_per_finding(tmp_path: Path) -> None:
     result = analyse(site)
     assert len(body) == len(result.findings)
     assert sorted(r[2] for r in body) == sorted(f.rule for f in result.findings)
-    assert STATEMENT in rows[-1][-1]
+    # the statement stays in the `notes` column (README), before the added `planned_change`
+    assert STATEMENT in rows[-1][REMEDIAL_COLUMNS.index("notes")]
+    assert rows[-1][-1] == ""

@@ -100,6 +100,7 @@ REMEDIAL_COLUMNS: tuple[str, ...] = (
     "basis",
     "done",
     "notes",
+    "planned_change",  # added last: the planned change(s) that clear the item, or empty
 )
 
 
@@ -179,9 +180,10 @@ def remedial_csv(doc: RemedialDoc) -> bytes:
                     i.basis,
                     "",
                     "",
+                    text_cell(i.planned),
                 ]
             )
     last = [""] * len(REMEDIAL_COLUMNS)
-    last[-1] = _statement(doc)
+    last[REMEDIAL_COLUMNS.index("notes")] = _statement(doc)
     rows.append(last)
     return _write(rows)

@@ -10,6 +10,7 @@ from __future__ import annotations
 import re
 
 from model.reports.heading import Heading
+from model.reports.plan_part import REMAINING_TITLE, PlanPart
 from model.reports.remedial import CHECK_IDS_TITLE, RemedialDoc
 from model.reports.sheet import (
     MARK_FAIL,
@@ -71,6 +72,8 @@ def remedial_md(doc: RemedialDoc) -> bytes:
     total = sum(doc.counts.values())
     summary = " · ".join(f"{n} {s}" for s, n in doc.counts.items())
     lines += [f"**{total} item(s) to act on:** {summary}", ""]
+    if doc.plan is not None:
+        lines += [esc(doc.plan.summary(total)), ""]
     if not total:
         lines += ["No work arises from the checks made on this visit.", ""]
     for g in doc.groups:
@@ -83,6 +86,8 @@ def remedial_md(doc: RemedialDoc) -> bytes:
             for name, text, _ in i.rows("in the PDF"):
                 lines.append(f"- **{esc(name)}:** {esc(text)}")
             lines += ["- [ ] Done. Notes: ______________________________________", ""]
+    if doc.plan is not None:
+        lines += plan_md(doc.plan)
     if doc.charts:
         lines += ["## Series pairs", ""]
         for c in doc.charts:
@@ -95,8 +100,26 @@ def remedial_md(doc: RemedialDoc) -> bytes:
         lines += [f"## {esc(CHECK_IDS_TITLE)}", ""]
         lines += [f"- {i.number}. `{i.rule}`" for i in doc.items]
         lines.append("")
-    lines += _bottom(h, doc.caution)
+    lines += _bottom(h, doc.closing_caution)
     return "\n".join(lines).encode("utf-8")
+
+
+def plan_md(part: PlanPart) -> list[str]:
+    """The plan's part of the remedial list: changes in order, then what remains and why."""
+    lines = [f"## {esc(part.title)}", "", esc(part.lead), ""]
+    for s in part.steps:
+        clears = f" ({esc(s.items_text())})" if s.items else ""
+        lines.append(f"{s.number}. **{esc(s.text)}**{clears}")
+    if part.steps:
+        lines.append("")
+    if part.remaining:
+        lines += [f"### {esc(REMAINING_TITLE)}", ""]
+        for r in part.remaining:
+            which = f"{esc(r.items_text().capitalize())}: " if r.items else ""
+            lines.append(f"- {which}{esc(r.message)} *Why:* {esc(r.reason)}")
+        lines.append("")
+    lines += [f"*{esc(part.caution)}*", ""]
+    return lines
 
 
 def cell_md(c: SheetCell, unit: str = "ms") -> str:

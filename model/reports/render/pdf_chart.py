@@ -34,10 +34,14 @@ def _fmt_ms(v: float) -> str:
     return f"{v / 1000:g} s" if v >= 1000 else f"{v:g} ms"
 
 
-def draw_chart(pdf: ReportPdf, c: PairChart, x: float, y: float, width: float) -> None:
-    """One pair chart: title, log-log plot of both bands with readings, legend."""
+def draw_chart(
+    pdf: ReportPdf, c: PairChart, x: float, y: float, width: float, title: str | None = None
+) -> None:
+    """One pair chart: title (``title`` in place of the usual one), log-log plot of both
+    bands with readings, legend."""
     pdf.set_y(y)
-    pdf.para(x, width, 5, f"Pair chart {c.number}: {c.up_label} above {c.down_label}", 10.5, True)
+    title = title or f"Pair chart {c.number}: {c.up_label} above {c.down_label}"
+    pdf.para(x, width, 5, title, 10.5, True)
     expl = c.explanation[:1].upper() + c.explanation[1:]
     pdf.para(x, width, 3.9, expl + ".", 7.8, False, MUTED)
     top = pdf.get_y() + 5.5

@@ -13,12 +13,18 @@ from model.reports.render.pdf_base import (
     caution_box,
 )
 from model.reports.render.pdf_chart import CHART_BLOCK_H, draw_chart
+from model.reports.render.pdf_plan import draw_plan
 
 LABEL_W = 20.0
 
 
 def _item_rows(i: RemedialItem) -> list[tuple[str, str, bool]]:
     return i.rows("end of this document")
+
+
+def _row_h(pdf: ReportPdf, w: float, lh: float, name: str, text: str, bold: bool) -> float:
+    """A row's height: its text's, or its name's where the name wraps to more lines."""
+    return max(pdf.para_h(w - LABEL_W, lh, text, 8.6, bold), pdf.para_h(LABEL_W, lh, name, 7.6))
 
 
 def _draw_item(pdf: ReportPdf, i: RemedialItem, draw: bool) -> float:
@@ -32,8 +38,8 @@ def _draw_item(pdf: ReportPdf, i: RemedialItem, draw: bool) -> float:
         h += pdf.para_h(w, lh, label, 9.2, True)
         h += pdf.para_h(w, lh - 0.4, where, 7.8)
     h += 1.2
-    for _, text, bold in _item_rows(i):
-        h += pdf.para_h(w - LABEL_W, lh, text, 8.6, bold) + 0.5
+    for name, text, bold in _item_rows(i):
+        h += _row_h(pdf, w, lh, name, text, bold) + 0.5
     h += 12.5
     if not draw:
         return h
@@ -58,11 +64,11 @@ def _draw_item(pdf: ReportPdf, i: RemedialItem, draw: bool) -> float:
     pdf.set_y(pdf.get_y() + 1.2)
     for name, text, bold in _item_rows(i):
         y = pdf.get_y()
-        pdf.font(7.6)
-        pdf.ink(MUTED)
-        pdf.text_line(x0, y, LABEL_W, lh, name)
+        pdf.set_xy(x0, y)
+        pdf.para(x0, LABEL_W, lh, name, 7.6, False, MUTED)  # a long name wraps in its column
+        pdf.set_y(y)
         pdf.para(x0 + LABEL_W, w - LABEL_W, lh, text, 8.6, bold)
-        pdf.set_y(pdf.get_y() + 0.5)
+        pdf.set_y(y + _row_h(pdf, w, lh, name, text, bold) + 0.5)
     # the box to tick and the line for notes
     y = pdf.get_y() + 2.0
     pdf.pen(INK)
@@ -133,6 +139,8 @@ def remedial_pdf(doc: RemedialDoc) -> bytes:
         if total
         else "No work arises from the checks made on this visit."
     )
+    if doc.plan is not None:
+        lead += " " + doc.plan.summary(total)
     pdf.title_block(doc.heading, lead)
     _summary(pdf, doc.counts)
     for g in doc.groups:
@@ -142,6 +150,8 @@ def remedial_pdf(doc: RemedialDoc) -> bytes:
             if pdf.get_y() + h > pdf.bottom:
                 pdf.add_page()
             _draw_item(pdf, i, draw=True)
+    if doc.plan is not None:
+        draw_plan(pdf, doc.plan)
     if doc.charts:
         pdf.add_page()
         pdf.para(pdf.l_margin, pdf.content_w, 7, "Series pairs", 14, True)
@@ -162,6 +172,6 @@ def remedial_pdf(doc: RemedialDoc) -> bytes:
         for c in doc.charts:
             pdf.room(CHART_BLOCK_H)
             draw_chart(pdf, c, pdf.l_margin, pdf.get_y(), pdf.content_w)
-    caution_box(pdf, doc.caution)
+    caution_box(pdf, doc.closing_caution)
     pdf.stamp_pages()
     return bytes(pdf.output())

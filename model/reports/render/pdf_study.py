@@ -13,6 +13,7 @@ from collections.abc import Sequence
 import numpy as np
 
 from model.reports.oc_chart import OcChart
+from model.reports.render.pdf_after import draw_after, draw_made, draw_plan_note
 from model.reports.render.pdf_axes import (
     LogAxes,
     draw_band,
@@ -47,10 +48,15 @@ def _fmt_s(t: float) -> str:
     return f"{t:g} s" if t >= 0.01 else f"{t * 1000:g} ms"
 
 
-def draw_oc_chart(pdf: ReportPdf, c: OcChart, x: float, y: float, width: float) -> None:
-    """One fuse or breaker pair: title, verdict, log-log plot, legend and the data it rests on."""
+def draw_oc_chart(
+    pdf: ReportPdf, c: OcChart, x: float, y: float, width: float, title: str | None = None
+) -> None:
+    """One fuse or breaker pair: title (``title`` in place of the usual one), verdict,
+    log-log plot, legend and the data it rests on."""
     pdf.set_y(y)
-    title = f"Pair {c.number}: {c.up_label} ({c.up_name}) over {c.down_label} ({c.down_name})"
+    title = title or (
+        f"Pair {c.number}: {c.up_label} ({c.up_name}) over {c.down_label} ({c.down_name})"
+    )
     pdf.para(x, width, 5, title, 10.5, True)
     pdf.para(x, width, 4.2, f"Verdict: {c.verdict} — {c.verdict_words}.", 9, True)
     pdf.para(x, width, 3.9, c.explanation + ".", 7.8, False, MUTED)
@@ -155,6 +161,8 @@ def study_pdf(doc: StudyDoc) -> bytes:
         "where selectivity is not shown or not given, and the data it rests on."
     )
     pdf.title_block(doc.heading, lead)
+    if doc.after is not None:
+        draw_plan_note(pdf, doc.after)
     w = pdf.content_w
     pdf.para(pdf.l_margin, w, 7, "Residual-current pairs", 13, True)
     pdf.para(pdf.l_margin, w, 4, RCD_METHOD, 8, False, MUTED)
@@ -165,6 +173,7 @@ def study_pdf(doc: StudyDoc) -> bytes:
             pdf.add_page()
         pdf.para(pdf.l_margin, w, 4.5, f"Verdict: {s.verdict}", 9, True)
         draw_chart(pdf, s.chart, pdf.l_margin, pdf.get_y(), w)
+        draw_after(pdf, doc.after_of(s.chart.up_id, s.chart.down_id), draw_oc_chart)
     pdf.add_page()
     pdf.para(pdf.l_margin, w, 7, "Fuse and breaker pairs", 13, True)
     pdf.para(pdf.l_margin, w, 4, OC_METHOD, 8, False, MUTED)
@@ -174,9 +183,12 @@ def study_pdf(doc: StudyDoc) -> bytes:
         if pdf.get_y() + OC_BLOCK_H > pdf.bottom:
             pdf.add_page()
         draw_oc_chart(pdf, c, pdf.l_margin, pdf.get_y() + 3, w)
+        draw_after(pdf, doc.after_of(c.up_id, c.down_id), draw_oc_chart)
+    if doc.after is not None:
+        draw_made(pdf, doc.after, draw_oc_chart)
     if doc.zs_rows:
         pdf.add_page()
         zs_table(pdf, doc.zs_rows)
-    caution_box(pdf, doc.caution)
+    caution_box(pdf, doc.closing_caution)
     pdf.stamp_pages()
     return bytes(pdf.output())

@@ -5,6 +5,7 @@ from __future__ import annotations
 import textwrap
 
 from model.reports.heading import Heading
+from model.reports.plan_part import REMAINING_TITLE, PlanPart
 from model.reports.remedial import CHECK_IDS_TITLE, RemedialDoc
 from model.reports.sheet import MARK_FAIL, MARK_NOT_JUDGED, MARK_OUT, MARK_PASS, SheetCell, SheetDoc
 from model.reports.text import clean, with_way
@@ -55,6 +56,8 @@ def remedial_txt(doc: RemedialDoc) -> bytes:
     lines = _top(h)
     total = sum(doc.counts.values())
     lines.append(f"{total} item(s): " + ", ".join(f"{n} {s}" for s, n in doc.counts.items()))
+    if doc.plan is not None:
+        lines += _wrap(doc.plan.summary(total))
     if not total:
         lines.append("No work arises from the checks made on this visit.")
     for g in doc.groups:
@@ -65,8 +68,10 @@ def remedial_txt(doc: RemedialDoc) -> bytes:
             for label, where in zip(i.named_nodes, i.where, strict=True):
                 lines += _wrap(f"{label}: {where}", "      ")
             for name, text, _ in i.rows("in the PDF"):
-                lines += _wrap(text, _IND, f"      {name + ':':<11}")
+                lines += _wrap(text, _IND, f"      {name + ':':<10} ")
             lines.append("      Notes: " + "_" * 60)
+    if doc.plan is not None:
+        lines += _plan_txt(doc.plan)
     if doc.charts:
         lines += ["", "Series pairs", "------------"]
         for c in doc.charts:
@@ -79,8 +84,22 @@ def remedial_txt(doc: RemedialDoc) -> bytes:
     if doc.items:
         lines += ["", CHECK_IDS_TITLE, "-" * min(WIDTH, len(CHECK_IDS_TITLE))]
         lines += [f"{i.number:>4}  {i.rule}" for i in doc.items]
-    lines += _bottom(h, doc.caution)
+    lines += _bottom(h, doc.closing_caution)
     return ("\n".join(lines) + "\n").encode("utf-8")
+
+
+def _plan_txt(part: PlanPart) -> list[str]:
+    """The plan's part: changes in order, then what remains and why, then its caution."""
+    lines = ["", part.title.upper(), "-" * len(part.title), *_wrap(part.lead)]
+    for s in part.steps:
+        clears = f" ({s.items_text()})" if s.items else ""
+        lines += ["", *_wrap(s.text + clears, "    ", f"{s.number:>2}. ")]
+    if part.remaining:
+        lines += ["", REMAINING_TITLE, "-" * len(REMAINING_TITLE)]
+        for r in part.remaining:
+            which = f"{r.items_text().capitalize()}: " if r.items else ""
+            lines += _wrap(f"{which}{r.message} Why: {r.reason}", "    ", "  - ")
+    return lines + ["", *_wrap("Caution: " + part.caution)]
 
 
 def _cell(c: SheetCell, unit: str = "ms") -> str:

@@ -22,11 +22,12 @@ from tui.cli.commands.common import load_or_report
 def register(sub: argparse._SubParsersAction) -> None:  # type: ignore[type-arg]
     p = sub.add_parser(
         "report",
-        help="write the remedial-work list or the test sheet (PDF, Markdown, CSV or text)",
+        help="write the remedial-work list, the test sheet or the coordination study",
         description="Write a document of the latest visit, or of an earlier one with --visit "
         "(the site as it stood then; the heading says a later visit exists). Without --out "
         "the file goes beside the site file as <site name>-<kind>-<visit date>.<format>. An "
-        "existing file is never replaced without --force. Exit codes: 0 written, 2 bad input "
+        "existing file is never replaced without --force. The remedial list and the study carry the "
+        "planned device changes unless --no-plan. Exit codes: 0 written, 2 bad input "
         "or refused.",
     )
     p.add_argument("site", help="path to the site file (.json)")
@@ -43,6 +44,13 @@ def register(sub: argparse._SubParsersAction) -> None:  # type: ignore[type-arg]
     )
     p.add_argument("--out", help="file to write (default: beside the site file)")
     p.add_argument("--force", action="store_true", help="replace the file if it exists")
+    p.add_argument(
+        "--no-plan",
+        dest="plan",
+        action="store_false",
+        help="leave out the planned device changes (the remedial list and the study carry them "
+        "by default)",
+    )
     p.set_defaults(func=run)
 
 
@@ -71,7 +79,9 @@ def run(args: argparse.Namespace) -> int:
         print(f"tripwise: {out}: not written there: it is the site file", file=sys.stderr)
         return 2
     try:
-        written = write_report(site, args.kind, args.fmt, out, force=args.force, visit=args.visit)
+        written = write_report(
+            site, args.kind, args.fmt, out, force=args.force, visit=args.visit, plan=args.plan
+        )
     except ReportError as exc:
         print(f"tripwise: {exc}", file=sys.stderr)
         return 2
