@@ -305,6 +305,10 @@ class ReportPdf(FPDF):
         h = self.heading
         for n in range(1, total + 1):
             self.page = n
+            # The page's content may end with any fill colour, and fpdf2 leaves a text
+            # colour out when it equals the fill colour it last set: set the fill on
+            # this page so the header and footer texts get their own colours.
+            self.set_fill_color(255, 255, 255)
             left, right = self.l_margin, self.w - self.r_margin
             self.pen(ACCENT)
             self.set_line_width(0.6)
