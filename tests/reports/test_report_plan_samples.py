@@ -37,15 +37,15 @@ def test_planned_items_are_exactly_what_the_plan_clears(path: Path) -> None:
     after = analyse(apply_changes(site, plan.changes))
     diff = diff_findings(result.findings, after.findings, [dc.node for dc in plan.changes])
     assert claimed <= {finding_key(f) for f in diff.cleared}
-    # no new finding, as the planner counts them (README "Planning a remedy"): a device
-    # replaced like for like leaves its pair "not guaranteed" until the new one is
-    # tested, a test to make after installation, not a finding the change creates
+    # no new finding, as the planner counts them (README "Planning a remedy"): a changed
+    # device (new, or replaced like for like) leaves its pair "not guaranteed" until it
+    # is tested, a test to make after installation, not a finding the change creates
     replaced = [dc.node for dc in plan.changes if any(fc.field == REPLACED for fc in dc.fields)]
     compared = compare(result.findings, after.findings, [dc.node for dc in plan.changes], replaced)
     assert compared.created == []
     for f in diff.created:
         assert f.rule == "cascade.band-overlap" and f.severity == "investigate"
-        assert set(f.nodes) & set(replaced)
+        assert set(f.nodes) & {dc.node for dc in plan.changes}
     data = render(site, "remedial", "csv", analysis=result)  # the writer makes the plan
     rows = [r for r in csv.DictReader(io.StringIO(data.decode(ENCODING))) if r["number"]]
     assert len(rows) == len(result.findings)

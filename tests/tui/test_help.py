@@ -80,3 +80,31 @@ async def test_the_palette_lists_every_action(oak_lane: Path) -> None:
         from tui.screens.impact import ImpactScreen
 
         assert isinstance(app.screen, ImpactScreen)
+
+
+async def test_a_narrow_key_line_keeps_help_and_the_palette_and_fits(
+    oak_lane: Path, tmp_path: Path
+) -> None:
+    app = make_app(oak_lane)
+    async with app.run_test(size=(80, 24)) as pilot:
+        await app.settle()
+        await pilot.pause()
+        for focus in ("t", "f"):  # the tree's keys, then the findings'
+            await pilot.press(focus)
+            await pilot.pause()
+            keys = list(app.main.query(FooterKey))
+            said = {k.description for k in keys}
+            assert {"Help", "palette"} <= said, said
+            assert "What if" in said  # the trial of a change stays on the line
+            # every key drawn whole on the line: their cells add up to less than 80
+            assert sum(len(k.key_display) + len(k.description) + 2 for k in keys) <= 78
+            if focus == "t":
+                assert "Move" not in said and "Copy" not in said  # in the help and palette
+    wide = tmp_path / "wide.json"  # a second copy: the first app's session may linger
+    wide.write_bytes(oak_lane.read_bytes())
+    app = make_app(wide)
+    async with app.run_test(size=(160, 40)) as pilot:
+        await app.settle()
+        await pilot.pause()
+        said = {k.description for k in app.main.query(FooterKey)}
+        assert {"Move", "Copy", "Impact", "Pair", "What if", "Help", "Quit"} <= said
