@@ -12,7 +12,7 @@ from __future__ import annotations
 from collections.abc import Callable
 
 from model.reports.oc_chart import OcChart
-from model.reports.render.pdf_base import ACCENT, MUTED, PANEL, ReportPdf
+from model.reports.render.pdf_base import ACCENT, MUTED, PANEL, ReportPdf, accent_panel
 from model.reports.render.pdf_chart import CHART_BLOCK_H, draw_chart
 from model.reports.study_after import (
     AFTER_LABEL,
@@ -127,11 +127,7 @@ def draw_plan_note(pdf: ReportPdf, after: AfterStudy) -> None:
     h += sum(pdf.para_h(w - 12, 3.9, t, 8.2) for t in lines) + 5
     pdf.room(h + 4)
     y = pdf.get_y() + 1
-    pdf.set_fill_color(*PANEL)
-    pdf.rect(x, y, w, h, style="F")
-    pdf.set_fill_color(*ACCENT)
-    pdf.rect(x, y, 1.4, h, style="F")
-    pdf.set_fill_color(*PANEL)  # text set in the fill colour prints in the page's last one
+    accent_panel(pdf, x, y, w, h)
     pdf.set_y(y + 2.5)
     pdf.para(x + 4, w - 8, 4, PLAN_NOTE, 8.4, True)
     for t in lines:

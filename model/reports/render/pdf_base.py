@@ -374,6 +374,15 @@ def glyph_stand_in(char: str) -> str:
     return f"[U+{ord(char):04X}]"
 
 
+def accent_panel(pdf: ReportPdf, x: float, y: float, w: float, h: float) -> None:
+    """A shaded box with an accent edge at the left, for the text set in it next."""
+    pdf.set_fill_color(*PANEL)
+    pdf.rect(x, y, w, h, style="F")
+    pdf.set_fill_color(*ACCENT)
+    pdf.rect(x, y, 1.4, h, style="F")
+    pdf.set_fill_color(*PANEL)  # text set in the fill colour prints in the page's last one
+
+
 def caution_box(pdf: ReportPdf, caution: str) -> None:
     """The caution of the analysis, boxed, after the last item or row."""
     h = pdf.para_h(pdf.content_w - 8, 4.2, caution, 8.4) + 6

@@ -3,7 +3,7 @@
 from __future__ import annotations
 
 from model.reports.plan_part import REMAINING_TITLE, PlanPart
-from model.reports.render.pdf_base import ACCENT, INK, MUTED, PANEL, ReportPdf
+from model.reports.render.pdf_base import ACCENT, INK, MUTED, ReportPdf, accent_panel
 
 NUM_W = 8.0
 LH = 4.3
@@ -60,11 +60,7 @@ def _caution(pdf: ReportPdf, caution: str, h: float) -> None:
     """The plan's caution, in a shaded box with an accent edge, before its changes."""
     x, w = pdf.l_margin, pdf.content_w
     y = pdf.get_y() + 2
-    pdf.set_fill_color(*PANEL)
-    pdf.rect(x, y, w, h, style="F")
-    pdf.set_fill_color(*ACCENT)
-    pdf.rect(x, y, 1.4, h, style="F")
-    pdf.set_fill_color(*PANEL)  # text set in the fill colour prints in the page's last one
+    accent_panel(pdf, x, y, w, h)
     pdf.set_y(y + 2.5)
     pdf.para(x + 4, w - 8, 4.1, caution, 8.2, True)
     pdf.set_y(y + h + 3)
