@@ -97,28 +97,22 @@ def after_pairs(site: SiteFile, analysis: Analysis, plan: Plan | None) -> AfterS
             return f"no longer a pair: {' and '.join(gone)} is removed by the plan"
         return f"no longer a series pair of {what} after the change"
 
-    for p in analysis.pairs:
-        before_keys.add(("rcd", (p.up, p.down)))
-        if not touched_ids & {p.up, p.down}:
-            continue
-        out[(p.up, p.down)] = _rcd_after(after_site, after, plan, p.up, p.down) or AfterPair(
-            p.up,
-            p.down,
-            "rcd",
-            _changes_of(plan, p.up, p.down),
-            gone=gone_text(p.up, p.down, "residual-current devices"),
-        )
-    for q in analysis.oc_pairs:
-        before_keys.add(("oc", (q.up, q.down)))
-        if not touched_ids & {q.up, q.down}:
-            continue
-        out[(q.up, q.down)] = _oc_after(after_site, after, plan, q.up, q.down) or AfterPair(
-            q.up,
-            q.down,
-            "oc",
-            _changes_of(plan, q.up, q.down),
-            gone=gone_text(q.up, q.down, "overcurrent devices"),
-        )
+    kinds = (
+        ("rcd", analysis.pairs, _rcd_after, "residual-current devices"),
+        ("oc", analysis.oc_pairs, _oc_after, "overcurrent devices"),
+    )
+    for kind, pairs, after_of, what in kinds:
+        for p in pairs:
+            before_keys.add((kind, (p.up, p.down)))
+            if not touched_ids & {p.up, p.down}:
+                continue
+            out[(p.up, p.down)] = after_of(after_site, after, plan, p.up, p.down) or AfterPair(
+                p.up,
+                p.down,
+                kind,
+                _changes_of(plan, p.up, p.down),
+                gone=gone_text(p.up, p.down, what),
+            )
     made: list[AfterPair] = []
     for p in after.pairs:
         if ("rcd", (p.up, p.down)) not in before_keys:
