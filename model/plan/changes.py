@@ -211,7 +211,7 @@ def _record_ops(site: SiteFile, ops: Sequence[Op], when: str) -> Iterable[Op]:
                 v.readings[d].model_dump(mode="json", exclude_defaults=True), ensure_ascii=False
             )
             lines.append(
-                f"{when}: {d} ({node.label or d}; {rating}) was changed by an accepted plan; "
+                f"{when}: {d} ({node.label or d}; {rating}) changed by the plan; "
                 f"its readings of this visit, of the earlier device: {values}"
             )
         notes = "\n".join(x for x in (v.notes, *lines) if x)
