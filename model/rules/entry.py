@@ -141,13 +141,24 @@ def chosen_waveform(texts: dict[str, str]) -> str:
     return texts.get("waveform") or DEFAULT_TEST_WAVEFORM
 
 
+class FieldProblem(ValueError):
+    """A typed value refused, with the field it was typed in (``field``)."""
+
+    def __init__(self, field: str, problem: str) -> None:
+        super().__init__(problem)
+        self.field = field
+
+
 def _typed(texts: dict[str, str], names: tuple[str, ...]) -> dict[str, Any]:
     data: dict[str, Any] = {}
     for name in names:
-        value = typed_value(name, texts.get(name, ""))
+        try:
+            value = typed_value(name, texts.get(name, ""))
+        except ValueError as exc:
+            raise FieldProblem(name, str(exc)) from None
         problem = value_problem(name, value)
         if problem:
-            raise ValueError(problem)
+            raise FieldProblem(name, problem)
         if value not in (None, ""):
             data[name] = value
     return data
@@ -161,8 +172,8 @@ def reading_from_texts(
     ``base`` is the reading recorded so far and ``page`` the test waveform
     whose results the form was showing (see :func:`entry_texts`): the form's
     page replaces those results and every other waveform's results of
-    ``base`` are kept.  Raises ValueError (a ``ValidationError`` when the
-    model refuses a value).
+    ``base`` are kept.  Raises ValueError: :class:`FieldProblem` naming the field
+    of a refused typed value, a ``ValidationError`` when the model refuses one.
     """
     data = _typed(texts, ENTRY_ORDER)
     further = [f.model_dump(exclude_defaults=True) for f in (base.further if base else [])]

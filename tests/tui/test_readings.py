@@ -256,3 +256,27 @@ async def test_a_small_value_is_recorded_exactly_as_typed(oak_lane: Path) -> Non
         await app.settle()
         reading = app.site.latest_visit().readings["rb2"]  # type: ignore[union-attr]
         assert reading.x1_0 == 0.001
+
+
+async def test_enter_on_a_good_value_goes_to_the_field_that_blocks_the_reading(
+    oak_lane: Path,
+) -> None:
+    before = oak_lane.read_bytes()
+    app = make_app(oak_lane)
+    async with app.run_test(size=(80, 24)) as pilot:
+        await app.settle()
+        screen = await _open_readings(app, pilot, "rb2")  # untested in the sample
+        screen.pad.go("x1_180")
+        await pilot.press(*"99999")  # refused: a trip test never runs 100 s
+        screen.pad.go("x1_0")
+        await pilot.press("2", "8", "enter")
+        # nothing is recorded while any field is refused; the cursor goes to that field and
+        # the good one says why it was not recorded (not a silent "within band")
+        assert screen.pad.current == "x1_180"
+        assert screen.verdicts["x1_0"].startswith("1 × IΔn, 180° first: ")
+        assert "at most 10000 ms" in screen.verdicts["x1_180"]
+        status = screen.query_one("#rd-status").render().plain  # type: ignore[attr-defined]
+        assert "at most 10000 ms" in " ".join(status.split())
+        assert app.site.latest_visit().readings.get("rb2") is None  # type: ignore[union-attr]
+        await app.settle()
+    assert oak_lane.read_bytes() == before

@@ -22,6 +22,7 @@ from textual.widgets import Static
 
 from model.rules.entry import (
     EntryVerdict,
+    FieldProblem,
     chosen_waveform,
     entry_texts,
     judge_entry,
@@ -32,7 +33,7 @@ from model.site.editing import is_untested, next_untested
 from model.site.fields import errors_by_field
 from model.site.history import previous_reading
 from model.site.models import Reading, Visit
-from model.site.terms import TestWaveform, choices_of
+from model.site.terms import TestWaveform, choices_of, reading_label
 from tui.app.view import site_view
 from tui.format import LIVE_TEST_CAUTION
 from tui.screens.closing import ClosesOnce
@@ -264,6 +265,16 @@ class ReadingScreen(ClosesOnce[str]):
             reading = reading_from_texts(self.pad.values, self._recorded(), self.page)
         except ValueError as exc:
             msgs = errors_by_field(exc) if isinstance(exc, ValidationError) else {}
+            if isinstance(exc, FieldProblem):
+                msgs = {exc.field: str(exc)}
+            if field not in msgs and msgs and next(iter(msgs)) in self.pad.values:
+                # another field holds what cannot be recorded: say so here, then go there
+                other = next(iter(msgs))
+                self._refuse(field, f"{reading_label(other)} first: {msgs[other]}")
+                self.pad.go(other)
+                self._show_status()
+                self._refuse(other, msgs[other])
+                return False
             self._refuse(field, msgs.get(field) or next(iter(msgs.values()), str(exc)))
             return False
         visit = site_view(self).site.latest_visit()
