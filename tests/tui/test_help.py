@@ -108,3 +108,23 @@ async def test_a_narrow_key_line_keeps_help_and_the_palette_and_fits(
         await pilot.pause()
         said = {k.description for k in app.main.query(FooterKey)}
         assert {"Move", "Copy", "Impact", "Pair", "What if", "Help", "Quit"} <= said
+
+
+def test_keys_that_still_do_not_fit_give_way_from_the_end_but_help_and_palette_stay() -> None:
+    from tui.widgets.key_bar import fitted, key_width
+
+    keys = [
+        FooterKey("escape", "esc", "Back to tree", "back"),
+        FooterKey("pagedown", "pgdn", "Next device", "device(1)"),
+        FooterKey("pageup", "pgup", "Prev device", "device(-1)"),
+        FooterKey("ctrl+t", "^t", "Not tested", "not_tested"),
+        FooterKey("ctrl+w", "^w", "Other test current", "page"),
+        FooterKey("f1", "f1", "Help", "app.help"),
+        FooterKey("ctrl+p", "^p", "palette", "app.command_palette", classes="-command-palette"),
+    ]
+    kept = fitted(list(keys), 78)
+    said = [k.description for k in kept]
+    assert sum(key_width(k) for k in kept) <= 78
+    # the previous-device key goes first, then the last screen keys; Help and palette stay
+    assert said == ["Back to tree", "Next device", "Not tested", "Help", "palette"]
+    assert fitted(list(keys), 200) == keys  # nothing drops where all fit

@@ -25,6 +25,7 @@ DROP_FIRST = (
     "undo",
     "pair",
     "what_if",
+    "device(-1)",  # the readings: previous device (next device stays)
 )
 
 
@@ -35,7 +36,8 @@ def key_width(key: FooterKey) -> int:
 
 def fitted(keys: list[Widget], width: int) -> list[Widget]:
     """``keys`` without the ones :data:`DROP_FIRST` names, in that order, until the rest
-    fit in ``width`` cells (the palette key and every other key always stay)."""
+    fit in ``width`` cells; then, if need be, without the last ones (Help and the
+    palette key always stay)."""
     kept = list(keys)
 
     def used() -> int:
@@ -49,6 +51,22 @@ def fitted(keys: list[Widget], width: int) -> list[Widget]:
             for k in kept
             if not (isinstance(k, FooterKey) and k.action.removeprefix("app.") == action)
         ]
+    # a screen whose own keys still do not fit: the last ones give way, never Help or
+    # the palette (its keys are all in the help)
+    while used() > width:
+        last = next(
+            (
+                k
+                for k in reversed(kept)
+                if isinstance(k, FooterKey)
+                and k.action.removeprefix("app.") != "help"
+                and not k.has_class("-command-palette")
+            ),
+            None,
+        )
+        if last is None:
+            break
+        kept.remove(last)
     return kept
 
 
