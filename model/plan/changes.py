@@ -188,8 +188,11 @@ def change_ops(
     return ops
 
 
-#: The notes of a visit hold at most this many characters (``Visit.notes``).
-_NOTES_MAX = 20_000
+def _notes_max() -> int:
+    """How many characters a visit's notes may hold, as the site model says."""
+    from model.site.models import Visit
+
+    return int(next(m.max_length for m in Visit.model_fields["notes"].metadata))
 
 
 def _record_ops(site: SiteFile, ops: Sequence[Op], when: str) -> Iterable[Op]:
@@ -215,9 +218,9 @@ def _record_ops(site: SiteFile, ops: Sequence[Op], when: str) -> Iterable[Op]:
                 f"its readings of this visit, of the earlier device: {values}"
             )
         notes = "\n".join(x for x in (v.notes, *lines) if x)
-        if len(notes) > _NOTES_MAX:
+        if len(notes) > (most := _notes_max()):
             tail = " … (cut to fit the visit's notes)"
-            notes = notes[: _NOTES_MAX - len(tail)] + tail
+            notes = notes[: most - len(tail)] + tail
         readings = {k: r for k, r in v.readings.items() if k not in devices}
         yield UpsertVisit(visit=v.model_copy(update={"notes": notes, "readings": readings}))
 

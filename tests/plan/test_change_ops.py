@@ -109,3 +109,14 @@ def test_a_change_made_on_the_site_keeps_the_old_readings_in_the_visits_notes() 
     assert {k for v in after.visits for k in v.readings} == {
         k for v in site.visits for k in v.readings
     } - {"rc2"}
+
+
+def test_full_visit_notes_are_cut_with_a_mark_never_refused_or_overrun() -> None:
+    site = load_site(OAK)
+    last = site.visits[-1]
+    full = last.model_copy(update={"notes": "x" * 19_990})
+    site = site.model_copy(update={"visits": [*site.visits[:-1], full]})
+    after = apply_changes(site, [_change("rc2", ("waveform", "AC", "A"))], record="t")
+    notes = after.visits[-1].notes
+    # Visit.notes holds at most 20,000 characters (the site model); the cut is said
+    assert len(notes) == 20_000 and notes.endswith("(cut to fit the visit's notes)")
